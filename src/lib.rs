@@ -1,0 +1,7 @@
+//! loopwise: exact and finite-coupling predictions for loop coefficients of
+//! planar N=4 super-Yang-Mills, and order-by-order checks of users' results
+//! against them.
+
+pub mod error;
+
+pub use error::{Error, ErrorKind, Result};
