@@ -5,5 +5,6 @@
 pub mod coupling;
 pub mod error;
 pub mod ring;
+pub mod series;
 
 pub use error::{Error, ErrorKind, Result};
