@@ -5,6 +5,7 @@
 pub mod coupling;
 pub mod error;
 pub mod ring;
+pub mod kernel;
 pub mod series;
 
 pub use error::{Error, ErrorKind, Result};

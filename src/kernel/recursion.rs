@@ -1,0 +1,308 @@
+//! The forward recursion for one diagonal element of the resolvent,
+//! [(1 + K_{>=s})^(-1)]_{ss}, order by order in g, in exact integer arithmetic.
+//!
+//! With R = (1 + K)^(-1) e_s: R^(0) = e_s and R^(n) = -sum_{p>=2} K^(p) R^(n-p)
+//! (physics.md section 3). Three facts keep the work small:
+//! - K^(p)_ij is a_ijp / D_p times one monomial M_p, so the sum over j at
+//!   fixed p is an integer combination of vectors of one weight, and the
+//!   monomial is applied once afterwards;
+//! - R^(m)_j can only reach the diagonal element at order top if
+//!   m + j + s <= top (the cheapest way back from j to s costs g^(j+s)), and it
+//!   vanishes unless m + j + s is even; other entries are never formed;
+//! - every vector of one weight shares one denominator, reduced after each
+//!   weight, so the inner loops are integer multiply-adds (GMP addmul).
+//!
+//! Targets of one weight are independent and are shared between threads.
+
+use std::sync::atomic::{AtomicUsize, Ordering};
+use std::sync::Mutex;
+
+use rug::{Integer, Rational};
+
+use super::basis::{kernel_factor, WeightBases};
+use super::entries::KernelTable;
+use crate::ring::{Exact, Monomial};
+
+/// How the tilt enters: the factor 2 c2 on most entries and 2 s2 = 2 (1 - c2)
+/// on entries with i even and j odd (physics.md section 3, rational form).
+#[derive(Clone, Debug)]
+pub enum TiltFactors {
+    /// c2 = u / w with integers 0 <= u <= w.
+    Rational { u: Integer, w: Integer },
+    /// c2 kept as a symbol: vectors carry one slot per power of c2.
+    Symbolic,
+}
+
+impl TiltFactors {
+    fn slots(&self, weight: usize) -> usize {
+        match self {
+            TiltFactors::Rational { .. } => 1,
+            TiltFactors::Symbolic => weight / 2 + 1,
+        }
+    }
+}
+
+/// Everything the recursion reads, built once per maximal order.
+pub struct Tables {
+    pub kernel: KernelTable,
+    pub bases: WeightBases,
+    shifts: Vec<Vec<Vec<u32>>>,
+}
+
+impl Tables {
+    pub fn new(top: usize) -> Self {
+        let bases = WeightBases::new(top);
+        let shifts = bases.shift_maps();
+        Tables { kernel: KernelTable::new(top), bases, shifts }
+    }
+}
+
+/// The vectors R^(m)_j of one weight m: a common denominator and, per index j,
+/// integer numerators laid out as [basis element][power of c2].
+struct Level {
+    denominator: Integer,
+    /// (j, numerators), j ascending.
+    rows: Vec<(usize, Vec<Integer>)>,
+}
+
+impl Level {
+    fn row(&self, j: usize) -> Option<&Vec<Integer>> {
+        self.rows.iter().find(|(k, _)| *k == j).map(|(_, v)| v)
+    }
+}
+
+/// [(1 + K_{>=s})^(-1)]_{ss} through g^top, as exact coefficients of g^n for
+/// n = 0..=top (odd n are zero). `progress` is told (n, top) after each order.
+pub fn diagonal(
+    tables: &Tables,
+    tilt: &TiltFactors,
+    s: usize,
+    top: usize,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Vec<Exact> {
+    let threads = std::thread::available_parallelism().map_or(1, |n| n.get()).min(8);
+    let mut levels: Vec<Level> = Vec::with_capacity(top + 1);
+    let len0 = tables.bases.len(0) * tilt.slots(0);
+    let mut start = vec![Integer::new(); len0];
+    start[0] = Integer::from(1);
+    levels.push(Level { denominator: Integer::from(1), rows: vec![(s, start)] });
+
+    for n in 1..=top {
+        let targets: Vec<usize> = (s..)
+            .take_while(|&i| n + i + s <= top || (i == s && n <= top))
+            .filter(|&i| (n + i + s) % 2 == 0)
+            .collect();
+        let common = level_denominator(tables, tilt, &levels, n, s, &targets);
+        let next = AtomicUsize::new(0);
+        let results: Mutex<Vec<(usize, Vec<Integer>)>> = Mutex::new(Vec::with_capacity(targets.len()));
+        let work = || loop {
+            let k = next.fetch_add(1, Ordering::Relaxed);
+            let Some(&i) = targets.get(k) else { break };
+            let row = target_row(tables, tilt, &levels, n, i, s, &common);
+            results.lock().unwrap_or_else(|e| e.into_inner()).push((i, row));
+        };
+        // Spawning costs more than a small level takes.
+        if threads > 1 && targets.len() > 1 && tables.bases.len(n) * tilt.slots(n) >= 32 {
+            std::thread::scope(|scope| {
+                for _ in 0..threads.min(targets.len()) {
+                    scope.spawn(work);
+                }
+            });
+        } else {
+            work();
+        }
+        let mut rows = results.into_inner().unwrap_or_else(|e| e.into_inner());
+        rows.sort_by_key(|(i, _)| *i);
+        levels.push(reduce(Level { denominator: common, rows }));
+        progress(n, top);
+    }
+
+    levels
+        .iter()
+        .enumerate()
+        .map(|(n, level)| match level.row(s) {
+            Some(v) => to_exact(tables, tilt, n, &level.denominator, v),
+            None => Exact::zero(),
+        })
+        .collect()
+}
+
+/// The sources (m, j) feeding target (n, i), with p = n - m.
+fn sources<'a>(levels: &'a [Level], n: usize, i: usize) -> impl Iterator<Item = (usize, usize, &'a Vec<Integer>)> + 'a {
+    levels.iter().enumerate().flat_map(move |(m, level)| {
+        level
+            .rows
+            .iter()
+            .filter(move |(j, _)| m + i + j <= n)
+            .map(move |(j, v)| (m, *j, v))
+    })
+}
+
+/// The extra denominator the tilt brings: w for rational c2 = u/w.
+fn tilt_denominator(tilt: &TiltFactors) -> Integer {
+    match tilt {
+        TiltFactors::Rational { w, .. } => w.clone(),
+        TiltFactors::Symbolic => Integer::from(1),
+    }
+}
+
+/// lcm over contributing p of D_p * E_m * (tilt denominator).
+fn level_denominator(tables: &Tables, tilt: &TiltFactors, levels: &[Level], n: usize, s: usize, targets: &[usize]) -> Integer {
+    let mut common = Integer::from(1);
+    let Some(&i) = targets.first() else { return common };
+    debug_assert!(i >= s);
+    let mut seen = vec![false; n + 1];
+    for (m, _, _) in sources(levels, n, i) {
+        if !seen[m] {
+            seen[m] = true;
+            let d = Integer::from(tables.kernel.denominator(n - m) * &levels[m].denominator) * tilt_denominator(tilt);
+            common.lcm_mut(&d);
+        }
+    }
+    common
+}
+
+/// R^(n)_i as integer numerators over `common`.
+fn target_row(
+    tables: &Tables,
+    tilt: &TiltFactors,
+    levels: &[Level],
+    n: usize,
+    i: usize,
+    s: usize,
+    common: &Integer,
+) -> Vec<Integer> {
+    let slots_n = tilt.slots(n);
+    let mut out = vec![Integer::new(); tables.bases.len(n) * slots_n];
+    for m in 0..n {
+        let level = &levels[m];
+        let p = n - m;
+        if p < i + s {
+            continue;
+        }
+        let len_m = tables.bases.len(m) * tilt.slots(m);
+        // The two tilt classes: 2 c2 (default) and 2 s2 (i even, j odd).
+        let mut sum_c = vec![Integer::new(); len_m];
+        let mut sum_s = vec![Integer::new(); len_m];
+        let (mut any_c, mut any_s) = (false, false);
+        for (j, v) in &level.rows {
+            if p < i + j {
+                continue;
+            }
+            let a = tables.kernel.numerator(i, *j, p);
+            if a.is_zero() {
+                continue;
+            }
+            let into_s = i % 2 == 0 && j % 2 == 1;
+            let acc = if into_s { &mut sum_s } else { &mut sum_c };
+            for (x, y) in acc.iter_mut().zip(v) {
+                if !y.is_zero() {
+                    *x += a * y;
+                }
+            }
+            if into_s {
+                any_s = true;
+            } else {
+                any_c = true;
+            }
+        }
+        if !any_c && !any_s {
+            continue;
+        }
+        // R^(n)_i = -sum_p M_p (1 / (D_p E_m)) (tilt factors) sums.
+        let scale = Integer::from(common / (Integer::from(tables.kernel.denominator(p) * &level.denominator) * tilt_denominator(tilt)));
+        let shift = &tables.shifts[m][p];
+        let slots_m = tilt.slots(m);
+        match tilt {
+            TiltFactors::Rational { u, w } => {
+                let fc = Integer::from(u * 2u32) * &scale;
+                let fs = Integer::from(Integer::from(w - u) * 2u32) * &scale;
+                for (b, &target) in shift.iter().enumerate() {
+                    let t = &mut out[target as usize];
+                    if any_c && !sum_c[b].is_zero() {
+                        *t -= &fc * &sum_c[b];
+                    }
+                    if any_s && !sum_s[b].is_zero() {
+                        *t -= &fs * &sum_s[b];
+                    }
+                }
+            }
+            TiltFactors::Symbolic => {
+                let two_scale = Integer::from(&scale * 2u32);
+                for (b, &target) in shift.iter().enumerate() {
+                    for d in 0..slots_m {
+                        let base = target as usize * slots_n;
+                        // 2 c2 * sum_c: c2^d -> c2^(d+1).
+                        let c = &sum_c[b * slots_m + d];
+                        if !c.is_zero() {
+                            out[base + d + 1] -= &two_scale * c;
+                        }
+                        // 2 (1 - c2) * sum_s.
+                        let x = &sum_s[b * slots_m + d];
+                        if !x.is_zero() {
+                            out[base + d] -= &two_scale * x;
+                            out[base + d + 1] += &two_scale * x;
+                        }
+                    }
+                }
+            }
+        }
+    }
+    out
+}
+
+/// Divides the level by the gcd of its denominator and all numerators.
+fn reduce(mut level: Level) -> Level {
+    let mut g = level.denominator.clone();
+    for (_, v) in &level.rows {
+        for x in v {
+            if g == 1 {
+                break;
+            }
+            if !x.is_zero() {
+                g.gcd_mut(x);
+            }
+        }
+    }
+    if g != 1 {
+        level.denominator.div_exact_mut(&g);
+    }
+    // Rows live until the end, so they give back what the accumulation over-allocated.
+    for (_, v) in &mut level.rows {
+        for x in v.iter_mut() {
+            if g != 1 && !x.is_zero() {
+                x.div_exact_mut(&g);
+            }
+            x.shrink_to_fit();
+        }
+    }
+    level
+}
+
+fn to_exact(tables: &Tables, tilt: &TiltFactors, n: usize, denominator: &Integer, v: &[Integer]) -> Exact {
+    let slots = tilt.slots(n);
+    let mut out = Exact::zero();
+    for (k, x) in v.iter().enumerate() {
+        if x.is_zero() {
+            continue;
+        }
+        let (b, d) = (k / slots, k % slots);
+        let mut m = tables.bases.monomial(n, b);
+        if d > 0 {
+            m = m.mul(&Monomial::symbol(super::C2, d as u32));
+        }
+        out.add_term(m, Rational::from((x.clone(), denominator.clone())));
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn kernel_factor_is_pi_or_zeta() {
+        assert_eq!(kernel_factor(4), Monomial::pi_power(4));
+        assert_eq!(kernel_factor(5), Monomial::odd_zeta(5));
+    }
+}
