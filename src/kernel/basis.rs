@@ -69,15 +69,6 @@ fn times_factor(parts: &[u8], p: usize) -> Vec<u8> {
     out
 }
 
-/// M_p: pi^p for even p, zeta(p) for odd p.
-pub fn kernel_factor(p: usize) -> Monomial {
-    if p % 2 == 0 {
-        Monomial::pi_power(p as i32)
-    } else {
-        Monomial::odd_zeta(p as u32)
-    }
-}
-
 /// All multisets of parts from {2} and odd n >= 3, parts <= max, summing to w.
 fn partitions(w: u8, max: u8, current: &mut Vec<u8>, out: &mut Vec<Box<[u8]>>) {
     if w == 0 {
@@ -96,6 +87,15 @@ fn partitions(w: u8, max: u8, current: &mut Vec<u8>, out: &mut Vec<Box<[u8]>>) {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// M_p: pi^p for even p, zeta(p) for odd p.
+    fn kernel_factor(p: usize) -> Monomial {
+        if p % 2 == 0 {
+            Monomial::pi_power(p as i32)
+        } else {
+            Monomial::odd_zeta(p as u32)
+        }
+    }
 
     /// Counts of partitions of w into parts 2, 3, 5, 7, ... (derived here by hand
     /// for small w: 8 = 2+2+2+2 = 3+3+2 = 5+3; 9 = 9 = 7+2 = 5+2+2 = 3+3+3 = 3+2+2+2).

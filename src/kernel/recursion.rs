@@ -19,7 +19,7 @@ use std::sync::Mutex;
 
 use rug::{Integer, Rational};
 
-use super::basis::{kernel_factor, WeightBases};
+use super::basis::WeightBases;
 use super::entries::KernelTable;
 use crate::ring::{Exact, Monomial};
 
@@ -294,15 +294,4 @@ fn to_exact(tables: &Tables, tilt: &TiltFactors, n: usize, denominator: &Integer
         out.add_term(m, Rational::from((x.clone(), denominator.clone())));
     }
     out
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn kernel_factor_is_pi_or_zeta() {
-        assert_eq!(kernel_factor(4), Monomial::pi_power(4));
-        assert_eq!(kernel_factor(5), Monomial::odd_zeta(5));
-    }
 }
