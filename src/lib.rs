@@ -2,10 +2,12 @@
 //! planar N=4 super-Yang-Mills, and order-by-order checks of users' results
 //! against them.
 
+pub mod catalogue;
 pub mod coupling;
 pub mod error;
 pub mod ring;
 pub mod kernel;
 pub mod series;
+pub mod suggest;
 
 pub use error::{Error, ErrorKind, Result};
