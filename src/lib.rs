@@ -5,8 +5,9 @@
 pub mod catalogue;
 pub mod coupling;
 pub mod error;
-pub mod ring;
+pub mod expr;
 pub mod kernel;
+pub mod ring;
 pub mod series;
 pub mod suggest;
 

@@ -1,0 +1,215 @@
+//! The coefficient language: the typed, spanned expression tree that the
+//! parser produces, its canonical printed form, and the entry points
+//! [`parse`] and [`error_at`]. The grammar itself is `grammar/expr.pest`;
+//! turning pest's output into this tree lives in `parse.rs`, and the
+//! rendering of messages with a caret under the culprit in `report.rs`.
+//!
+//! What the language accepts, briefly (the grammar file has the details):
+//! integers, decimals (`-1240.9`, `1.2e-3`, `1.2*^-3`), decimals with an
+//! uncertainty (`-1240.9(2)`, `1.2e-3 ± 1e-4`, `+-`, `+/-`), `pi`/`π`,
+//! `catalan`, `zeta(3)`/`Zeta[3]`/`ζ(3)`/`z3`/`zeta3`/`ζ3`, multiple zeta
+//! values `zeta(5,3)`, `log(2)`/`ln(2)`/`Log[2]`, `Gamma(ANGLE)` and
+//! `Delta(ANGLE)` (also `Γ`, `Δ`) with ANGLE an expression in radians,
+//! `c2=EXPR` or `c2`, symbols (`l1`, `x`, the coupling `g`), the operators
+//! `+ - * / ^ **`, and multiplication by juxtaposition (`2pi^2`, `3(1+pi)`).
+//! `^` binds tighter than a sign (`-pi^2` is `-(pi^2)`) and groups to the
+//! right (`2^3^2` is `2^(3^2)`).
+//!
+//! Two readings to know about: a number glued to a bracket of digits is a
+//! number with an uncertainty (`1.5(3)` is 1.5 ± 0.3, and so is `15(3)`
+//! 15 ± 3), while `1.5 (3)` with a blank is a product; and `+-` right after a
+//! number literal is ±, so write `2 + -3` for a sum with a negative term.
+
+mod parse;
+mod report;
+
+use std::fmt;
+
+pub use parse::{MAX_DEPTH, MAX_DIGITS, MAX_EXPONENT, MAX_NESTING, MAX_SOURCE_BYTES, MAX_ZETA_ARGUMENT, MAX_ZETA_DEPTH};
+
+use crate::error::{Error, ErrorKind, Result};
+
+/// Byte offsets `start..end` into the parsed source text.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
+pub struct Span {
+    pub start: usize,
+    pub end: usize,
+}
+
+/// A node together with the stretch of source it came from.
+///
+/// Equality compares structure only: two trees that differ only in where
+/// their text sat are equal, which is what "the same expression" means.
+#[derive(Debug, Clone)]
+pub struct Expr {
+    pub node: Node,
+    pub span: Span,
+}
+
+impl PartialEq for Expr {
+    fn eq(&self, other: &Self) -> bool {
+        self.node == other.node
+    }
+}
+
+impl Eq for Expr {}
+
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Node {
+    Integer(rug::Integer),
+    /// A decimal literal: its exact written value, and the absolute uncertainty if one was given.
+    Decimal { value: rug::Rational, uncertainty: Option<rug::Rational>, text: String },
+    Pi,
+    Catalan,
+    /// zeta(s1, ..., sk); k = 1 is the ordinary zeta value.
+    Zeta(Vec<u32>),
+    Log(Box<Expr>),
+    /// Kinematic symbols and the coupling `g`.
+    Symbol(String),
+    Functional { kind: FunctionalKind, angle: Angle },
+    Neg(Box<Expr>),
+    Add(Box<Expr>, Box<Expr>),
+    Sub(Box<Expr>, Box<Expr>),
+    Mul(Box<Expr>, Box<Expr>),
+    Div(Box<Expr>, Box<Expr>),
+    Pow(Box<Expr>, Box<Expr>),
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum FunctionalKind {
+    Gamma,
+    Delta,
+}
+
+/// How the argument of `Gamma(...)` / `Delta(...)` was given.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Angle {
+    /// An angle in radians: `Gamma(pi/4)`.
+    Radians(Box<Expr>),
+    /// The squared cosine of the angle: `Gamma(c2=1/3)`.
+    Cos2(Box<Expr>),
+    /// The squared cosine kept as a symbol: `Gamma(c2)`.
+    SymbolicCos2,
+}
+
+/// Parses one expression of the coefficient language.
+///
+/// `origin` names the source for messages ("file.yaml" or "<argument>");
+/// `place` optionally shifts reported line/column when the text sits inside
+/// a larger file (line, column of its first character, both from 1), so
+/// errors point into that file.
+pub fn parse(source: &str, origin: &str, place: Option<(usize, usize)>) -> Result<Expr> {
+    parse::parse(source, origin, place)
+}
+
+/// Renders a semantic error (found later by an evaluator) at a span, in the
+/// same style as parse errors: origin:line:column, the line, a caret under
+/// the span, the message. The error's kind is [`ErrorKind::Input`].
+pub fn error_at(source: &str, origin: &str, place: Option<(usize, usize)>, span: Span, message: &str) -> Error {
+    report::render(ErrorKind::Input, source, origin, place, span, message)
+}
+
+/// Calls `visit` on every symbol in the tree (inside functionals and logs
+/// too), with its span, left to right.
+pub fn for_each_symbol<'e>(expr: &'e Expr, visit: &mut dyn FnMut(&'e str, Span)) {
+    match &expr.node {
+        Node::Symbol(name) => visit(name, expr.span),
+        Node::Integer(_) | Node::Decimal { .. } | Node::Pi | Node::Catalan | Node::Zeta(_) => {}
+        Node::Log(inner) | Node::Neg(inner) => for_each_symbol(inner, visit),
+        Node::Functional { angle, .. } => match angle {
+            Angle::Radians(inner) | Angle::Cos2(inner) => for_each_symbol(inner, visit),
+            Angle::SymbolicCos2 => {}
+        },
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+            for_each_symbol(a, visit);
+            for_each_symbol(b, visit);
+        }
+    }
+}
+
+/// Binding strength for printing; mirrors the Pratt table in parse.rs.
+fn strength(node: &Node) -> u8 {
+    match node {
+        Node::Add(..) | Node::Sub(..) => 1,
+        Node::Mul(..) | Node::Div(..) => 2,
+        Node::Neg(..) => 3,
+        Node::Pow(..) => 4,
+        _ => 5,
+    }
+}
+
+/// A literal written with `±` has blanks inside; brackets keep it readable
+/// when it is an operand.
+fn spelled_with_plus_minus(node: &Node) -> bool {
+    matches!(node, Node::Decimal { text, .. } if !text.bytes().all(|b| b.is_ascii_alphanumeric() || b"().+-*^".contains(&b)))
+}
+
+fn operand(f: &mut fmt::Formatter<'_>, e: &Expr, bracket: bool) -> fmt::Result {
+    if bracket || spelled_with_plus_minus(&e.node) {
+        write!(f, "({e})")
+    } else {
+        write!(f, "{e}")
+    }
+}
+
+/// The canonical form: explicit `*`, brackets only where the grammar needs
+/// them, so that parsing the printed text gives back an equal tree.
+impl fmt::Display for Expr {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let own = strength(&self.node);
+        match &self.node {
+            Node::Integer(n) => write!(f, "{n}"),
+            Node::Decimal { text, .. } => f.write_str(text),
+            Node::Pi => f.write_str("pi"),
+            Node::Catalan => f.write_str("catalan"),
+            Node::Zeta(args) => {
+                f.write_str("zeta(")?;
+                for (i, a) in args.iter().enumerate() {
+                    if i > 0 {
+                        f.write_str(",")?;
+                    }
+                    write!(f, "{a}")?;
+                }
+                f.write_str(")")
+            }
+            Node::Log(inner) => write!(f, "log({inner})"),
+            Node::Symbol(name) => f.write_str(name),
+            Node::Functional { kind, angle } => {
+                let name = match kind {
+                    FunctionalKind::Gamma => "Gamma",
+                    FunctionalKind::Delta => "Delta",
+                };
+                match angle {
+                    // A radian angle that is the bare symbol `c2` needs brackets,
+                    // or it would read back as the symbolic squared cosine.
+                    Angle::Radians(inner) if matches!(&inner.node, Node::Symbol(s) if s.eq_ignore_ascii_case("c2")) => {
+                        write!(f, "{name}(({inner}))")
+                    }
+                    Angle::Radians(inner) => write!(f, "{name}({inner})"),
+                    Angle::Cos2(inner) => write!(f, "{name}(c2={inner})"),
+                    Angle::SymbolicCos2 => write!(f, "{name}(c2)"),
+                }
+            }
+            Node::Neg(inner) => {
+                f.write_str("-")?;
+                operand(f, inner, strength(&inner.node) < own)
+            }
+            Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) => {
+                let op = match &self.node {
+                    Node::Add(..) => " + ",
+                    Node::Sub(..) => " - ",
+                    Node::Mul(..) => "*",
+                    _ => "/",
+                };
+                operand(f, a, strength(&a.node) < own)?;
+                f.write_str(op)?;
+                operand(f, b, strength(&b.node) <= own)
+            }
+            Node::Pow(a, b) => {
+                operand(f, a, strength(&a.node) <= own)?;
+                f.write_str("^")?;
+                operand(f, b, strength(&b.node) < own && !matches!(b.node, Node::Neg(_)))
+            }
+        }
+    }
+}
