@@ -7,6 +7,7 @@ pub mod coupling;
 pub mod error;
 pub mod expr;
 pub mod kernel;
+pub mod prediction;
 pub mod ring;
 pub mod series;
 pub mod suggest;
