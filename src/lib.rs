@@ -8,6 +8,7 @@ pub mod error;
 pub mod expr;
 pub mod kernel;
 pub mod prediction;
+pub mod report;
 pub mod ring;
 pub mod series;
 pub mod suggest;

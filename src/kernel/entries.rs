@@ -21,33 +21,22 @@ pub struct KernelTable {
 }
 
 impl KernelTable {
+    /// With p = i + j + 2k the factorials collapse to binomials,
+    /// p! (p-1)! / (k! (i+k)! (j+k)! (i+j+k)!) = C(p, i+k) C(p, k) / p,
+    /// so a_ijp = +-2 j C(p, i+k) C(p, k) z_num and D_p = p z_den, where
+    /// z = zeta(p)/pi^p (or 1 for odd p). D_p need not be the least common
+    /// denominator: the recursion reduces every level anyway.
     pub fn new(top: usize) -> Self {
         let mut numerators = vec![Vec::new(); top + 1];
         let mut denominators = vec![Integer::from(1); top + 1];
         for p in 2..=top {
-            let mut rows: Vec<Vec<Rational>> = Vec::new();
-            let mut d = Integer::from(1);
-            for i in 1..p {
-                let mut row = Vec::new();
-                for j in 1..=(p - i) {
-                    let r = entry(i as u32, j as u32, p as u32);
-                    d.lcm_mut(r.denom());
-                    row.push(r);
-                }
-                rows.push(row);
-            }
-            numerators[p] = rows
-                .into_iter()
-                .map(|row| {
-                    row.into_iter()
-                        .map(|r| {
-                            let (n, den) = r.into_numer_denom();
-                            n * Integer::from(&d / &den)
-                        })
-                        .collect()
-                })
+            let z = if p % 2 == 0 { even_zeta_over_pi_power(p as u32 / 2) } else { Rational::from(1) };
+            let (z_num, z_den) = z.into_numer_denom();
+            let binomials = binomial_row(p as u32);
+            numerators[p] = (1..p)
+                .map(|i| (1..=(p - i)).map(|j| numerator(&binomials, &z_num, i as u32, j as u32, p as u32)).collect())
                 .collect();
-            denominators[p] = d;
+            denominators[p] = z_den * p as u32;
         }
         KernelTable { numerators, denominators }
     }
@@ -62,26 +51,34 @@ impl KernelTable {
     }
 }
 
-/// The rational coefficient of M_p g^p in K_ij.
-pub fn entry(i: u32, j: u32, p: u32) -> Rational {
+/// C(p, 0), ..., C(p, p).
+fn binomial_row(p: u32) -> Vec<Integer> {
+    let mut row = vec![Integer::from(1)];
+    for k in 0..p {
+        let next = Integer::from(&row[k as usize] * (p - k)) / (k + 1);
+        row.push(next);
+    }
+    row
+}
+
+fn numerator(binomials: &[Integer], z_num: &Integer, i: u32, j: u32, p: u32) -> Integer {
     if p < i + j || (p - i - j) % 2 == 1 {
-        return Rational::new();
+        return Integer::new();
     }
     let k = (p - i - j) / 2;
-    let f = |n: u32| Integer::from(Integer::factorial(n));
-    let num = f(p) * f(p - 1) * 2u32 * j;
-    let den = f(k) * f(i + k) * f(j + k) * f(i + j + k);
-    let mut r = Rational::from((num, den));
-    if (j * (i + 1)) % 2 == 1 {
-        r = -r;
+    let a = Integer::from(&binomials[(i + k) as usize] * &binomials[k as usize]) * z_num * (2 * j);
+    if ((j * (i + 1)) % 2 == 1) != (k % 2 == 1) {
+        -a
+    } else {
+        a
     }
-    if k % 2 == 1 {
-        r = -r;
-    }
-    if p % 2 == 0 {
-        r *= even_zeta_over_pi_power(p / 2);
-    }
-    r
+}
+
+/// The rational coefficient of M_p g^p in K_ij.
+pub fn entry(i: u32, j: u32, p: u32) -> Rational {
+    let z = if p % 2 == 0 { even_zeta_over_pi_power(p / 2) } else { Rational::from(1) };
+    let (z_num, z_den) = z.into_numer_denom();
+    Rational::from((numerator(&binomial_row(p), &z_num, i, j, p), z_den * p))
 }
 
 #[cfg(test)]

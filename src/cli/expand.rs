@@ -1,0 +1,64 @@
+//! `loopwise expand`: validate the arguments, expand, print.
+
+use clap::Args as ClapArgs;
+
+use loopwise::catalogue::Catalogue;
+use loopwise::kernel::MAX_LOOPS;
+use loopwise::prediction::Quantity;
+use loopwise::report::expansion::Expansion;
+use loopwise::{Error, Result};
+
+use super::progress::Progress;
+use super::{emit, CouplingArg, EvenArg, FormatArg, Outcome};
+
+/// The largest number of significant digits `--digits` accepts.
+pub const MAX_DIGITS: u32 = 10_000;
+
+#[derive(ClapArgs, Debug)]
+pub struct Args {
+    /// A catalogue name (see `loopwise list`) or a formula such as Gamma(pi/6),
+    /// Delta(c2=1/3), Gamma(c2) or -zeta(2)/2*Gamma(pi/4) + Delta(0)/4.
+    pub quantity: String,
+    /// The highest loop order L (coefficient of g^(2L)).
+    #[arg(long, short = 'L', default_value_t = 5)]
+    pub loops: u32,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "text")]
+    pub format: FormatArg,
+    /// Significant decimal digits of the numerical values.
+    #[arg(long, default_value_t = 20)]
+    pub digits: u32,
+    /// Write even zeta values as powers of pi or as zeta(2n).
+    #[arg(long, value_enum, default_value = "pi")]
+    pub even: EvenArg,
+    /// The coupling the coefficients are given in.
+    #[arg(long, value_enum, default_value = "g2")]
+    pub coupling: CouplingArg,
+}
+
+pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
+    if args.loops == 0 || args.loops > MAX_LOOPS {
+        return Err(Error::range(format!(
+            "--loops {} is out of range: the exact engine takes 1 to {MAX_LOOPS} loops",
+            args.loops
+        )));
+    }
+    if args.digits == 0 || args.digits > MAX_DIGITS {
+        return Err(Error::range(format!("--digits {} is out of range: 1 to {MAX_DIGITS}", args.digits)));
+    }
+    let quantity = Quantity::resolve(&args.quantity, catalogue)?;
+    let mut progress = Progress::new();
+    let series = quantity.expand(args.loops, &mut |what, done, total| progress.update(what, done, total));
+    progress.finish();
+    let report = Expansion::new(
+        &quantity.label,
+        &quantity.definition,
+        quantity.entry.clone(),
+        &series?,
+        args.coupling.into(),
+        args.even.into(),
+        args.digits,
+    );
+    emit(&report.render(args.format.into())?)?;
+    Ok(Outcome::Done)
+}

@@ -1,0 +1,157 @@
+//! Command-line arguments (clap derive) and the one map from outcomes to exit
+//! codes: 0 when results were produced, 2 when input could not be used. Messages go to stderr, results
+//! alone to stdout.
+
+mod expand;
+mod progress;
+
+use std::io::Write;
+use std::path::PathBuf;
+
+use clap::{Parser, Subcommand, ValueEnum};
+
+use loopwise::catalogue::Catalogue;
+use loopwise::coupling::Coupling;
+use loopwise::report::Format;
+use loopwise::ring::EvenStyle;
+use loopwise::{Error, Result};
+
+/// Exact and finite-coupling predictions for planar N=4 super-Yang-Mills loop
+/// coefficients, and order-by-order checks of your own results against them.
+#[derive(Parser, Debug)]
+#[command(name = "loopwise", version, about, long_about = None)]
+pub struct Cli {
+    /// A directory of extra catalogue entries (*.yaml); an entry with a
+    /// built-in name replaces the built-in one.
+    #[arg(long, global = true, value_name = "DIR")]
+    pub catalog: Option<PathBuf>,
+
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Subcommand, Debug)]
+pub enum Command {
+    /// Show the catalogue of named predictions.
+    List,
+    /// Exact loop coefficients of a prediction, order by order.
+    Expand(expand::Args),
+}
+
+/// Output formats, as the command line spells them.
+#[derive(Clone, Copy, Debug, ValueEnum)]
+pub enum FormatArg {
+    Text,
+    Json,
+    Yaml,
+    Latex,
+}
+
+impl From<FormatArg> for Format {
+    fn from(f: FormatArg) -> Self {
+        match f {
+            FormatArg::Text => Format::Text,
+            FormatArg::Json => Format::Json,
+            FormatArg::Yaml => Format::Yaml,
+            FormatArg::Latex => Format::Latex,
+        }
+    }
+}
+
+/// How even zeta values are written.
+#[derive(Clone, Copy, Debug, ValueEnum)]
+pub enum EvenArg {
+    /// pi^(2n)
+    Pi,
+    /// zeta(2n) times a rational
+    Zeta,
+}
+
+impl From<EvenArg> for EvenStyle {
+    fn from(e: EvenArg) -> Self {
+        match e {
+            EvenArg::Pi => EvenStyle::Pi,
+            EvenArg::Zeta => EvenStyle::Zeta,
+        }
+    }
+}
+
+/// Coupling conventions, as the command line spells them.
+#[derive(Clone, Copy, Debug, ValueEnum)]
+pub enum CouplingArg {
+    /// g^2 = lambda/(16 pi^2)
+    G2,
+    /// a = lambda/(8 pi^2) = 2 g^2
+    A,
+    /// the 't Hooft coupling
+    Lambda,
+}
+
+impl From<CouplingArg> for Coupling {
+    fn from(c: CouplingArg) -> Self {
+        match c {
+            CouplingArg::G2 => Coupling::G2,
+            CouplingArg::A => Coupling::A,
+            CouplingArg::Lambda => Coupling::Lambda,
+        }
+    }
+}
+
+/// What a command hands back to the exit-code map.
+pub enum Outcome {
+    /// Results were produced (or everything agreed).
+    Done,
+}
+
+/// Parses the arguments, runs the command, prints and returns the exit code.
+pub fn run() -> i32 {
+    let cli = Cli::parse();
+    match dispatch(&cli) {
+        Ok(Outcome::Done) => 0,
+        Err(e) => {
+            eprintln!("loopwise: {e}");
+            2
+        }
+    }
+}
+
+fn dispatch(cli: &Cli) -> Result<Outcome> {
+    let catalogue = load_catalogue(cli)?;
+    match &cli.command {
+        Command::List => list(&catalogue),
+        Command::Expand(args) => expand::run(args, &catalogue),
+    }
+}
+
+fn load_catalogue(cli: &Cli) -> Result<Catalogue> {
+    let mut c = Catalogue::builtin()?;
+    if let Some(dir) = &cli.catalog {
+        c.extend_from_dir(dir)?;
+    }
+    Ok(c)
+}
+
+/// Writes a finished report to stdout; a closed pipe is not an error worth a panic.
+pub fn emit(text: &str) -> Result<()> {
+    let mut out = std::io::stdout().lock();
+    out.write_all(text.as_bytes())
+        .and_then(|_| out.flush())
+        .map_err(|e| Error::io(format!("cannot write to standard output: {e}")))
+}
+
+fn list(catalogue: &Catalogue) -> Result<Outcome> {
+    let width = catalogue.names().map(str::len).max().unwrap_or(4);
+    let def_width = catalogue.entries().map(|e| e.definition.len()).max().unwrap_or(10);
+    let mut out = String::new();
+    for e in catalogue.entries() {
+        let status = match e.status {
+            loopwise::catalogue::Status::Established => "established",
+            loopwise::catalogue::Status::Conjecture => "CONJECTURE",
+        };
+        out.push_str(&format!("{:<width$}  {:<def_width$}  {:<11}  {}\n", e.name, e.definition, status, e.summary));
+    }
+    out.push_str("\nAny functional works as a quantity too: Gamma(ANGLE) or Delta(ANGLE), with ANGLE a rational\n");
+    out.push_str("multiple of pi (0, pi/6, pi/4, pi/3, pi/2, ...), c2=P/Q for cos^2 of the tilt, or c2 for a symbolic tilt.\n");
+    emit(&out)?;
+    Ok(Outcome::Done)
+}

@@ -1,0 +1,178 @@
+//! The report of `expand`: a quantity's exact loop coefficients with their
+//! decimal values, as a table, JSON, YAML or a LaTeX table.
+
+use serde::Serialize;
+
+use super::latex::{escape, math_cell};
+use super::{bits_for_digits, decimal, Format};
+use crate::catalogue::{Entry, Status};
+use crate::coupling::Coupling;
+use crate::error::{Error, Result};
+use crate::ring::{EvenStyle, Exact, Notation};
+use crate::series::Series;
+
+/// Everything `expand` shows.
+pub struct Expansion {
+    pub quantity: String,
+    pub definition: String,
+    pub entry: Option<Entry>,
+    pub coupling: Coupling,
+    pub even: EvenStyle,
+    pub digits: u32,
+    /// Loop order and exact coefficient of x^L in the chosen coupling.
+    pub orders: Vec<(u32, Exact)>,
+}
+
+#[derive(Serialize)]
+struct JsonOrder {
+    #[serde(rename = "loop")]
+    loop_order: u32,
+    exact: String,
+    /// None when the coefficient holds a symbol (the symbolic tilt).
+    value: Option<String>,
+}
+
+#[derive(Serialize)]
+struct JsonReport<'a> {
+    quantity: &'a str,
+    definition: &'a str,
+    coupling: &'a str,
+    status: Option<String>,
+    references: Vec<String>,
+    orders: Vec<JsonOrder>,
+}
+
+impl Expansion {
+    /// The report of `series` (in g^2) shown in `coupling`, loops 1..=order.
+    pub fn new(quantity: &str, definition: &str, entry: Option<Entry>, series: &Series, coupling: Coupling, even: EvenStyle, digits: u32) -> Self {
+        let converted = series.in_coupling(coupling);
+        let orders = (1..=converted.order()).map(|l| (l as u32, converted.coeff(l).clone())).collect();
+        Expansion { quantity: quantity.to_string(), definition: definition.to_string(), entry, coupling, even, digits, orders }
+    }
+
+    fn value(&self, c: &Exact) -> Result<Option<String>> {
+        if c.terms().any(|(m, _)| !m.symbols().is_empty()) {
+            return Ok(None);
+        }
+        let v = c.evaluate(bits_for_digits(self.digits))?;
+        Ok(Some(decimal(&v, self.digits)))
+    }
+
+    fn rows(&self) -> Result<Vec<JsonOrder>> {
+        self.orders
+            .iter()
+            .map(|(l, c)| {
+                Ok(JsonOrder { loop_order: *l, exact: c.format(self.even, Notation::Text), value: self.value(c)? })
+            })
+            .collect()
+    }
+
+    /// The coefficient's meaning in words: "g^(2L), g^2 = lambda/(16 pi^2)".
+    fn variable_text(&self) -> &'static str {
+        match self.coupling {
+            Coupling::G2 => "coefficient of g^(2L), with g^2 = lambda/(16 pi^2)",
+            Coupling::A => "coefficient of a^L, with a = lambda/(8 pi^2) = 2 g^2",
+            Coupling::Lambda => "coefficient of lambda^L, lambda = g_YM^2 N_c",
+        }
+    }
+
+    pub fn render(&self, format: Format) -> Result<String> {
+        match format {
+            Format::Text => self.text(),
+            Format::Json => {
+                let mut s = serde_json::to_string_pretty(&self.json()?).map_err(|e| Error::io(e.to_string()))?;
+                s.push('\n');
+                Ok(s)
+            }
+            Format::Yaml => serde_yaml::to_string(&self.json()?).map_err(|e| Error::io(e.to_string())),
+            Format::Latex => self.latex(),
+        }
+    }
+
+    fn json(&self) -> Result<JsonReport<'_>> {
+        Ok(JsonReport {
+            quantity: &self.quantity,
+            definition: &self.definition,
+            coupling: self.coupling.name(),
+            status: self.entry.as_ref().map(|e| e.status.to_string()),
+            references: self.entry.as_ref().map(|e| e.references.clone()).unwrap_or_default(),
+            orders: self.rows()?,
+        })
+    }
+
+    fn text(&self) -> Result<String> {
+        let mut out = String::new();
+        let title = if self.quantity == self.definition {
+            self.quantity.clone()
+        } else {
+            format!("{} = {}", self.quantity, self.definition)
+        };
+        out.push_str(&title);
+        if let Some(e) = &self.entry {
+            out.push_str(&format!(": {}\n", e.summary));
+            out.push_str(&status_line(e));
+        } else {
+            out.push('\n');
+        }
+        out.push_str(&format!("{}; values to {} significant digits\n\n", self.variable_text(), self.digits));
+        let rows = self.rows()?;
+        let width = rows.iter().map(|r| r.value.as_deref().map_or(1, str::len)).max().unwrap_or(5).max(5);
+        out.push_str(&format!("{:>4}  {:<width$}  exact\n", "L", "value"));
+        for r in &rows {
+            out.push_str(&format!("{:>4}  {:<width$}  {}\n", r.loop_order, r.value.as_deref().unwrap_or("-"), r.exact));
+        }
+        Ok(out)
+    }
+
+    fn latex(&self) -> Result<String> {
+        let rows = self.rows()?;
+        let variable = match self.coupling {
+            Coupling::G2 => "g^{2L}",
+            Coupling::A => "a^{L}",
+            Coupling::Lambda => "\\lambda^{L}",
+        };
+        let mut out = String::new();
+        out.push_str(&format!("% loopwise: {} = {}; {}\n", self.quantity, self.definition, self.variable_text()));
+        out.push_str("\\begin{table}[ht]\n\\centering\n\\begin{tabular}{rlr}\n\\hline\n");
+        out.push_str(&format!("$L$ & coefficient of ${variable}$ & value \\\\\n\\hline\n"));
+        for ((l, c), r) in self.orders.iter().zip(&rows) {
+            let cell = math_cell(&c.format(self.even, Notation::Latex), 3);
+            let value = r.value.as_deref().map_or("--".to_string(), |v| format!("${v}$"));
+            out.push_str(&format!("{l} & {cell} & {value} \\\\\n"));
+        }
+        out.push_str("\\hline\n\\end{tabular}\n");
+        let status = self
+            .entry
+            .as_ref()
+            .filter(|e| e.status == Status::Conjecture)
+            .map_or(String::new(), |_| " The all-order formula is a conjecture of the literature.".to_string());
+        let convention = match self.coupling {
+            Coupling::G2 => "$g^2 = \\lambda/(16\\pi^2)$",
+            Coupling::A => "$a = \\lambda/(8\\pi^2) = 2g^2$",
+            Coupling::Lambda => "the 't~Hooft coupling $\\lambda$",
+        };
+        out.push_str(&format!(
+            "\\caption{{Weak-coupling coefficients of {} (\\texttt{{{}}}) in {convention}.{status}}}\n",
+            escape(&self.quantity),
+            escape(&self.definition),
+        ));
+        out.push_str(&format!("\\label{{tab:{}}}\n\\end{{table}}\n", label_slug(&self.quantity)));
+        Ok(out)
+    }
+}
+
+/// The status of a catalogue entry in one or two lines; conjectures are flagged.
+pub fn status_line(e: &Entry) -> String {
+    let refs = if e.references.is_empty() { String::new() } else { format!(" [{}]", e.references.join(", ")) };
+    let note = e.note.as_deref().map_or(String::new(), |n| format!(" {n}"));
+    let text = match e.status {
+        Status::Established => format!("status: established.{note}{refs}"),
+        Status::Conjecture => format!("CAUTION: conjecture of the literature, not a theorem.{note}{refs}"),
+    };
+    super::wrap(&text, 88)
+}
+
+fn label_slug(name: &str) -> String {
+    let slug: String = name.chars().map(|c| if c.is_ascii_alphanumeric() { c } else { '-' }).collect();
+    format!("loopwise-{}", slug.trim_matches('-'))
+}

@@ -1,0 +1,126 @@
+//! Reports: computed values in, text out. Every report is a plain value that
+//! printers turn into a readable table (default), JSON or YAML for pipelines,
+//! or LaTeX for papers; nothing here computes physics.
+
+pub mod expansion;
+pub mod latex;
+
+use std::fmt;
+use std::str::FromStr;
+
+use rug::Float;
+
+use crate::error::{Error, Result};
+
+/// The output formats the commands offer.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum Format {
+    #[default]
+    Text,
+    Json,
+    Yaml,
+    Latex,
+}
+
+impl FromStr for Format {
+    type Err = Error;
+    fn from_str(s: &str) -> Result<Self> {
+        match s {
+            "text" => Ok(Format::Text),
+            "json" => Ok(Format::Json),
+            "yaml" => Ok(Format::Yaml),
+            "latex" => Ok(Format::Latex),
+            other => Err(Error::input(format!("unknown format `{other}`: expected text, json, yaml or latex"))),
+        }
+    }
+}
+
+impl fmt::Display for Format {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(match self {
+            Format::Text => "text",
+            Format::Json => "json",
+            Format::Yaml => "yaml",
+            Format::Latex => "latex",
+        })
+    }
+}
+
+/// Bits of MPFR precision that carry `digits` decimal digits.
+pub fn bits_for_digits(digits: u32) -> u32 {
+    (f64::from(digits) * std::f64::consts::LOG2_10).ceil() as u32 + 8
+}
+
+/// A decimal string with `digits` significant digits: plain notation for
+/// moderate exponents, scientific otherwise.
+pub fn decimal(x: &Float, digits: u32) -> String {
+    if x.is_zero() {
+        return "0".to_string();
+    }
+    if !x.is_finite() {
+        return x.to_string();
+    }
+    let (negative, mantissa, exp) = x.to_sign_string_exp(10, Some(digits.max(1) as usize));
+    let exp = exp.unwrap_or(0);
+    let sign = if negative { "-" } else { "" };
+    // value = 0.mantissa * 10^exp
+    let plain = if exp > 0 && exp as usize <= mantissa.len() {
+        let (int, frac) = mantissa.split_at(exp as usize);
+        if frac.is_empty() {
+            int.to_string()
+        } else {
+            format!("{int}.{frac}")
+        }
+    } else if exp <= 0 && exp > -6 {
+        format!("0.{}{}", "0".repeat((-exp) as usize), mantissa)
+    } else {
+        let (first, rest) = mantissa.split_at(1);
+        let e = exp - 1;
+        return if rest.is_empty() { format!("{sign}{first}e{e}") } else { format!("{sign}{first}.{rest}e{e}") };
+    };
+    format!("{sign}{plain}")
+}
+
+/// Greedy word wrap at `width` columns; every line ends with a newline.
+pub fn wrap(text: &str, width: usize) -> String {
+    let mut out = String::new();
+    let mut line = String::new();
+    for word in text.split_whitespace() {
+        if !line.is_empty() && line.len() + 1 + word.len() > width {
+            out.push_str(&line);
+            out.push('\n');
+            line.clear();
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(word);
+    }
+    if !line.is_empty() {
+        out.push_str(&line);
+        out.push('\n');
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn decimals() {
+        let f = |v: f64| Float::with_val(64, v);
+        assert_eq!(decimal(&f(4.0), 5), "4.0000");
+        assert_eq!(decimal(&f(-13.15947), 4), "-13.16");
+        assert_eq!(decimal(&f(0.00123), 3), "0.00123");
+        assert_eq!(decimal(&f(1.5e30), 3), "1.50e30");
+        assert_eq!(decimal(&f(-2.5e-9), 2), "-2.5e-9");
+        assert_eq!(decimal(&f(0.0), 2), "0");
+    }
+
+    #[test]
+    fn wrapping() {
+        assert_eq!(wrap("aa bb cc", 5), "aa bb\ncc\n");
+        assert_eq!(wrap("", 5), "");
+    }
+}
