@@ -5,5 +5,6 @@
 pub mod coupling;
 pub mod error;
 pub mod expr;
+pub mod seriesfile;
 
 pub use error::{Error, ErrorKind, Result};
