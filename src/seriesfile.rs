@@ -48,10 +48,11 @@
 //!   dots) for reports; its top-level numbers keep their written form.
 //! - Entries are kept in the order written.
 //!
-//! Positions of errors inside an expression are exact for plain, single- and
-//! double-quoted values on one line; inside values folded over several lines
-//! or written as block scalars (`|`, `>`) they point at the right line of the
-//! value's start, with columns counted within the value.
+//! Errors inside an expression are shown on the file's own line with a
+//! caret under the culprit, also when the value is folded over several
+//! lines, written as a block scalar (`|`, `>`) or contains escapes. The
+//! `line`/`column` kept in [`Located`] are those of the value's first
+//! character.
 
 use std::fmt;
 use std::path::Path;
@@ -59,8 +60,8 @@ use std::path::Path;
 use serde::de::{self, Deserialize, Deserializer, IgnoredAny, MapAccess, Visitor};
 
 use crate::coupling::Coupling;
-use crate::error::{Error, Result};
-use crate::expr::{self, line_column, Expr, Node};
+use crate::error::{Error, ErrorKind, Result};
+use crate::expr::{self, line_column, Expr, Node, Span};
 
 /// Largest accepted series file, in bytes.
 pub const MAX_FILE_BYTES: usize = 16 << 20;
@@ -402,16 +403,31 @@ impl<'a> Reader<'a> {
         ))
     }
 
-    fn expression(&self, key: &Tok<'_>, value: &Tok<'_>) -> Result<Located> {
-        let (line, column) = self.position(self.value_offset(key, value));
+    /// Parses a value as an expression; errors are shown on the file's own
+    /// line, and symbols are checked against `symbols` when given.
+    fn expression(&self, key: &Tok<'_>, value: &Tok<'_>, symbols: Option<&[String]>) -> Result<Located> {
+        let start = self.value_offset(key, value).unwrap_or(0);
+        let (line, column) = self.position(Some(start));
         let text = value.text().to_string();
-        let expr = expr::parse(&text, self.origin, Some((line, column)))?;
+        let expr = expr::parse_unrendered(&text)
+            .map_err(|f| self.error_in_file(ErrorKind::Parse, start, &text, f.span, &f.message))?;
+        if let Some(symbols) = symbols {
+            self.check_symbols(start, &text, &expr, symbols)?;
+        }
         Ok(Located { text, expr, line, column })
     }
 
-    fn check_symbols(&self, located: &Located, symbols: &[String]) -> Result<()> {
+    /// Renders an error at a span of a value's text, shown on the line of
+    /// the file where that text sits.
+    fn error_in_file(&self, kind: ErrorKind, start: usize, text: &str, span: Span, message: &str) -> Error {
+        let map = align(self.text, start, text);
+        let at = |i: usize| map.get(i).copied().unwrap_or(start);
+        expr::render(kind, self.text, self.origin, None, Span { start: at(span.start), end: at(span.end) }, message)
+    }
+
+    fn check_symbols(&self, start: usize, text: &str, expr: &Expr, symbols: &[String]) -> Result<()> {
         let mut bad = None;
-        expr::for_each_symbol(&located.expr, &mut |name, span| {
+        expr::for_each_symbol(expr, &mut |name, span| {
             if bad.is_none() && name != "g" && !symbols.iter().any(|s| s == name) {
                 bad = Some((name.to_string(), span));
             }
@@ -424,8 +440,10 @@ impl<'a> Reader<'a> {
                 } else {
                     format!("declared: {}", symbols.join(", "))
                 };
-                Err(located.error_at(
-                    self.origin,
+                Err(self.error_in_file(
+                    ErrorKind::Input,
+                    start,
+                    text,
                     span,
                     &format!("undeclared symbol `{name}`: list it under `symbols:` ({declared})"),
                 ))
@@ -514,11 +532,9 @@ impl<'a> Reader<'a> {
         let prediction = match prediction {
             None => None,
             Some((k, v)) => {
-                let located = self.expression(k, v)?;
-                if !matches!(located.expr.node, Node::Symbol(_)) {
-                    self.check_symbols(&located, &symbols)?;
-                }
-                Some(located)
+                // A single bare name is a catalogue name, not a symbol.
+                let bare = matches!(expr::parse_unrendered(v.text()), Ok(Expr { node: Node::Symbol(_), .. }));
+                Some(self.expression(k, v, (!bare).then_some(symbols.as_slice()))?)
             }
         };
 
@@ -604,11 +620,11 @@ impl<'a> Reader<'a> {
             )));
         }
         let exact = match exact {
-            Some((k, v)) => Some(self.expression(k, v)?),
+            Some((k, v)) => Some(self.expression(k, v, Some(symbols))?),
             None => None,
         };
         let value = match (value, uncertainty) {
-            (Some((k, v)), None) => Some(self.expression(k, v)?),
+            (Some((k, v)), None) => Some(self.expression(k, v, Some(symbols))?),
             (Some((k, v)), Some((uk, uv))) => Some(self.value_with_uncertainty(k, v, uk, uv)?),
             (None, Some((uk, _))) => {
                 return Err(Error::input(format!(
@@ -618,18 +634,16 @@ impl<'a> Reader<'a> {
             }
             (None, None) => None,
         };
-        for located in exact.iter().chain(value.iter()) {
-            self.check_symbols(located, symbols)?;
-        }
         Ok(OrderEntry { loop_order, exact, value, label, line: start.0 })
     }
 
     /// `value: -1240.9` with `uncertainty: 0.2` becomes the literal
     /// `-1240.9 ± 0.2`.
     fn value_with_uncertainty(&self, k: &Tok<'_>, v: &Tok<'_>, uk: &Tok<'_>, uv: &Tok<'_>) -> Result<Located> {
-        let mut located = self.expression(k, v)?;
-        let (uline, ucolumn) = self.position(self.value_offset(uk, uv));
-        let u = expr::parse(uv.text(), self.origin, Some((uline, ucolumn)))?;
+        let mut located = self.expression(k, v, None)?;
+        let u = self.expression(uk, uv, None)?;
+        let (uline, ucolumn) = (u.line, u.column);
+        let u = u.expr;
         let u_value = match u.node {
             Node::Integer(n) => rug::Rational::from(n),
             Node::Decimal { value, uncertainty: None, .. } => value,
@@ -690,6 +704,38 @@ impl<'a> Reader<'a> {
         let rest = rest.split(" #").next()?.trim();
         (!rest.is_empty()).then(|| rest.to_string())
     }
+}
+
+/// For each byte offset of `text` (and its end), the offset in `file` where
+/// that character was written, for a value whose text starts at `start`.
+/// Exact when the value was copied verbatim; for values folded over lines,
+/// block scalars and escapes it follows the characters that do match, which
+/// keeps errors on the right line.
+fn align(file: &str, start: usize, text: &str) -> Vec<usize> {
+    const LOOKAHEAD: usize = 64;
+    let mut map = vec![start; text.len() + 1];
+    let mut at = start.min(file.len());
+    for (i, c) in text.char_indices() {
+        let mut end = (at + LOOKAHEAD).min(file.len());
+        while !file.is_char_boundary(end) {
+            end -= 1;
+        }
+        let window = file.get(at..end).unwrap_or("");
+        let found = if c.is_whitespace() {
+            window.find(char::is_whitespace)
+        } else {
+            window.find(c)
+        };
+        let here = found.map_or(at, |k| at + k);
+        for slot in &mut map[i..i + c.len_utf8()] {
+            *slot = here;
+        }
+        if found.is_some() {
+            at = here + file[here..].chars().next().map_or(0, char::len_utf8);
+        }
+    }
+    map[text.len()] = at;
+    map
 }
 
 /// The literal text of a negated integer given with a separate uncertainty:

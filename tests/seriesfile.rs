@@ -159,6 +159,24 @@ fn expression_errors_point_into_the_file() {
     assert!(e.message().starts_with("runs/cusp.yaml:2:28: undeclared symbol `y`"), "{e}");
 }
 
+/// Values over several lines (block scalars, folded plain scalars, escapes)
+/// still get errors on the file line where the culprit was written.
+#[test]
+fn errors_in_multi_line_values_point_at_their_line() {
+    let block = "coupling: g2\norders:\n  - loop: 1\n    exact: |\n      4 + zeta(3)\n      + $\n";
+    let e = err(block);
+    assert!(e.message().starts_with("runs/cusp.yaml:6:9: expected"), "{e}");
+    assert!(e.message().contains("6 |       + $\n  |         ^"), "{e}");
+    let folded = "coupling: g2\norders:\n  - loop: 1\n    exact: 4 + zeta(3)\n      + zeta(1)\n";
+    let e = err(folded);
+    assert!(e.message().starts_with("runs/cusp.yaml:5:9: zeta(1) diverges"), "{e}");
+    let escaped = "coupling: g2\norders:\n  - loop: 1\n    exact: \"\\u03b6(3) + zeta(1)\"\n";
+    let e = err(escaped);
+    assert!(e.message().starts_with("runs/cusp.yaml:4:25: zeta(1) diverges"), "{e}");
+    let f = parse_series_text(block.replace("+ $", "+ 1").as_str(), "f").unwrap();
+    assert_eq!(f.orders[0].exact.as_ref().unwrap().expr, parse("4 + zeta(3) + 1", "t", None).unwrap());
+}
+
 #[test]
 fn other_mistakes() {
     let e = err("coupling: g2\nsymbols: [l1, zeta]\norders: [{loop: 1, exact: 1}]\n");
