@@ -57,7 +57,7 @@ fn main() {
     let mut nodes = 0usize;
     for (i, line) in file.lines().enumerate() {
         match parse(line, "bench.txt", Some((i + 1, 1))) {
-            Ok(e) => nodes += e.to_string().len().min(1),
+            Ok(e) => nodes += usize::from(e.span.end > e.span.start),
             Err(e) => panic!("generated line {} did not parse:\n{e}", i + 1),
         }
     }
