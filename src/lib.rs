@@ -11,6 +11,7 @@ pub mod prediction;
 pub mod report;
 pub mod ring;
 pub mod series;
+pub mod seriesfile;
 pub mod suggest;
 
 pub use error::{Error, ErrorKind, Result};

@@ -242,7 +242,11 @@ fn overlong_nesting_is_an_error_not_a_crash() {
     assert!(err(&powers).contains("signs and powers in a row"));
     let long_sum = format!("1{}", "+1".repeat(100_000));
     assert!(err(&long_sum).contains("operations deep"));
-    // Within the limits, all of these parse.
+    // Within the limits, all of these parse, even on a test thread's small stack.
+    p(&format!("{}2{}", "log(".repeat(64), ")".repeat(64)));
+    p(&format!("{}x{}", "Delta[c2 = -".repeat(64), "]".repeat(64)));
+    p(&format!("{}1{}", "-2^(-".repeat(64), ")".repeat(64)));
+    p(&format!("{}1{}", "-(".repeat(64), ")".repeat(64)));
     p(&format!("{}1{}", "(".repeat(60), ")".repeat(60)));
     p(&format!("1{}", "+1".repeat(1000)));
     p(&format!("{}1", "-".repeat(90)));

@@ -25,6 +25,8 @@ mod report;
 
 use std::fmt;
 
+pub(crate) use parse::parse_unrendered;
+pub(crate) use report::{line_column, render};
 pub use parse::{MAX_DEPTH, MAX_DIGITS, MAX_EXPONENT, MAX_NESTING, MAX_SOURCE_BYTES, MAX_ZETA_ARGUMENT, MAX_ZETA_DEPTH};
 
 use crate::error::{Error, ErrorKind, Result};

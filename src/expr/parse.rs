@@ -15,7 +15,17 @@ use rug::{Integer, Rational};
 
 use super::report::render;
 use super::{Angle, Expr, FunctionalKind, Node, Span};
-use crate::error::{Error, ErrorKind, Result};
+use crate::error::{ErrorKind, Result};
+
+/// A failed parse before it is rendered: where, and what went wrong. The
+/// series-file reader renders these against the file itself.
+#[derive(Debug, Clone)]
+pub(crate) struct Failure {
+    pub span: Span,
+    pub message: String,
+}
+
+type Fallible<T> = std::result::Result<T, Failure>;
 
 #[derive(pest_derive::Parser)]
 #[grammar = "../grammar/expr.pest"]
@@ -48,14 +58,12 @@ static SET_CALL_LIMIT: Once = Once::new();
 
 struct Ctx<'s> {
     source: &'s str,
-    origin: &'s str,
-    place: Option<(usize, usize)>,
     pratt: PrattParser<Rule>,
 }
 
 impl Ctx<'_> {
-    fn error(&self, span: Span, message: &str) -> Error {
-        render(ErrorKind::Parse, self.source, self.origin, self.place, span, message)
+    fn error(&self, span: Span, message: &str) -> Failure {
+        Failure { span, message: message.to_string() }
     }
 }
 
@@ -70,11 +78,13 @@ fn span_of(pair: &Pair<'_, Rule>) -> Span {
 type Built = (Expr, usize);
 
 pub(crate) fn parse(source: &str, origin: &str, place: Option<(usize, usize)>) -> Result<Expr> {
+    parse_unrendered(source).map_err(|f| render(ErrorKind::Parse, source, origin, place, f.span, &f.message))
+}
+
+pub(crate) fn parse_unrendered(source: &str) -> Fallible<Expr> {
     SET_CALL_LIMIT.call_once(|| pest::set_call_limit(NonZeroUsize::new(CALL_LIMIT)));
     let ctx = Ctx {
         source,
-        origin,
-        place,
         pratt: PrattParser::new()
             .op(Op::infix(Rule::add, Assoc::Left) | Op::infix(Rule::sub, Assoc::Left))
             .op(Op::infix(Rule::mul, Assoc::Left) | Op::infix(Rule::div, Assoc::Left) | Op::infix(Rule::implicit_mul, Assoc::Left))
@@ -82,10 +92,10 @@ pub(crate) fn parse(source: &str, origin: &str, place: Option<(usize, usize)>) -
             .op(Op::infix(Rule::pow, Assoc::Right)),
     };
     if source.len() > MAX_SOURCE_BYTES {
-        return Err(Error::parse(format!(
-            "{origin}: expression of {} bytes is longer than the {MAX_SOURCE_BYTES} bytes accepted",
-            source.len()
-        )));
+        return Err(ctx.error(
+            Span::default(),
+            &format!("expression of {} bytes is longer than the {MAX_SOURCE_BYTES} bytes accepted", source.len()),
+        ));
     }
     let first = source.len() - source.trim_start().len();
     if first == source.len() {
@@ -103,7 +113,7 @@ pub(crate) fn parse(source: &str, origin: &str, place: Option<(usize, usize)>) -
 
 /// Rejects deep bracket nesting before pest sees it: each level costs
 /// several frames of recursion in the generated parser.
-fn check_nesting(ctx: &Ctx<'_>) -> Result<()> {
+fn check_nesting(ctx: &Ctx<'_>) -> Fallible<()> {
     let mut depth = 0usize;
     for (i, b) in ctx.source.bytes().enumerate() {
         match b {
@@ -175,7 +185,7 @@ const WORD_ORDER: [&str; 17] = [
     "the end of the expression",
 ];
 
-fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Error {
+fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Failure {
     let at = match e.location {
         pest::error::InputLocation::Pos(p) => p,
         pest::error::InputLocation::Span((s, _)) => s,
@@ -218,7 +228,7 @@ fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Error {
     ctx.error(Span { start: at, end: at + width }, &format!("{message}, found {found}"))
 }
 
-fn node(node: Node, span: Span, depth: usize, ctx: &Ctx<'_>) -> Result<Built> {
+fn node(node: Node, span: Span, depth: usize, ctx: &Ctx<'_>) -> Fallible<Built> {
     if depth > MAX_DEPTH {
         return Err(ctx.error(
             span,
@@ -234,7 +244,7 @@ fn join(a: &Expr, b: &Expr) -> Span {
 
 /// Builds the tree for one `expr` pair: checks the recursion the Pratt parser
 /// will need, then lets it apply precedence.
-fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Result<Built> {
+fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
     let mut chain = 0usize;
     for p in expr.clone().into_inner() {
         match p.as_rule() {
@@ -276,7 +286,7 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Result<Built> {
         .parse(expr.into_inner())
 }
 
-fn primary(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Result<Built> {
+fn primary(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {
     let span = span_of(&p);
     match p.as_rule() {
         Rule::number_lit => number_literal(ctx, p),
@@ -321,13 +331,13 @@ fn primary(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Result<Built> {
     }
 }
 
-fn inner_expr<'i>(ctx: &Ctx<'_>, p: Pair<'i, Rule>, span: Span) -> Result<Pair<'i, Rule>> {
+fn inner_expr<'i>(ctx: &Ctx<'_>, p: Pair<'i, Rule>, span: Span) -> Fallible<Pair<'i, Rule>> {
     p.into_inner()
         .find(|q| q.as_rule() == Rule::expr)
         .ok_or_else(|| ctx.error(span, "missing expression"))
 }
 
-fn functional(ctx: &Ctx<'_>, p: Pair<'_, Rule>, span: Span) -> Result<Built> {
+fn functional(ctx: &Ctx<'_>, p: Pair<'_, Rule>, span: Span) -> Fallible<Built> {
     let mut kind = FunctionalKind::Gamma;
     let mut angle = None;
     let mut depth = 1;
@@ -354,7 +364,7 @@ fn functional(ctx: &Ctx<'_>, p: Pair<'_, Rule>, span: Span) -> Result<Built> {
     node(Node::Functional { kind, angle }, span, depth, ctx)
 }
 
-fn zeta_argument(ctx: &Ctx<'_>, text: &str, span: Span) -> Result<u32> {
+fn zeta_argument(ctx: &Ctx<'_>, text: &str, span: Span) -> Fallible<u32> {
     let bad = || ctx.error(span, &format!("zeta arguments are whole numbers from 1 to {MAX_ZETA_ARGUMENT}, not {text}"));
     if text.starts_with('-') {
         return Err(bad());
@@ -369,7 +379,7 @@ fn zeta_argument(ctx: &Ctx<'_>, text: &str, span: Span) -> Result<u32> {
     }
 }
 
-fn zeta(ctx: &Ctx<'_>, args: Vec<(u32, Span)>, span: Span) -> Result<Built> {
+fn zeta(ctx: &Ctx<'_>, args: Vec<(u32, Span)>, span: Span) -> Fallible<Built> {
     if args.len() > MAX_ZETA_DEPTH {
         return Err(ctx.error(span, &format!("multiple zeta values of depth above {MAX_ZETA_DEPTH} are not supported")));
     }
@@ -394,7 +404,7 @@ struct Written<'a> {
     has_point: bool,
 }
 
-fn written<'a>(ctx: &Ctx<'_>, p: Pair<'a, Rule>) -> Result<Written<'a>> {
+fn written<'a>(ctx: &Ctx<'_>, p: Pair<'a, Rule>) -> Fallible<Written<'a>> {
     let mut w = Written { whole: "", fraction: "", last_digits: None, exponent: 0, has_point: false };
     let mut exponent_span = span_of(&p);
     let mut exponent_text = None;
@@ -461,7 +471,7 @@ fn scaled(digits: &str, scale: usize, exponent: i64) -> Rational {
     }
 }
 
-fn number_literal(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Result<Built> {
+fn number_literal(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {
     let span = span_of(&p);
     let text = p.as_str().to_string();
     let mut main = None;

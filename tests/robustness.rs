@@ -1,0 +1,154 @@
+//! Robustness of the parser and the series-file reader against random and
+//! mangled input: every input must end in `Ok` or a clean `Err` (no panic,
+//! no stack overflow), and whatever parses must print to text that parses
+//! back to the same tree. The default run is short; the long run (over
+//! 100,000 inputs in total) is `cargo test --release --test robustness -- --ignored`.
+
+use loopwise::expr::parse;
+use loopwise::seriesfile::parse_series_text;
+use proptest::prelude::*;
+use proptest::test_runner::{Config, TestRunner};
+
+const SEED_EXPRESSIONS: &[&str] = &[
+    "-876*zeta(6) - 32*zeta(3)^2",
+    "-zeta(2)/2*Gamma(pi/4) + Delta(0)/4",
+    "4 zeta(3)^2 + 2pi^2 l1 l2",
+    "-1240.9(2)",
+    "1.2e-3 ± 1e-4",
+    "73/630 * Zeta[5,3] - Log[2]^2 + catalan",
+    "Gamma(c2=1/3) - Delta(c2) + Γ(2pi/3) * ζ3",
+    "3(1+pi) - 2**3**2 + z5 - ln(1 + x)/g",
+    "((1 + l1)^2 - (l2 - l3)^-2) / (4 π^4)",
+];
+
+const SEED_FILE: &str = r#"prediction: "-zeta(2)/2*Gamma(pi/4) + Delta(0)/4"
+coupling: g2
+normalisation: E
+symbols: [l1, l2, l3]
+about:
+  group: Fictional Bootstrap Collective
+  date: 2026-11-30
+orders:
+  - loop: 1
+    exact: "4"
+  - loop: 4
+    exact: "-876*zeta(6) - 32*zeta(3)^2"
+    label: "from the four-loop run"
+  - loop: 5
+    value: "-1240.9(2)"
+  - loop: 6
+    value: -1240.9
+    uncertainty: 0.2
+  - {loop: 7, exact: 'ζ(3) l1 + g l2'}
+"#;
+
+/// Characters mutations draw from: the language's own tokens, YAML syntax,
+/// and unicode that is not part of either.
+const ALPHABET: &[char] = &[
+    '0', '1', '2', '9', '.', 'e', 'E', '+', '-', '*', '/', '^', '(', ')', '[', ']', ',', '=', ' ', '\n', '\t', 'p', 'i',
+    'z', 'l', 'g', 'c', 'x', '_', 'Z', 'G', 'D', ':', '"', '\'', '#', '{', '}', '&', '!', '|', '>', '-', '±', 'π', 'ζ', 'Γ',
+    'Δ', '−', '×', '\u{a0}', 'é', '日', '🦀', '\u{0}', '\u{feff}', '\u{200b}', '\\',
+];
+
+#[derive(Debug, Clone)]
+enum Edit {
+    Insert(usize, char),
+    Delete(usize),
+    Replace(usize, char),
+}
+
+fn edit() -> impl Strategy<Value = Edit> {
+    let ch = prop::sample::select(ALPHABET);
+    prop_oneof![
+        (any::<usize>(), ch.clone()).prop_map(|(i, c)| Edit::Insert(i, c)),
+        any::<usize>().prop_map(Edit::Delete),
+        (any::<usize>(), ch).prop_map(|(i, c)| Edit::Replace(i, c)),
+    ]
+}
+
+fn mutate(seed: &str, edits: &[Edit]) -> String {
+    let mut chars: Vec<char> = seed.chars().collect();
+    for e in edits {
+        match *e {
+            Edit::Insert(i, c) => {
+                let at = i % (chars.len() + 1);
+                chars.insert(at, c);
+            }
+            Edit::Delete(i) if !chars.is_empty() => {
+                let at = i % chars.len();
+                chars.remove(at);
+            }
+            Edit::Replace(i, c) if !chars.is_empty() => {
+                let at = i % chars.len();
+                chars[at] = c;
+            }
+            _ => {}
+        }
+    }
+    chars.into_iter().collect()
+}
+
+/// The property for expressions: a clean result, and a faithful printed form.
+fn check_expression(input: &str) -> Result<(), TestCaseError> {
+    match parse(input, "<fuzz>", None) {
+        Ok(e) => {
+            let printed = e.to_string();
+            let again = parse(&printed, "<printed>", None)
+                .map_err(|err| TestCaseError::fail(format!("{input:?} printed as {printed:?} fails:\n{err}")))?;
+            prop_assert_eq!(again, e, "{:?} printed as {:?}", input, printed);
+        }
+        Err(err) => prop_assert!(err.message().starts_with("<fuzz>"), "{}", err),
+    }
+    Ok(())
+}
+
+fn check_file(input: &str) -> Result<(), TestCaseError> {
+    if let Err(err) = parse_series_text(input, "fuzz.yaml") {
+        prop_assert!(err.message().contains("fuzz.yaml"), "{}", err);
+    }
+    Ok(())
+}
+
+fn runner(cases: u32) -> TestRunner {
+    TestRunner::new(Config { cases, failure_persistence: None, ..Config::default() })
+}
+
+fn random_expressions(cases: u32) {
+    let strategy = prop::collection::vec(prop::sample::select(ALPHABET), 0..60).prop_map(|v| v.into_iter().collect::<String>());
+    runner(cases).run(&strategy, |s| check_expression(&s)).unwrap();
+}
+
+fn mutated_expressions(cases: u32) {
+    let strategy = (prop::sample::select(SEED_EXPRESSIONS), prop::collection::vec(edit(), 1..8));
+    runner(cases).run(&strategy, |(seed, edits)| check_expression(&mutate(seed, &edits))).unwrap();
+}
+
+fn mutated_files(cases: u32) {
+    let strategy = prop::collection::vec(edit(), 1..10);
+    runner(cases).run(&strategy, |edits| check_file(&mutate(SEED_FILE, &edits))).unwrap();
+}
+
+#[test]
+fn seeds_are_valid() {
+    for s in SEED_EXPRESSIONS {
+        check_expression(s).unwrap();
+        assert!(parse(s, "<seed>", None).is_ok(), "{s}");
+    }
+    assert!(parse_series_text(SEED_FILE, "seed.yaml").is_ok());
+}
+
+#[test]
+fn short_run() {
+    random_expressions(1500);
+    mutated_expressions(1500);
+    mutated_files(1000);
+}
+
+/// 60,000 + 40,000 + 20,000 = 120,000 inputs.
+#[test]
+#[ignore]
+fn long_run() {
+    random_expressions(60_000);
+    mutated_expressions(40_000);
+    mutated_files(20_000);
+}
