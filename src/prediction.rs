@@ -32,6 +32,8 @@ pub struct Quantity {
     pub expr: Expr,
     /// The origin used in messages about the formula.
     pub origin: String,
+    /// Line and column of the formula's first character in its file, if any.
+    pub place: Option<(usize, usize)>,
 }
 
 impl Quantity {
@@ -46,13 +48,14 @@ impl Quantity {
         if looks_like_name && !matches!(trimmed, COUPLING) {
             catalogue.lookup(trimmed)?;
         }
-        let expr = expr::parse(text, "<quantity>", None)?;
+        let expr = expr::parse(trimmed, "<quantity>", None)?;
         Ok(Quantity {
             label: trimmed.to_string(),
             definition: trimmed.to_string(),
             entry: None,
             expr,
             origin: "<quantity>".to_string(),
+            place: None,
         })
     }
 
@@ -65,12 +68,25 @@ impl Quantity {
             entry: Some(entry.clone()),
             expr,
             origin,
+            place: None,
         })
+    }
+
+    /// A formula read from a file, keeping its place for messages.
+    pub fn from_formula(text: &str, expr: Expr, origin: &str, place: (usize, usize)) -> Quantity {
+        Quantity {
+            label: text.trim().to_string(),
+            definition: text.to_string(),
+            entry: None,
+            expr,
+            origin: origin.to_string(),
+            place: Some(place),
+        }
     }
 
     /// The exact series through g^(2 loops).
     pub fn expand(&self, loops: u32, progress: &mut dyn FnMut(&str, usize, usize)) -> Result<Series> {
-        let mut ev = Expander { source: &self.definition, origin: &self.origin, loops, cache: HashMap::new(), progress };
+        let mut ev = Expander { source: &self.definition, origin: &self.origin, place: self.place, loops, cache: HashMap::new(), progress };
         ev.series(&self.expr)
     }
 }
@@ -79,6 +95,7 @@ impl Quantity {
 pub struct Expander<'a> {
     pub source: &'a str,
     pub origin: &'a str,
+    pub place: Option<(usize, usize)>,
     pub loops: u32,
     pub cache: HashMap<(Functional, Tilt), Series>,
     pub progress: &'a mut dyn FnMut(&str, usize, usize),
@@ -86,7 +103,7 @@ pub struct Expander<'a> {
 
 impl Expander<'_> {
     fn fail(&self, span: Span, message: &str) -> Error {
-        expr::error_at(self.source, self.origin, None, span, message)
+        expr::error_at(self.source, self.origin, self.place, span, message)
     }
 
     fn constant(&self, c: Exact) -> Series {
@@ -185,7 +202,14 @@ impl Expander<'_> {
 
     /// A subexpression without the coupling or functionals, as a ring element.
     fn constant_value(&self, e: &Expr) -> Result<Exact> {
-        let mut inner = Expander { source: self.source, origin: self.origin, loops: 0, cache: HashMap::new(), progress: &mut |_, _, _| {} };
+        let mut inner = Expander {
+            source: self.source,
+            origin: self.origin,
+            place: self.place,
+            loops: 0,
+            cache: HashMap::new(),
+            progress: &mut |_, _, _| {},
+        };
         if contains_functional_or_coupling(e) {
             return Err(self.fail(e.span, "expected a constant here, without g or functionals"));
         }

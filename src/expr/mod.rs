@@ -20,6 +20,7 @@
 //! 15 ± 3), while `1.5 (3)` with a blank is a product; and `+-` right after a
 //! number literal is ±, so write `2 + -3` for a sum with a negative term.
 
+pub mod numeric;
 mod parse;
 mod report;
 
