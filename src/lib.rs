@@ -3,6 +3,7 @@
 //! against them.
 
 pub mod catalogue;
+pub mod compare;
 pub mod coupling;
 pub mod error;
 pub mod expr;

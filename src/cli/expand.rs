@@ -18,6 +18,7 @@ pub const MAX_DIGITS: u32 = 10_000;
 pub struct Args {
     /// A catalogue name (see `loopwise list`) or a formula such as Gamma(pi/6),
     /// Delta(c2=1/3), Gamma(c2) or -zeta(2)/2*Gamma(pi/4) + Delta(0)/4.
+    #[arg(allow_hyphen_values = true)]
     pub quantity: String,
     /// The highest loop order L (coefficient of g^(2L)).
     #[arg(long, short = 'L', default_value_t = 5)]

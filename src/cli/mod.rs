@@ -1,7 +1,10 @@
 //! Command-line arguments (clap derive) and the one map from outcomes to exit
-//! codes: 0 when results were produced, 2 when input could not be used. Messages go to stderr, results
+//! codes: 0 when results were produced or everything agreed, 1 when a check
+//! finds a difference, 2 when input could not be used. Messages go to stderr, results
 //! alone to stdout.
 
+mod check;
+mod eval;
 mod expand;
 mod progress;
 
@@ -36,6 +39,12 @@ pub enum Command {
     List,
     /// Exact loop coefficients of a prediction, order by order.
     Expand(expand::Args),
+    /// Check the loop coefficients of series files against their predictions.
+    Check(check::Args),
+    /// Evaluate one expression numerically to many digits.
+    Eval(eval::Args),
+    /// Run `check` on a built-in, fictional seven-loop dataset.
+    Demo(check::DemoArgs),
 }
 
 /// Output formats, as the command line spells them.
@@ -101,6 +110,8 @@ impl From<CouplingArg> for Coupling {
 pub enum Outcome {
     /// Results were produced (or everything agreed).
     Done,
+    /// A comparison found a difference.
+    Differs,
 }
 
 /// Parses the arguments, runs the command, prints and returns the exit code.
@@ -108,6 +119,7 @@ pub fn run() -> i32 {
     let cli = Cli::parse();
     match dispatch(&cli) {
         Ok(Outcome::Done) => 0,
+        Ok(Outcome::Differs) => 1,
         Err(e) => {
             eprintln!("loopwise: {e}");
             2
@@ -120,6 +132,9 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
     match &cli.command {
         Command::List => list(&catalogue),
         Command::Expand(args) => expand::run(args, &catalogue),
+        Command::Check(args) => check::run(args, &catalogue),
+        Command::Eval(args) => eval::run(args),
+        Command::Demo(args) => check::demo(args, &catalogue),
     }
 }
 

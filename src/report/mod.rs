@@ -2,6 +2,7 @@
 //! printers turn into a readable table (default), JSON or YAML for pipelines,
 //! or LaTeX for papers; nothing here computes physics.
 
+pub mod check;
 pub mod expansion;
 pub mod latex;
 

@@ -1,0 +1,162 @@
+//! The usual slips, tested one by one when orders differ: another coupling
+//! convention (ratios 2^L or (16 pi^2)^L), the scaling function f = 2 Gamma
+//! instead of Gamma, an overall sign, loop orders shifted by one, a single
+//! mistyped order, a coefficient whose transcendental weight is not the
+//! prediction's. A slip is claimed only when it makes every supplied order agree.
+
+use std::fmt;
+
+use rug::Rational;
+
+use super::{judge, Supplied, Verdict};
+use crate::coupling::Coupling;
+use crate::error::Result;
+use crate::ring::Exact;
+use crate::series::Series;
+
+/// What the diagnosis found.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Diagnosis {
+    /// One hypothesis makes every supplied order agree.
+    Explained(String),
+    /// All orders but this one agree.
+    Typo { loop_order: u32, agreeing: usize },
+    /// An exact coefficient whose weights are not the prediction's.
+    Weight { loop_order: u32, found: Vec<i64>, expected: Vec<i64> },
+}
+
+impl fmt::Display for Diagnosis {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            Diagnosis::Explained(s) => f.write_str(s),
+            Diagnosis::Typo { loop_order, agreeing } => write!(
+                f,
+                "order {loop_order} looks like a slip in that order alone: the other {agreeing} orders agree"
+            ),
+            Diagnosis::Weight { loop_order, found, expected } => {
+                let list = |w: &[i64]| w.iter().map(i64::to_string).collect::<Vec<_>>().join(", ");
+                if found.len() > 1 {
+                    write!(f, "order {loop_order} mixes transcendental weights {}; the prediction has weight {}", list(found), list(expected))
+                } else {
+                    write!(f, "order {loop_order} has transcendental weight {}; the prediction has weight {}", list(found), list(expected))
+                }
+            }
+        }
+    }
+}
+
+/// One hypothesis: the user's order L holds factor * (prediction in
+/// `coupling`) at order L + shift.
+struct Hypothesis {
+    coupling: Coupling,
+    factor: Rational,
+    shift: i32,
+}
+
+impl Hypothesis {
+    fn describe(&self, declared: Coupling) -> String {
+        let mut parts = Vec::new();
+        if self.coupling != declared {
+            let what = match self.coupling {
+                Coupling::G2 => "g^2 = lambda/(16 pi^2)",
+                Coupling::A => "a = lambda/(8 pi^2) = 2 g^2",
+                Coupling::Lambda => "lambda",
+            };
+            parts.push(format!(
+                "the coefficients follow the convention {} ({what}) although the file says `coupling: {}`",
+                self.coupling.name(),
+                declared.name()
+            ));
+        }
+        let f = &self.factor;
+        if *f == 2 {
+            parts.push("every coefficient is twice the prediction: the scaling function f = 2 Gamma rather than Gamma?".into());
+        } else if *f == Rational::from((1, 2)) {
+            parts.push("every coefficient is half the prediction: Gamma where f = 2 Gamma was expected?".into());
+        } else if *f == -1 {
+            parts.push("every coefficient has the opposite sign: an overall sign slip".into());
+        } else if *f == -2 || *f == Rational::from((-1, 2)) {
+            parts.push(format!("every coefficient is {f} times the prediction: a sign slip and a factor 2 (f = 2 Gamma?)"));
+        }
+        match self.shift {
+            1 => parts.push("the file's order L holds the prediction's order L+1: loop orders shifted by one".into()),
+            -1 => parts.push("the file's order L holds the prediction's order L-1: loop orders shifted by one".into()),
+            _ => {}
+        }
+        parts.join("; and ")
+    }
+}
+
+/// Tests the slips; `prediction_g2` must reach one order beyond the file.
+pub fn diagnose(
+    supplied: &[(u32, Supplied)],
+    prediction_g2: &Series,
+    declared: Coupling,
+    digits: u32,
+) -> Result<Vec<Diagnosis>> {
+    let mut out = Vec::new();
+    let baseline = Hypothesis { coupling: declared, factor: Rational::from(1), shift: 0 };
+    let verdicts = verdicts_under(&baseline, supplied, prediction_g2, digits)?;
+    if !verdicts.iter().any(|v| v.as_ref().is_some_and(Verdict::differs)) {
+        return Ok(out);
+    }
+    if supplied.len() >= 2 {
+        for h in hypotheses(declared) {
+            let v = verdicts_under(&h, supplied, prediction_g2, digits)?;
+            if v.iter().all(|v| v.as_ref().is_some_and(Verdict::agrees)) {
+                out.push(Diagnosis::Explained(h.describe(declared)));
+            }
+        }
+    }
+    let differing: Vec<usize> = (0..verdicts.len()).filter(|&k| verdicts[k].as_ref().is_some_and(Verdict::differs)).collect();
+    let agreeing = verdicts.iter().filter(|v| v.as_ref().is_some_and(Verdict::agrees)).count();
+    if out.is_empty() && differing.len() == 1 && agreeing >= 2 {
+        out.push(Diagnosis::Typo { loop_order: supplied[differing[0]].0, agreeing });
+    }
+    let converted = prediction_g2.in_coupling(declared);
+    for &k in &differing {
+        let (l, s) = &supplied[k];
+        if let (Supplied::Exact(x), true) = (s, (*l as usize) <= converted.order()) {
+            let found = x.weights();
+            let expected = converted.coeff(*l as usize).weights();
+            if !found.is_empty() && expected.len() == 1 && found != expected {
+                out.push(Diagnosis::Weight { loop_order: *l, found, expected });
+            }
+        }
+    }
+    Ok(out)
+}
+
+fn hypotheses(declared: Coupling) -> Vec<Hypothesis> {
+    let factors = [(1, 1), (2, 1), (1, 2), (-1, 1), (-2, 1), (-1, 2)];
+    let mut out = Vec::new();
+    for c in Coupling::ALL {
+        for &(n, d) in &factors {
+            if c == declared && n == 1 && d == 1 {
+                continue;
+            }
+            out.push(Hypothesis { coupling: c, factor: Rational::from((n, d)), shift: 0 });
+        }
+    }
+    out.push(Hypothesis { coupling: declared, factor: Rational::from(1), shift: 1 });
+    out.push(Hypothesis { coupling: declared, factor: Rational::from(1), shift: -1 });
+    out
+}
+
+/// Verdicts of every supplied order under a hypothesis; None where the
+/// hypothesis has no predicted coefficient.
+fn verdicts_under(h: &Hypothesis, supplied: &[(u32, Supplied)], prediction_g2: &Series, digits: u32) -> Result<Vec<Option<Verdict>>> {
+    let series = prediction_g2.in_coupling(h.coupling);
+    let factor = Exact::from(h.factor.clone());
+    supplied
+        .iter()
+        .map(|(l, s)| {
+            let k = *l as i64 + h.shift as i64;
+            if k < 1 || k as usize > series.order() {
+                return Ok(None);
+            }
+            let predicted = series.coeff(k as usize) * &factor;
+            judge(s, &predicted, digits).map(Some)
+        })
+        .collect()
+}

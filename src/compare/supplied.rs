@@ -1,0 +1,103 @@
+//! A user's coefficient as the comparator sees it: exact when it lies in the
+//! exact ring (rationals, pi, zeta values, declared symbols), otherwise a
+//! number with an uncertainty (decimals, logarithms, Catalan's constant,
+//! multiple zeta values), evaluated at the working precision.
+
+use std::collections::HashMap;
+
+use crate::error::{Error, Result};
+use crate::expr::numeric::{self, written_digits, Approx, Context};
+use crate::expr::{Expr, Node};
+use crate::prediction::Expander;
+use crate::ring::Exact;
+use crate::seriesfile::Located;
+
+/// One supplied coefficient.
+#[derive(Clone, Debug)]
+pub enum Supplied {
+    Exact(Exact),
+    Number {
+        approx: Approx,
+        /// Significant digits the user wrote, when the value came from a
+        /// decimal; caps how many digits can be said to agree.
+        written: Option<u32>,
+        /// The text as written, for reports.
+        text: String,
+    },
+}
+
+/// Reads a located coefficient: exact if possible, numerical otherwise.
+pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
+    if !has_inexact_part(&located.expr) {
+        let mut expander = Expander {
+            source: &located.text,
+            origin,
+            place: Some((located.line, located.column)),
+            loops: 0,
+            cache: HashMap::new(),
+            progress: &mut |_, _, _| {},
+        };
+        return Ok(Supplied::Exact(expander.series(&located.expr)?.coeff(0).clone()));
+    }
+    read_number(located, origin, prec)
+}
+
+/// Reads a located coefficient as a number, whatever it holds.
+pub fn read_number(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
+    let mut ctx = Context::new(prec);
+    let approx = numeric::evaluate(&located.expr, &mut ctx).map_err(|(span, msg)| located.error_at(origin, span, &msg))?;
+    let written = match &located.expr.node {
+        Node::Decimal { text, .. } => Some(written_digits(text)),
+        Node::Neg(inner) => match &inner.node {
+            Node::Decimal { text, .. } => Some(written_digits(text)),
+            _ => None,
+        },
+        _ => None,
+    };
+    Ok(Supplied::Number { approx, written, text: located.text.trim().to_string() })
+}
+
+/// Whether the expression needs numbers outside the exact ring.
+fn has_inexact_part(e: &Expr) -> bool {
+    match &e.node {
+        Node::Decimal { .. } | Node::Catalan | Node::Log(_) => true,
+        Node::Zeta(args) => args.len() > 1,
+        Node::Integer(_) | Node::Pi | Node::Symbol(_) | Node::Functional { .. } => false,
+        Node::Neg(a) => has_inexact_part(a),
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+            has_inexact_part(a) || has_inexact_part(b)
+        }
+    }
+}
+
+impl Supplied {
+    /// The value as a number at `prec` bits (exact values carry no uncertainty).
+    pub fn approx(&self, prec: u32) -> Result<Approx> {
+        match self {
+            Supplied::Exact(x) => Ok(Approx::exact(x.evaluate(prec)?)),
+            Supplied::Number { approx, .. } => Ok(approx.clone()),
+        }
+    }
+
+    pub fn text(&self) -> String {
+        match self {
+            Supplied::Exact(x) => x.to_string(),
+            Supplied::Number { text, .. } => text.clone(),
+        }
+    }
+}
+
+/// A symbol-free check: exact coefficients with kinematic symbols belong to
+/// the origin workflow, not to a plain comparison.
+pub fn require_constant(s: &Supplied, loop_order: u32, origin: &str) -> Result<()> {
+    if let Supplied::Exact(x) = s {
+        if let Some((m, _)) = x.terms().find(|(m, _)| !m.symbols().is_empty()) {
+            return Err(Error::input(format!(
+                "{origin}: order {loop_order} depends on the symbol `{}`; `loopwise check` compares numbers \
+                 (polynomials in the logs of cross ratios belong to `loopwise origin`)",
+                m.symbols()[0].0
+            )));
+        }
+    }
+    Ok(())
+}

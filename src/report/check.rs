@@ -1,0 +1,177 @@
+//! The report of `check`: one row per loop order with its verdict, the
+//! diagnoses, and a summary line; as text for people or JSON/YAML for
+//! pipelines (the same verdicts either way).
+
+use rug::Float;
+use serde::Serialize;
+
+use super::expansion::status_line;
+use super::{decimal, Format};
+use crate::compare::{Comparison, OrderResult, Verdict};
+use crate::error::{Error, Result};
+
+#[derive(Serialize)]
+struct JsonOrder {
+    #[serde(rename = "loop")]
+    loop_order: u32,
+    verdict: &'static str,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    label: Option<String>,
+    supplied: Option<String>,
+    predicted: Option<String>,
+    /// supplied - predicted: exact text for exact verdicts, a decimal otherwise.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    difference: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    difference_value: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    digits_agreeing: Option<u32>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    sigmas: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    inconsistent_value: Option<&'static str>,
+}
+
+#[derive(Serialize)]
+struct JsonReport {
+    file: String,
+    prediction: String,
+    definition: String,
+    coupling: &'static str,
+    status: Option<String>,
+    agrees: bool,
+    orders: Vec<JsonOrder>,
+    diagnoses: Vec<String>,
+    summary: String,
+}
+
+fn short(x: &Float) -> String {
+    decimal(x, 6)
+}
+
+fn sigmas_text(s: &Option<Float>) -> Option<String> {
+    s.as_ref().map(|s| decimal(s, 4))
+}
+
+fn json_order(o: &OrderResult) -> JsonOrder {
+    let mut j = JsonOrder {
+        loop_order: o.loop_order,
+        verdict: o.verdict.name(),
+        label: o.label.clone(),
+        supplied: o.supplied.as_ref().map(|s| s.text()),
+        predicted: o.predicted.as_ref().map(|p| p.to_string()),
+        difference: None,
+        difference_value: None,
+        digits_agreeing: None,
+        sigmas: None,
+        inconsistent_value: o.inconsistent.as_ref().map(Verdict::name),
+    };
+    match &o.verdict {
+        Verdict::DiffersExactly { difference, size } => {
+            j.difference = Some(difference.to_string());
+            j.difference_value = Some(decimal(size, 20));
+        }
+        Verdict::AgreesNumerically { digits, sigmas } => {
+            j.digits_agreeing = Some(*digits);
+            j.sigmas = sigmas_text(sigmas);
+        }
+        Verdict::DiffersNumerically { difference, sigmas, digits } => {
+            j.difference_value = Some(decimal(difference, 20));
+            j.digits_agreeing = Some(*digits);
+            j.sigmas = sigmas_text(sigmas);
+        }
+        _ => {}
+    }
+    j
+}
+
+/// (mark, verdict words, detail) for the text table.
+fn text_row(o: &OrderResult, max_digits: u32) -> (&'static str, String, String) {
+    let supplied = o.supplied.as_ref().map(|s| s.text()).unwrap_or_default();
+    let (mark, words, mut detail) = match &o.verdict {
+        Verdict::AgreesExactly => ("ok", "agrees exactly".to_string(), String::new()),
+        Verdict::DiffersExactly { difference, size } => (
+            "DIFF",
+            "differs exactly".to_string(),
+            format!("supplied - predicted = {difference} = {}", short(size)),
+        ),
+        Verdict::AgreesNumerically { digits, sigmas } => {
+            let d = if *digits >= max_digits { format!("{max_digits}+") } else { digits.to_string() };
+            let s = sigmas.as_ref().map_or(String::new(), |s| format!(", {} sigma", decimal(s, 2)));
+            ("ok", format!("agrees to {d} digits"), format!("supplied {supplied}{s}"))
+        }
+        Verdict::DiffersNumerically { difference, sigmas, .. } => {
+            let s = sigmas.as_ref().map_or(String::new(), |s| format!(" = {} sigma", decimal(s, 3)));
+            ("DIFF", "differs numerically".to_string(), format!("supplied {supplied}: supplied - predicted = {}{s}", short(difference)))
+        }
+        Verdict::NotPredicted => ("-", "not predicted".to_string(), "beyond the orders the prediction reaches".to_string()),
+        Verdict::NotSupplied => ("-", "not supplied".to_string(), String::new()),
+    };
+    if let Some(v) = &o.inconsistent {
+        detail.push_str(&format!("; the file's own `value` {} its `exact`", match v {
+            Verdict::DiffersExactly { .. } | Verdict::DiffersNumerically { .. } => "disagrees with",
+            _ => "does not match",
+        }));
+        return ("DIFF", words, detail);
+    }
+    if let Some(l) = &o.label {
+        detail = if detail.is_empty() { format!("[{l}]") } else { format!("{detail} [{l}]") };
+    }
+    (mark, words, detail)
+}
+
+pub fn render(c: &Comparison, format: Format) -> Result<String> {
+    match format {
+        Format::Text => Ok(text(c)),
+        Format::Json => {
+            let mut s = serde_json::to_string_pretty(&json(c)).map_err(|e| Error::io(e.to_string()))?;
+            s.push('\n');
+            Ok(s)
+        }
+        Format::Yaml => serde_yaml::to_string(&json(c)).map_err(|e| Error::io(e.to_string())),
+        Format::Latex => Err(Error::input("the check report comes as text, json or yaml")),
+    }
+}
+
+fn json(c: &Comparison) -> JsonReport {
+    JsonReport {
+        file: c.file.clone(),
+        prediction: c.prediction.clone(),
+        definition: c.definition.clone(),
+        coupling: c.coupling.name(),
+        status: c.entry.as_ref().map(|e| e.status.to_string()),
+        agrees: !c.any_differs(),
+        orders: c.orders.iter().map(json_order).collect(),
+        diagnoses: c.diagnoses.iter().map(ToString::to_string).collect(),
+        summary: c.summary(),
+    }
+}
+
+fn text(c: &Comparison) -> String {
+    let mut out = String::new();
+    let what = if c.prediction == c.definition { c.prediction.clone() } else { format!("{} = {}", c.prediction, c.definition) };
+    out.push_str(&format!("{}: checked against {what}, coupling {}\n", c.file, c.coupling.symbol()));
+    if let Some(e) = &c.entry {
+        out.push_str(&status_line(e));
+    }
+    if !c.about.is_empty() {
+        let about: Vec<String> = c.about.iter().map(|(k, v)| format!("{k}: {v}")).collect();
+        out.push_str(&super::wrap(&format!("about: {}", about.join("; ")), 88));
+    }
+    out.push('\n');
+    let rows: Vec<(u32, (&str, String, String))> = c.orders.iter().map(|o| (o.loop_order, text_row(o, c.digits))).collect();
+    let width = rows.iter().map(|(_, (_, w, _))| w.len()).max().unwrap_or(7).max(7);
+    out.push_str(&format!("{:>4}  {:<4}  {:<width$}  detail\n", "L", "", "verdict"));
+    for (l, (mark, words, detail)) in rows {
+        out.push_str(&format!("{l:>4}  {mark:<4}  {words:<width$}  {detail}").trim_end().to_string());
+        out.push('\n');
+    }
+    if !c.diagnoses.is_empty() {
+        out.push_str("\ndiagnosis:\n");
+        for d in &c.diagnoses {
+            out.push_str(&format!("  - {d}\n"));
+        }
+    }
+    out.push_str(&format!("\nsummary: {}\n", c.summary()));
+    out
+}

@@ -1,0 +1,223 @@
+//! `loopwise check`, `eval` and `demo` run as a user runs them: every verdict,
+//! every diagnosis, the exit codes and the JSON shape, on files written here.
+//! Reference coefficients: the cusp anomalous dimension of hep-th/0610251
+//! (f = 2 Gamma_cusp there; in our normalisation Gamma_cusp =
+//! 4g^2 - 8 zeta2 g^4 + 88 zeta4 g^6 - (876 zeta6 + 32 zeta3^2) g^8
+//! + (14192/14175 pi^8 + 64/3 pi^2 zeta3^2 + 640 zeta3 zeta5) g^10).
+
+use std::path::PathBuf;
+use std::process::Command;
+
+fn loopwise(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+fn write(name: &str, text: &str) -> PathBuf {
+    let dir = std::env::temp_dir().join(format!("loopwise-check-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let path = dir.join(name);
+    std::fs::write(&path, text).unwrap();
+    path
+}
+
+fn check_json(name: &str, text: &str) -> (i32, serde_json::Value) {
+    let path = write(name, text);
+    let (code, out, err) = loopwise(&["check", path.to_str().unwrap(), "--format", "json"]);
+    assert!(code == 0 || code == 1, "{err}");
+    (code, serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}")))
+}
+
+const FOUR: &str = "-876*zeta(6) - 32*zeta(3)^2";
+const FIVE: &str = "14192/14175*pi^8 + 64/3*pi^2*zeta(3)^2 + 640*zeta(3)*zeta(5)";
+
+fn cusp_file(coupling: &str, orders: &[(u32, &str, &str)]) -> String {
+    let mut s = format!("prediction: cusp\ncoupling: {coupling}\norders:\n");
+    for (l, key, v) in orders {
+        s.push_str(&format!("  - loop: {l}\n    {key}: \"{v}\"\n"));
+    }
+    s
+}
+
+/// The exact four- and five-loop coefficients of hep-th/0610251 agree exactly.
+#[test]
+fn published_cusp_coefficients_agree_exactly() {
+    let text = cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)"), (3, "exact", "88 zeta(4)"), (4, "exact", FOUR), (5, "exact", FIVE)]);
+    let (code, v) = check_json("published.yaml", &text);
+    assert_eq!(code, 0);
+    assert_eq!(v["agrees"], true);
+    for k in 0..5 {
+        assert_eq!(v["orders"][k]["verdict"], "agrees-exactly");
+    }
+    assert_eq!(v["summary"], "orders 1-5 agree");
+}
+
+/// The four-loop coefficient as a numerical computation reports it: the
+/// value -937.43062784825374188 (from the exact form above, evaluated with
+/// MPFR in `expand`) written as -937.4306(2).
+#[test]
+fn decimal_with_uncertainty_agrees_numerically() {
+    let text = cusp_file("g2", &[(4, "value", "-937.4306(2)")]);
+    let (code, v) = check_json("numerical.yaml", &text);
+    assert_eq!(code, 0);
+    let o = &v["orders"][3];
+    assert_eq!(o["verdict"], "agrees-numerically");
+    assert_eq!(o["digits_agreeing"], 7);
+    assert_eq!(v["orders"][0]["verdict"], "not-supplied");
+    // The same number off by about 10 sigma differs, in units of the uncertainty.
+    let (code, v) = check_json("numerical-off.yaml", &cusp_file("g2", &[(4, "value", "-937.4286(2)")]));
+    assert_eq!(code, 1);
+    let o = &v["orders"][3];
+    assert_eq!(o["verdict"], "differs-numerically");
+    let sigmas: f64 = o["sigmas"].as_str().unwrap().parse().unwrap();
+    // (-937.4286 - -937.43062784825...) / 0.0002 = 10.139...
+    assert!((sigmas - 10.14).abs() < 0.01, "{sigmas}");
+}
+
+/// A deliberately wrong five-loop value (620 instead of 640 zeta3 zeta5)
+/// differs with exactly the right difference, and the diagnosis points at it.
+#[test]
+fn wrong_value_differs_with_the_exact_difference() {
+    let wrong = FIVE.replace("640", "620");
+    let text = cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-4/3 pi^2"), (3, "exact", "88 zeta(4)"), (4, "exact", FOUR), (5, "exact", &wrong)]);
+    let (code, v) = check_json("wrong.yaml", &text);
+    assert_eq!(code, 1);
+    let o = &v["orders"][4];
+    assert_eq!(o["verdict"], "differs-exactly");
+    assert_eq!(o["difference"], "-20*zeta(3)*zeta(5)");
+    assert_eq!(v["summary"], "orders 1-4 agree, order 5 differs");
+    let d = v["diagnoses"][0].as_str().unwrap();
+    assert!(d.contains("order 5") && d.contains("other 4 orders agree"), "{d}");
+}
+
+/// Coefficients in a = 2 g^2 (c_L / 2^L, physics.md section 1) but declared
+/// as g2 are recognised; declared as a, they agree.
+#[test]
+fn convention_a_is_recognised() {
+    let a_orders = [(1, "exact", "2"), (2, "exact", "-2 zeta(2)"), (3, "exact", "11 zeta(4)"), (4, "exact", "-219/4 zeta(6) - 2 zeta(3)^2")];
+    let (code, v) = check_json("a-declared-g2.yaml", &cusp_file("g2", &a_orders));
+    assert_eq!(code, 1);
+    let d: Vec<&str> = v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap()).collect();
+    assert!(d.iter().any(|d| d.contains("convention a") && d.contains("`coupling: g2`")), "{d:?}");
+    assert_eq!(d.len(), 1, "only the explanation that fits every order: {d:?}");
+    let (code, v) = check_json("a-declared-a.yaml", &cusp_file("a", &a_orders));
+    assert_eq!(code, 0, "{v}");
+}
+
+#[test]
+fn scaling_function_sign_and_shift_slips_are_recognised() {
+    let twice = [(1, "exact", "8"), (2, "exact", "-16 zeta(2)"), (3, "exact", "176 zeta(4)")];
+    let (_, v) = check_json("twice.yaml", &cusp_file("g2", &twice));
+    assert!(v["diagnoses"][0].as_str().unwrap().contains("scaling function"), "{v}");
+    let minus = [(1, "exact", "-4"), (2, "exact", "8 zeta(2)"), (3, "exact", "-88 zeta(4)")];
+    let (_, v) = check_json("minus.yaml", &cusp_file("g2", &minus));
+    assert!(v["diagnoses"][0].as_str().unwrap().contains("opposite sign"), "{v}");
+    let shifted = [(1, "exact", "-8 zeta(2)"), (2, "exact", "88 zeta(4)"), (3, "exact", FOUR)];
+    let (_, v) = check_json("shifted.yaml", &cusp_file("g2", &shifted));
+    assert!(v["diagnoses"][0].as_str().unwrap().contains("shifted by one"), "{v}");
+}
+
+/// A coefficient of the wrong transcendental weight is named (physics.md
+/// section 1: uniform weight 2L - 2).
+#[test]
+fn non_uniform_weight_is_reported() {
+    let text = cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)"), (3, "exact", "88 zeta(4) + zeta(3)")]);
+    let (code, v) = check_json("weight.yaml", &text);
+    assert_eq!(code, 1);
+    let d: Vec<&str> = v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap()).collect();
+    assert!(d.iter().any(|d| d.contains("mixes transcendental weights 3, 4")), "{d:?}");
+}
+
+#[test]
+fn numbers_without_stated_uncertainty_use_the_written_digits() {
+    // -13.1594725347858 is zeta-exact to all 15 written digits; -13.15947 rounds
+    // correctly; -13.15948 is outside half a unit of its last digit.
+    for (value, verdict) in [("-13.1594725347858", "agrees-numerically"), ("-13.15947", "agrees-numerically"), ("-13.15948", "differs-numerically")] {
+        let (_, v) = check_json("digits.yaml", &cusp_file("g2", &[(2, "value", value)]));
+        assert_eq!(v["orders"][1]["verdict"], verdict, "{value}");
+    }
+}
+
+#[test]
+fn exact_and_value_must_agree_with_each_other() {
+    let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 2\n    exact: \"-8 zeta(2)\"\n    value: \"-13.5(1)\"\n";
+    let (code, v) = check_json("both-inconsistent.yaml", text);
+    assert_eq!(code, 1);
+    assert_eq!(v["orders"][1]["inconsistent_value"], "differs-numerically");
+}
+
+#[test]
+fn formula_predictions_and_not_predicted_orders() {
+    let text = "prediction: \"Gamma(pi/4) - 4 g^2\"\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"0\"\n  - loop: 2\n    exact: \"-8 zeta(2)\"\n  - loop: 51\n    value: \"1.0\"\n";
+    let (code, v) = check_json("formula.yaml", text);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["orders"][50]["verdict"], "not-predicted");
+    assert_eq!(v["orders"][10]["verdict"], "not-supplied");
+}
+
+#[test]
+fn text_report_has_marks_and_summary() {
+    let path = write("text.yaml", &cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(3)")]));
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 1);
+    assert!(out.contains("DIFF") && out.contains("summary: order 1 agrees, order 2 differs"), "{out}");
+}
+
+#[test]
+fn unreadable_input_exits_two_with_file_line_and_column() {
+    let path = write("broken.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 2\n    exact: \"-8 zeta(2\"\n");
+    let (code, out, err) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 2);
+    assert!(out.is_empty());
+    assert!(err.contains("broken.yaml:5:"), "{err}");
+    let path = write("unknown.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exat: \"4\"\n");
+    let (code, _, err) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 2);
+    assert!(err.contains("did you mean `exact`"), "{err}");
+    let (code, _, err) = loopwise(&["check", "/nonexistent/file.yaml"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("/nonexistent/file.yaml"), "{err}");
+    let path = write("noprediction.yaml", "coupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n");
+    let (code, _, err) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 2);
+    assert!(err.contains("names no `prediction`"), "{err}");
+}
+
+#[test]
+fn several_files_give_a_json_array_and_the_worst_exit_code() {
+    let good = write("good.yaml", &cusp_file("g2", &[(1, "exact", "4")]));
+    let bad = write("bad.yaml", &cusp_file("g2", &[(1, "exact", "5")]));
+    let (code, out, _) = loopwise(&["check", good.to_str().unwrap(), bad.to_str().unwrap(), "--format", "json"]);
+    assert_eq!(code, 1);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v.as_array().unwrap().len(), 2);
+}
+
+/// The demo finds its planted mistake (five loops) and the numerical order.
+#[test]
+fn demo_finds_the_planted_mistake() {
+    let (code, out, _) = loopwise(&["demo"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("fictional"), "{out}");
+    assert!(out.contains("order 5 looks like a slip"), "{out}");
+    assert!(out.contains("summary: orders 1-4 agree, order 5 differs, orders 6-7 agree"), "{out}");
+    assert!(out.contains("agrees to 9 digits"), "{out}");
+}
+
+/// zeta(2) = pi^2/6 (A&S 23.2.24) to the digits asked.
+#[test]
+fn eval_prints_one_value() {
+    let (code, out, _) = loopwise(&["eval", "pi^2/6 - zeta(2) + 1", "--digits", "40"]);
+    assert_eq!(code, 0);
+    assert_eq!(out.trim(), "1.000000000000000000000000000000000000000");
+    let (code, out, _) = loopwise(&["eval", "-1240.9(2)*2"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("± 0.40"), "{out}");
+    let (code, _, err) = loopwise(&["eval", "zeta(1)"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("1:"), "{err}");
+}
