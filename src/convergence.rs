@@ -422,7 +422,8 @@ mod tests {
         let quarter = f(0.25);
         let err = |x: &Float| Float::with_val(P, x - &quarter).abs();
         assert!(err(&est.estimate) < 1e-3, "estimate {}", est.estimate);
-        // The ratios follow sqrt(1 + 1/L)/4 up to (1/9)^L, so Richardson does far better.
+        // The ratios follow sqrt(1 + 1/L)/4 up to relative corrections of order
+        // 4^-L (from 2^(2L) - 1 and zeta(2L) in B_2L), so Richardson does far better.
         assert!(err(&est.estimate) < 1e-6, "estimate {}", est.estimate);
         assert!(est.spread < 1e-3, "spread {}", est.spread);
         assert!(err(&est.estimate) <= Float::with_val(P, &est.spread * 10u32) + 1e-30);

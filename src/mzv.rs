@@ -398,11 +398,12 @@ mod tests {
                 .max_by(|&x, &y| a[x][col].clone().abs().partial_cmp(&a[y][col].clone().abs()).unwrap())
                 .unwrap();
             a.swap(col, pivot);
-            for r in col + 1..unknowns {
-                let f = Float::with_val(prec, &a[r][col] / &a[col][col]);
-                for c in col..=unknowns {
-                    let sub = Float::with_val(prec, &f * &a[col][c]);
-                    a[r][c] -= sub;
+            let pivot_row = a[col].clone();
+            for row in a.iter_mut().skip(col + 1) {
+                let f = Float::with_val(prec, &row[col] / &pivot_row[col]);
+                for (c, p) in pivot_row.iter().enumerate().skip(col) {
+                    let sub = Float::with_val(prec, &f * p);
+                    row[c] -= sub;
                 }
             }
         }
