@@ -440,6 +440,17 @@ mod tests {
     }
 
     #[test]
+    fn spread_flags_a_complex_pair() {
+        // c_L = 16^L cos L: singularities at g^2 = e^(+-i)/16, radius 1/4 in g
+        // again, but the ratios oscillate and never settle.
+        let c: Vec<Float> = (1..=30u32)
+            .map(|l| Float::with_val(P, Float::u_pow_u(16, l)) * f(l as f64).cos())
+            .collect();
+        let est = radius_in_g(&c).unwrap();
+        assert!(est.spread > 0.1, "spread {} estimate {}", est.spread, est.estimate);
+    }
+
+    #[test]
     fn radius_errors() {
         let ones: Vec<Float> = (0..5).map(|_| f(1.0)).collect();
         assert_eq!(radius_in_g(&ones[..2]).unwrap_err().kind(), ErrorKind::Input);

@@ -164,16 +164,16 @@ fn bit_length(x: u64) -> u64 {
 /// that bound grows by a factor below e^(1/3) per step, so with the 2^-n it
 /// forms a geometric tail with ratio below 0.7, and
 ///   tail <= 2^(-N+1) (1 + ln(N+1))^(m-1) / (m-1)!.
-/// The logarithms are evaluated in f64 only to size the loop; 4 spare bits
-/// absorb their rounding.
+/// In integers: 1 + ln x <= bits(x) once x >= 8, so the power contributes at
+/// most (m-1) ceil(log2 bits(N+1)) bits, and (m-1)! at least
+/// bits((m-1)!) - 1.
 fn terms_needed(target: u64, depth: usize) -> u64 {
-    let q = depth.saturating_sub(1) as f64;
-    let log2_q_factorial: f64 = (1..=depth.saturating_sub(1)).map(|i| (i as f64).log2()).sum();
-    let mut n = target.max(3 * depth as u64).max(8);
+    let q = depth.saturating_sub(1) as u64;
+    let factorial_bits = Integer::from(Integer::factorial(q as u32)).significant_bits() as u64 - 1;
+    let mut n = target.max(3 * q).max(8);
     loop {
-        let grow = q * (1.0 + ((n + 1) as f64).ln()).log2();
-        let log2_tail = -(n as f64) + 1.0 + grow - log2_q_factorial;
-        if log2_tail <= -(target as f64) - 4.0 {
+        let growth = q * bit_length(bit_length(n + 1) - 1);
+        if n + factorial_bits >= target + 1 + growth {
             return n;
         }
         n += 8;
