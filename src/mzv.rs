@@ -1,8 +1,8 @@
 //! Multiple zeta values zeta(s1, ..., sk) to high precision.
 //!
 //! Method: the iterated-integral representation over 1 > t1 > ... > tw > 0 is
-//! split at t = 1/2 (the convolution of arXiv:math/9910045, section 7, with
-//! the split point 1/2). With the word w in the letters x0 = dt/t and
+//! split at t = 1/2 (the convolution of arXiv:math/9910045 with the split
+//! point 1/2). With the word w in the letters x0 = dt/t and
 //! x1 = dt/(1-t) and its dual tau(w) (swap x0 <-> x1, then reverse),
 //!
 //!   zeta(w) = sum_{j=0}^{|w|} Li[last j letters of tau(w)](1/2)
@@ -43,8 +43,10 @@ pub fn mzv(s: &[u32], prec: u32) -> Result<Float> {
     let dual = dual_word(&word);
 
     let max_depth = s.len().max(weight as usize - s.len());
-    // Truncation: 2 (|w|+1) tails of size T must stay below zeta 2^-(prec+1),
-    // and zeta is at least its first term k^-s1 (k-1)^-s2 ... 1^-sk.
+    // Truncation: every Li at 1/2 is at most Li[x1^m](1/2) = (ln 2)^m/m! < 1,
+    // so a tail T in one factor moves a product by at most T. The 2 (|w|+1)
+    // tails must stay below zeta 2^-(prec+1), and zeta is at least its first
+    // term k^-s1 (k-1)^-s2 ... 1^-sk.
     let convolution_bits = bit_length(weight as u64 + 1);
     let target = prec as u64 + 2 + convolution_bits + smallness_bits(s);
     let terms = terms_needed(target, max_depth);
