@@ -268,7 +268,7 @@ mod tests {
 
     #[test]
     fn zeta_2_1_equals_zeta_3() {
-        // Euler's identity zeta(2,1) = zeta(3), checked to 1000 bits (> 300 digits).
+        // Classical identity zeta(2,1) = zeta(3), checked to 1000 bits (> 300 digits).
         assert_close(&mzv(&[2, 1], P).unwrap(), &zeta1(3, P), AGREE, "zeta(2,1)");
     }
 
