@@ -4,10 +4,12 @@
 
 pub mod catalogue;
 pub mod compare;
+pub mod convergence;
 pub mod coupling;
 pub mod error;
 pub mod expr;
 pub mod kernel;
+pub mod mzv;
 pub mod prediction;
 pub mod report;
 pub mod ring;

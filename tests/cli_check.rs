@@ -221,3 +221,25 @@ fn eval_prints_one_value() {
     assert_eq!(code, 2);
     assert!(err.contains("1:"), "{err}");
 }
+
+/// A coefficient written with a multiple zeta value, zeta(2,1) = zeta(3)
+/// (Euler's identity), is outside the exact ring and checks numerically at
+/// the working precision; with --digits 200 all 200 digits agree.
+#[test]
+fn multiple_zeta_values_check_numerically() {
+    let text = cusp_file("g2", &[(4, "exact", "-876 zeta(6) - 32 zeta(2,1)^2")]);
+    let path = write("mzv.yaml", &text);
+    let (code, out, err) = loopwise(&["check", path.to_str().unwrap(), "--format", "json", "--digits", "200"]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["orders"][3]["verdict"], "agrees-numerically");
+    assert_eq!(v["orders"][3]["digits_agreeing"], 200);
+    // zeta(3,1) = pi^4/360 (physics.md section 7): the difference is zero, not noise.
+    let (code, out, _) = loopwise(&["eval", "zeta(3,1) - pi^4/360", "--digits", "30"]);
+    assert_eq!(code, 0);
+    assert!(out.starts_with("0 (zero to within"), "{out}");
+    // zeta(5,3) = 0.0377076729848475... (physics.md section 7, from memory; the mzv
+    // module checks it against two independent algorithms).
+    let (_, out, _) = loopwise(&["eval", "zeta(5,3)", "--digits", "15"]);
+    assert_eq!(out.trim(), "0.0377076729848475");
+}

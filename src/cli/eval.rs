@@ -7,6 +7,8 @@ use loopwise::compare::working_bits;
 use loopwise::expr::numeric::{self, Context};
 use loopwise::expr::{self};
 use loopwise::report::decimal;
+use rug::ops::Pow;
+use rug::Float;
 use loopwise::{Error, Result};
 
 use super::{emit, Outcome};
@@ -29,13 +31,41 @@ pub fn run(args: &Args) -> Result<Outcome> {
         return Err(Error::range(format!("--digits {} is out of range: 1 to {MAX_DIGITS}", args.digits)));
     }
     let e = expr::parse(&args.expr, "<expression>", None)?;
-    let mut ctx = Context::new(working_bits(args.digits));
-    let x = numeric::evaluate(&e, &mut ctx).map_err(|f| numeric::located(&args.expr, "<expression>", None, f))?;
-    let line = if x.is_exact() {
-        decimal(&x.value, args.digits)
-    } else {
-        format!("{} ± {}", decimal(&x.value, args.digits), decimal(&x.uncertainty, 2))
-    };
+    let line = stable_value(&e, &args.expr, args.digits)?;
     emit(&format!("{line}\n"))?;
     Ok(Outcome::Done)
 }
+
+/// Evaluates at two precisions and raises both until they agree to the
+/// requested digits, so that cancellation never shows digits that are only
+/// rounding noise; a value that stays below the noise is printed as zero
+/// with its bound.
+fn stable_value(e: &expr::Expr, source: &str, digits: u32) -> Result<String> {
+    let mzv = |s: &[u32], p: u32| loopwise::mzv::mzv(s, p);
+    let mut bits = working_bits(digits);
+    let mut last = None;
+    for _ in 0..6 {
+        let at = |b: u32| {
+            let mut ctx = Context::new(b);
+            ctx.mzv = Some(&mzv);
+            numeric::evaluate(e, &mut ctx).map_err(|f| numeric::located(source, "<expression>", None, f))
+        };
+        let low = at(bits)?;
+        let high = at(bits + 64)?;
+        let noise = Float::with_val(bits, &high.value - &low.value).abs();
+        let scale = Float::with_val(bits, high.value.abs_ref());
+        let tolerance = Float::with_val(bits, &scale / Float::with_val(bits, 10u32).pow(digits + 1));
+        if !high.value.is_zero() && noise <= tolerance {
+            return Ok(if high.is_exact() {
+                decimal(&high.value, digits)
+            } else {
+                format!("{} ± {}", decimal(&high.value, digits), decimal(&high.uncertainty, 2))
+            });
+        }
+        last = Some((decimal(&noise.max(&scale), 2), bits + 64));
+        bits *= 2;
+    }
+    let (bound, used) = last.unwrap_or_else(|| ("0".to_string(), bits));
+    Ok(format!("0 (zero to within {bound} at {used} bits)"))
+}
+

@@ -45,6 +45,8 @@ pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
 /// Reads a located coefficient as a number, whatever it holds.
 pub fn read_number(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
     let mut ctx = Context::new(prec);
+    let mzv = |s: &[u32], p: u32| crate::mzv::mzv(s, p);
+    ctx.mzv = Some(&mzv);
     let approx = numeric::evaluate(&located.expr, &mut ctx).map_err(|(span, msg)| located.error_at(origin, span, &msg))?;
     let written = match &located.expr.node {
         Node::Decimal { text, .. } => Some(written_digits(text)),
