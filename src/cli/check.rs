@@ -12,7 +12,7 @@ use loopwise::seriesfile::{parse_series_text, read_series_file, SeriesFile};
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
-use super::{emit, FormatArg, Outcome};
+use super::{emit, DataFormatArg, Outcome};
 
 /// The most working digits of numerical comparisons.
 pub const MAX_DIGITS: u32 = 2000;
@@ -26,9 +26,9 @@ pub struct Args {
     /// Series files (YAML) to check; see the README for the format.
     #[arg(required = true)]
     pub files: Vec<PathBuf>,
-    /// Output format (text, json or yaml; one JSON object per file, an array for several).
+    /// Output format; JSON gives one object per file, an array for several.
     #[arg(long, value_enum, default_value = "text")]
-    pub format: FormatArg,
+    pub format: DataFormatArg,
     /// Working decimal digits of numerical comparisons.
     #[arg(long, default_value_t = 30)]
     pub digits: u32,
@@ -36,9 +36,9 @@ pub struct Args {
 
 #[derive(ClapArgs, Debug)]
 pub struct DemoArgs {
-    /// Output format (text, json or yaml).
+    /// Output format.
     #[arg(long, value_enum, default_value = "text")]
-    pub format: FormatArg,
+    pub format: DataFormatArg,
 }
 
 fn check_digits(digits: u32) -> Result<()> {
@@ -78,7 +78,7 @@ pub fn demo(args: &DemoArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let file = parse_series_text(DEMO, DEMO_NAME)?;
     let c = run_one(&file, catalogue, 30)?;
     let mut text = String::new();
-    if matches!(args.format, FormatArg::Text) {
+    if matches!(args.format, DataFormatArg::Text) {
         text.push_str("loopwise demo: an invented group's seven-loop cusp results (fictional data, shipped\n");
         text.push_str("in series/examples/demo-cusp.yaml) checked order by order against the prediction.\n\n");
     }

@@ -67,6 +67,24 @@ impl From<FormatArg> for Format {
     }
 }
 
+/// Output formats of reports that have no LaTeX form.
+#[derive(Clone, Copy, Debug, ValueEnum)]
+pub enum DataFormatArg {
+    Text,
+    Json,
+    Yaml,
+}
+
+impl From<DataFormatArg> for Format {
+    fn from(f: DataFormatArg) -> Self {
+        match f {
+            DataFormatArg::Text => Format::Text,
+            DataFormatArg::Json => Format::Json,
+            DataFormatArg::Yaml => Format::Yaml,
+        }
+    }
+}
+
 /// How even zeta values are written.
 #[derive(Clone, Copy, Debug, ValueEnum)]
 pub enum EvenArg {
