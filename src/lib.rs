@@ -4,5 +4,6 @@
 
 pub mod coupling;
 pub mod error;
+pub mod numeric;
 
 pub use error::{Error, ErrorKind, Result};
