@@ -13,6 +13,7 @@
 
 mod bessel;
 mod kernel;
+pub mod plot;
 mod quadrature;
 
 use std::f64::consts::LN_10;
