@@ -36,9 +36,10 @@ pub(crate) fn kernel_integrals(g: &Float, n: usize, nodes: &[(Float, Float)], ln
         }
         for i in 1..=m {
             let row = (i - 1) * n;
-            for j in i..=m {
-                prod.assign(&u[i] * &js[j]);
-                s[row + j - 1] += &prod;
+            let ui = &u[i];
+            for (sij, jj) in s[row + i - 1..row + m].iter_mut().zip(&js[i..=m]) {
+                prod.assign(ui * jj);
+                *sij += &prod;
             }
         }
     }
