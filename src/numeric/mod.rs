@@ -256,10 +256,11 @@ fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut 
         return Ok(Estimate { value: Float::new(out_prec), error: Float::new(out_prec) });
     }
     let gf = g.to_f64();
-    // The natural size of the functional relative to the tolerance's scale:
-    // Gamma is measured against 4 g^2, Delta against min(1, g^2).
+    // The expected size of the functional in the unit its tolerance is
+    // measured in: Gamma / (4 g^2) is about min(1, 1/(2g)) (it grows like 2g
+    // at strong coupling), Delta about min(1, g^2).
     let scale_ln = match f {
-        Functional::Gamma => 0.0,
+        Functional::Gamma => (1.0 / (2.0 * gf)).min(1.0).ln(),
         Functional::Delta => (gf * gf).min(1.0).ln(),
     };
     let mut ln_scale = scale_ln;
@@ -274,9 +275,9 @@ fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut 
         };
         let rel_value = Float::with_val(64, est.value.abs_ref()) / &unit;
         let rel_error = Float::with_val(64, &est.error / &unit);
-        let want = Float::with_val(64, &rel_value * Float::with_val(64, 10f64.powi(-(digits as i32))));
-        if rel_error <= want {
-            return Ok(round_out(est, out_prec));
+        let rounded = round_out(est.clone(), out_prec);
+        if rounded.digits_supported() >= digits {
+            return Ok(rounded);
         }
         let tol_now = Float::with_val(64, ln_tol).exp();
         if rel_error <= tol_now {
@@ -290,7 +291,7 @@ fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut 
             if ln_value <= floor || rel_value <= Float::with_val(64, &rel_error * 10u32) {
                 // Indistinguishable from zero at the natural scale's
                 // accuracy: the honest answer is the value with its error.
-                return Ok(round_out(est, out_prec));
+                return Ok(rounded);
             }
         }
         extra += 5.0;
