@@ -177,22 +177,18 @@ fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
 
 /// One pass at an absolute tolerance exp(ln_tol) on the functional divided by
 /// its scale (4 g^2 for Gamma, 1 for Delta).
-fn attempt(f: Functional, c2: &Float, g: &Float, ln_tol: f64, cache: &mut Option<RuleCache>) -> Result<Estimate> {
+fn attempt(f: Functional, c2: &Float, g: &Float, ln_tol: f64, cache: &mut RuleCache) -> Result<Estimate> {
     let gf = g.to_f64();
     let (n, n2) = sizes(f, gf, ln_tol)?;
     let guard_digits = -ln_tol / LN_10 + 6.0 + ((4 * n2) as f64).log10();
     let prec = (guard_digits * 10f64.log2()).ceil() as u32 + 32;
-    let cache = match cache {
-        Some(c) if c.prec() == prec => c,
-        slot => slot.insert(RuleCache::new(prec)),
-    };
     // Entries of K' carry the factor 4j; the functionals move by at most
     // about that much per entry error, hence the extra margin.
     let ln_entry = ln_tol - ((4 * n2) as f64).ln() - 2.0 * LN_10;
     let coarse_panels = plan(gf, ln_entry).ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
     let fine_panels = plan(gf, ln_entry - 4.0 * LN_10).ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
-    let fine_nodes = weighted_nodes(&fine_panels, cache);
-    let coarse_nodes = weighted_nodes(&coarse_panels, cache);
+    let fine_nodes = weighted_nodes(&fine_panels, cache, prec);
+    let coarse_nodes = weighted_nodes(&coarse_panels, cache, prec);
     let drop_fine = ln_entry - 4.0 * LN_10 - (fine_nodes.len() as f64).ln();
     let drop_coarse = ln_entry - (coarse_nodes.len() as f64).ln();
     let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec);
@@ -245,11 +241,10 @@ fn check_inputs(c2: &Float, g: &Float, digits: u32) -> Result<()> {
 /// `digits` significant digits (relative to |value|, or absolute at the
 /// functional's natural scale when the value is nearly zero).
 pub fn evaluate(f: Functional, c2: &Float, g: &Float, digits: u32) -> Result<Estimate> {
-    let mut cache = None;
-    evaluate_with(f, c2, g, digits, &mut cache)
+    evaluate_with(f, c2, g, digits, &mut RuleCache::default())
 }
 
-fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut Option<RuleCache>) -> Result<Estimate> {
+fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut RuleCache) -> Result<Estimate> {
     check_inputs(c2, g, digits)?;
     let out_prec = (f64::from(digits + 10) * 10f64.log2()).ceil() as u32;
     if g.is_zero() {
@@ -321,7 +316,7 @@ pub fn scan(
     digits: u32,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<Vec<Estimate>> {
-    let mut cache = None;
+    let mut cache = RuleCache::default();
     let total = couplings.len();
     let mut out = Vec::with_capacity(total);
     for (i, g) in couplings.iter().enumerate() {

@@ -83,22 +83,16 @@ fn gauss_legendre(m: usize, prec: u32) -> GaussRule {
     GaussRule { nodes, weights }
 }
 
-/// Gauss-Legendre rules by order, all at one precision, computed on first use.
+/// Gauss-Legendre rules by order and precision, computed on first use, so
+/// that a scan over couplings computes each rule once.
+#[derive(Default)]
 pub(crate) struct RuleCache {
-    prec: u32,
-    rules: HashMap<usize, Rc<GaussRule>>,
+    rules: HashMap<(usize, u32), Rc<GaussRule>>,
 }
 
 impl RuleCache {
-    pub fn new(prec: u32) -> Self {
-        RuleCache { prec, rules: HashMap::new() }
-    }
-    pub fn prec(&self) -> u32 {
-        self.prec
-    }
-    pub fn get(&mut self, n: usize) -> Rc<GaussRule> {
-        let prec = self.prec;
-        self.rules.entry(n).or_insert_with(|| Rc::new(gauss_legendre(n, prec))).clone()
+    pub fn get(&mut self, n: usize, prec: u32) -> Rc<GaussRule> {
+        self.rules.entry((n, prec)).or_insert_with(|| Rc::new(gauss_legendre(n, prec))).clone()
     }
 }
 
@@ -176,11 +170,10 @@ pub(crate) fn plan(g: f64, ln_tol: f64) -> Option<Vec<Panel>> {
 
 /// Nodes t_k and weights w_k / (t_k (e^t_k - 1)) of the composite rule, the
 /// kernel's weight folded in so that an integral is sum_k W_k J_i J_j.
-pub(crate) fn weighted_nodes(panels: &[Panel], cache: &mut RuleCache) -> Vec<(Float, Float)> {
-    let prec = cache.prec();
+pub(crate) fn weighted_nodes(panels: &[Panel], cache: &mut RuleCache, prec: u32) -> Vec<(Float, Float)> {
     let mut out = Vec::new();
     for p in panels {
-        let rule = cache.get(p.n);
+        let rule = cache.get(p.n, prec);
         let half = Float::with_val(prec, p.h) / 2u32;
         let mid = Float::with_val(prec, p.a) + &half;
         for (x, w) in rule.nodes.iter().zip(&rule.weights) {
@@ -217,8 +210,8 @@ mod tests {
         // (DLMF 25.5.1).
         let prec = 160;
         let panels = plan(1.0, -40.0 * std::f64::consts::LN_10).unwrap();
-        let mut cache = RuleCache::new(prec);
-        let nodes = weighted_nodes(&panels, &mut cache);
+        let mut cache = RuleCache::default();
+        let nodes = weighted_nodes(&panels, &mut cache, prec);
         let mut s = Float::with_val(prec, 0);
         for (t, w) in &nodes {
             s += Float::with_val(prec, t * t) * w;
