@@ -50,7 +50,7 @@ impl Estimate {
     /// within one unit of the k-th digit of the true value: the error is at
     /// most half that unit. Zero when the error reaches the value's size.
     pub fn digits_supported(&self) -> u32 {
-        if self.value.is_zero() {
+        if self.value.is_zero() || !self.value.is_finite() || !self.error.is_finite() {
             return 0;
         }
         let lead = self.value.clone().abs().log10().floor().to_f64();
@@ -66,8 +66,9 @@ impl Estimate {
         }
     }
 
-    /// The value rounded to min(digits_supported, max_digits) significant
-    /// digits, in plain decimal when the exponent is modest and as
+    /// The value rounded to exactly min(digits_supported, max_digits)
+    /// significant digits (trailing zeros included, since they are supported
+    /// digits too), in plain decimal when that needs no padding zeros and as
     /// mantissa`e`exponent otherwise. Only digits the error supports are
     /// printed; when none are, the result is "0 +- <error>".
     pub fn to_decimal(&self, max_digits: u32) -> String {
@@ -85,11 +86,13 @@ impl Estimate {
         let digits: String = mantissa.chars().filter(char::is_ascii_digit).collect();
         let exp = exp_text.parse::<i64>().unwrap_or(0) + 1;
         // value = 0.d1d2d3... x 10^exp
-        if (-5..=21).contains(&exp) {
+        // Plain decimals unless that would need padding zeros that look
+        // like digits (a large integer part) or many leading zeros.
+        if (-5..=digits.len() as i64).contains(&exp) {
             if exp <= 0 {
                 format!("{sign}0.{}{digits}", "0".repeat((-exp) as usize))
-            } else if (exp as usize) >= digits.len() {
-                format!("{sign}{digits}{}", "0".repeat(exp as usize - digits.len()))
+            } else if exp as usize == digits.len() {
+                format!("{sign}{digits}")
             } else {
                 let (a, b) = digits.split_at(exp as usize);
                 format!("{sign}{a}.{b}")
