@@ -114,8 +114,8 @@ const MAX_COUPLING: f64 = 200.0;
 /// Largest truncation the engine will try.
 const MAX_SIZE: usize = 3000;
 
-/// ln of an a-priori magnitude of 2 j S_jj-like diagonal entries of size m:
-/// the peak of J_m(2gt)^2 / (t (e^t - 1)) over t, times the 4m of K'.
+/// ln of an a-priori magnitude of the diagonal entry K'_mm ~ 4m S_mm: the
+/// peak of J_m(2gt)^2 / (t (e^t - 1)) over t, times 4m.
 fn ln_diagonal(m: usize, g: f64) -> f64 {
     peak(|t| 2.0 * ln_magnitude(m, 2.0 * g * t), m)
 }
@@ -125,6 +125,7 @@ fn ln_first_row(m: usize, g: f64) -> f64 {
     peak(|t| ln_magnitude(m, 2.0 * g * t) + (g * t).ln().min(0.0), m)
 }
 
+/// Peak over t of exp(bessel(t)) / (e^t - 1), times 4m, as a logarithm.
 fn peak(bessel: impl Fn(f64) -> f64, m: usize) -> f64 {
     let mut best = f64::NEG_INFINITY;
     let mut t = 1e-3;
