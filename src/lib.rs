@@ -10,6 +10,7 @@ pub mod error;
 pub mod expr;
 pub mod kernel;
 pub mod mzv;
+pub mod numeric;
 pub mod prediction;
 pub mod report;
 pub mod ring;

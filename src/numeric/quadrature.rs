@@ -1,0 +1,223 @@
+//! Quadrature on (0, inf) for the kernel integrands: composite
+//! Gauss-Legendre on equal panels of [0, T], with the panel width and each
+//! panel's order chosen from an a-priori error model, and Gauss-Legendre
+//! rules computed in MPFR and cached per order.
+//!
+//! The model (control logic in f64; the rules themselves are MPFR): on a
+//! panel of width H, an n-point rule errs by about
+//! (64/15) (H/2) max_E|f| / (rho^(2n) (rho^2 - 1)) where E is the Bernstein
+//! ellipse of parameter rho around the panel. For J_i(2gt) J_j(2gt) / (t (e^t - 1))
+//! the growth on E comes from |J_n(z)| <= exp|Im z| (DLMF 10.14.4), from e^-t,
+//! and is capped by the poles of 1/(e^t - 1) at t = +-2 pi i.
+
+use std::collections::HashMap;
+use std::f64::consts::PI;
+use std::rc::Rc;
+
+use rug::{Assign, Float};
+
+/// One panel [a, a + h] with an n-point rule.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct Panel {
+    pub a: f64,
+    pub h: f64,
+    pub n: usize,
+}
+
+/// Gauss-Legendre nodes and weights on [-1, 1] at one precision.
+pub(crate) struct GaussRule {
+    pub nodes: Vec<Float>,
+    pub weights: Vec<Float>,
+}
+
+/// Newton's method on P_m from Chebyshev-like starting points; the
+/// three-term recurrence gives P_m and P_{m-1}, hence P_m' (A&S 22.8.5).
+fn gauss_legendre(m: usize, prec: u32) -> GaussRule {
+    let wprec = prec + 10;
+    let mut nodes = vec![Float::new(prec); m];
+    let mut weights = vec![Float::new(prec); m];
+    let legendre = |x: &Float| -> (Float, Float) {
+        let mut p0 = Float::with_val(wprec, 1);
+        let mut p1 = x.clone();
+        let mut tmp = Float::new(wprec);
+        for k in 1..m {
+            // p_{k+1} = ((2k+1) x p_k - k p_{k-1}) / (k+1)
+            tmp.assign(x * &p1);
+            tmp *= (2 * k + 1) as u32;
+            p0 *= k as u32;
+            tmp -= &p0;
+            tmp /= (k + 1) as u32;
+            std::mem::swap(&mut p0, &mut p1);
+            std::mem::swap(&mut p1, &mut tmp);
+        }
+        let pm = if m == 0 { p0.clone() } else { p1 };
+        let pm1 = p0;
+        // P_m' = m (x P_m - P_{m-1}) / (x^2 - 1)
+        let mut d = Float::with_val(wprec, x * &pm);
+        d -= &pm1;
+        d *= m as u32;
+        let den = Float::with_val(wprec, x * x) - 1u32;
+        d /= &den;
+        (pm, d)
+    };
+    for i in 0..m.div_ceil(2) {
+        let guess = (PI * (i as f64 + 0.75) / (m as f64 + 0.5)).cos();
+        let mut x = Float::with_val(wprec, guess);
+        let tiny = Float::with_val(wprec, Float::i_exp(1, -(wprec as i32) + 8));
+        for _ in 0..200 {
+            let (p, d) = legendre(&x);
+            let dx = Float::with_val(wprec, &p / &d);
+            x -= &dx;
+            if dx.abs() < tiny {
+                break;
+            }
+        }
+        let (_, d) = legendre(&x);
+        let one_minus = Float::with_val(wprec, 1u32 - Float::with_val(wprec, &x * &x));
+        let w = Float::with_val(wprec, 2u32 / (one_minus * Float::with_val(wprec, &d * &d)));
+        nodes[i].assign(&x);
+        weights[i].assign(&w);
+        nodes[m - 1 - i].assign(-x);
+        weights[m - 1 - i].assign(&w);
+    }
+    GaussRule { nodes, weights }
+}
+
+/// Gauss-Legendre rules by order and precision, computed on first use, so
+/// that a scan over couplings computes each rule once.
+#[derive(Default)]
+pub(crate) struct RuleCache {
+    rules: HashMap<(usize, u32), Rc<GaussRule>>,
+}
+
+impl RuleCache {
+    pub fn get(&mut self, n: usize, prec: u32) -> Rc<GaussRule> {
+        self.rules.entry((n, prec)).or_insert_with(|| Rc::new(gauss_legendre(n, prec))).clone()
+    }
+}
+
+/// Where the integrands are negligible: beyond T the tail of
+/// |J_i J_j| / (t (e^t - 1)) <= 2 e^-t / t is below exp(ln_tol).
+pub(crate) fn cutoff(ln_tol: f64) -> f64 {
+    let mut t = 1.0f64;
+    while (2.0f64).ln() - t - t.ln() > ln_tol - 2.0 {
+        t += 0.5;
+    }
+    t
+}
+
+/// The smallest order whose modelled error on `[a, a + h]` is below
+/// exp(ln_tol), or None past a sanity bound.
+fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
+    // Sum of distances from the pole 2 pi i to the panel's ends bounds the
+    // ellipse: (h/2)(rho + 1/rho) must stay below it with a margin.
+    let pole = 2.0 * PI;
+    let s = (pole * pole + a * a).sqrt() + (pole * pole + (a + h) * (a + h)).sqrt();
+    let cap = (2.0 * s / h) * 0.9;
+    let rho_max = 0.5 * (cap + (cap * cap - 4.0).max(0.0).sqrt());
+    let amp = (g * g).max(1.0).ln() + 2.0;
+    let mut best: Option<f64> = None;
+    let steps = 120;
+    for k in 1..=steps {
+        let rho = 1.0 + (rho_max - 1.0) * (k as f64 / steps as f64).powi(2);
+        if rho <= 1.0 || rho > rho_max {
+            continue;
+        }
+        let semi_minor = 0.25 * h * (rho - 1.0 / rho);
+        let semi_major = 0.25 * h * (rho + 1.0 / rho);
+        let left = a + 0.5 * h - semi_major;
+        let ln_m = 4.0 * g * semi_minor - left.min(a) + amp;
+        let ln_err0 = (64.0f64 / 15.0).ln() + (0.5 * h).ln() + ln_m - (rho * rho - 1.0).ln();
+        let n = (ln_err0 - ln_tol) / (2.0 * rho.ln());
+        let n = n.max(2.0);
+        best = Some(best.map_or(n, |b: f64| b.min(n)));
+    }
+    let n = best?.ceil() as usize + 1;
+    (n <= 4000).then_some(n)
+}
+
+/// Panels covering [0, cutoff] for absolute accuracy exp(ln_tol) on every
+/// integral J_i(2gt) J_j(2gt) / (t (e^t - 1)), with the width (a power of
+/// two) that needs the fewest nodes.
+pub(crate) fn plan(g: f64, ln_tol: f64) -> Option<Vec<Panel>> {
+    let t_max = cutoff(ln_tol);
+    let mut best: Option<(usize, Vec<Panel>)> = None;
+    for h in [0.5, 1.0, 2.0, 4.0, 8.0] {
+        let count = (t_max / h).ceil() as usize;
+        let ln_each = ln_tol - (count as f64).ln();
+        let mut panels = Vec::with_capacity(count);
+        let mut total = 0usize;
+        let mut ok = true;
+        for p in 0..count {
+            let a = p as f64 * h;
+            match panel_order(a, h, g, ln_each) {
+                Some(n) => {
+                    total += n;
+                    panels.push(Panel { a, h, n });
+                }
+                None => {
+                    ok = false;
+                    break;
+                }
+            }
+        }
+        if ok && best.as_ref().map_or(true, |(b, _)| total < *b) {
+            best = Some((total, panels));
+        }
+    }
+    best.map(|(_, p)| p)
+}
+
+/// Nodes t_k and weights w_k / (t_k (e^t_k - 1)) of the composite rule, the
+/// kernel's weight folded in so that an integral is sum_k W_k J_i J_j.
+pub(crate) fn weighted_nodes(panels: &[Panel], cache: &mut RuleCache, prec: u32) -> Vec<(Float, Float)> {
+    let mut out = Vec::new();
+    for p in panels {
+        let rule = cache.get(p.n, prec);
+        let half = Float::with_val(prec, p.h) / 2u32;
+        let mid = Float::with_val(prec, p.a) + &half;
+        for (x, w) in rule.nodes.iter().zip(&rule.weights) {
+            let t = Float::with_val(prec, x * &half) + &mid;
+            let denom = Float::with_val(prec, t.exp_m1_ref()) * &t;
+            let wt = Float::with_val(prec, w * &half) / denom;
+            out.push((t, wt));
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use rug::ops::Pow;
+
+    #[test]
+    fn legendre_rule_integrates_polynomials_exactly() {
+        let rule = gauss_legendre(12, 200);
+        // A 12-point rule is exact to degree 23: int_{-1}^{1} x^22 = 2/23.
+        let mut s = Float::with_val(200, 0);
+        for (x, w) in rule.nodes.iter().zip(&rule.weights) {
+            s += Float::with_val(200, x.clone().pow(22u32)) * w;
+        }
+        let d = (s - Float::with_val(200, 2) / 23u32).abs().to_f64();
+        assert!(d < 1e-55, "{d}");
+    }
+
+    #[test]
+    fn composite_rule_matches_closed_form() {
+        // int_0^inf t e^{-t} ... expressed through the folded weight:
+        // sum_k W_k t_k^2 = int_0^inf t / (e^t - 1) dt = zeta(2) = pi^2/6
+        // (DLMF 25.5.1).
+        let prec = 160;
+        let panels = plan(1.0, -40.0 * std::f64::consts::LN_10).unwrap();
+        let mut cache = RuleCache::default();
+        let nodes = weighted_nodes(&panels, &mut cache, prec);
+        let mut s = Float::with_val(prec, 0);
+        for (t, w) in &nodes {
+            s += Float::with_val(prec, t * t) * w;
+        }
+        let pi2 = Float::with_val(prec, rug::float::Constant::Pi).square() / 6u32;
+        let d = (s - pi2).abs().to_f64();
+        assert!(d < 1e-38, "{d}");
+    }
+}
