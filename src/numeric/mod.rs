@@ -28,14 +28,7 @@ use quadrature::{plan, weighted_nodes, RuleCache};
 
 pub use bessel::bessel_j_upto;
 
-/// Which functional of the tilted kernel.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
-pub enum Functional {
-    /// 4 g^2 [(1 + K')^{-1}]_11
-    Gamma,
-    /// ln det(1 + K')
-    Delta,
-}
+pub use crate::kernel::Functional;
 
 /// A value with an estimated bound on its absolute error.
 #[derive(Debug, Clone, PartialEq)]
