@@ -8,6 +8,7 @@ pub mod convergence;
 pub mod coupling;
 pub mod error;
 pub mod expr;
+pub mod finite;
 pub mod kernel;
 pub mod mzv;
 pub mod numeric;

@@ -6,6 +6,7 @@
 mod check;
 mod eval;
 mod expand;
+mod finite;
 mod progress;
 
 use std::io::Write;
@@ -45,6 +46,16 @@ pub enum Command {
     Eval(eval::Args),
     /// Run `check` on a built-in, fictional seven-loop dataset.
     Demo(check::DemoArgs),
+    /// Values at finite coupling, with error estimates.
+    At(finite::AtArgs),
+    /// Values on a grid of couplings, as CSV or JSON.
+    Scan(finite::ScanArgs),
+    /// Draw finite-coupling curves, weak- and strong-coupling expansions (SVG).
+    Plot(finite::PlotArgs),
+    /// Radius of convergence of the weak-coupling series (ratio and root tests).
+    Radius(finite::RadiusArgs),
+    /// Compare the summed weak-coupling series with the numerical engine.
+    Selftest,
 }
 
 /// Output formats, as the command line spells them.
@@ -153,6 +164,11 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::Check(args) => check::run(args, &catalogue),
         Command::Eval(args) => eval::run(args),
         Command::Demo(args) => check::demo(args, &catalogue),
+        Command::At(args) => finite::at(args, &catalogue),
+        Command::Scan(args) => finite::scan(args, &catalogue),
+        Command::Plot(args) => finite::plot(args, &catalogue),
+        Command::Radius(args) => finite::radius(args, &catalogue),
+        Command::Selftest => finite::selftest(),
     }
 }
 

@@ -18,13 +18,21 @@ pub struct Curve {
     pub dashed: bool,
 }
 
-const PALETTE: [RGBColor; 6] = [
+/// Twelve colours that stay apart from each other, so that a figure with
+/// several quantities and their expansions does not repeat a colour.
+const PALETTE: [RGBColor; 12] = [
     RGBColor(31, 90, 170),
     RGBColor(200, 70, 30),
     RGBColor(40, 140, 60),
     RGBColor(130, 60, 160),
     RGBColor(150, 110, 20),
     RGBColor(20, 140, 150),
+    RGBColor(220, 40, 120),
+    RGBColor(90, 90, 90),
+    RGBColor(110, 170, 30),
+    RGBColor(240, 150, 20),
+    RGBColor(70, 40, 110),
+    RGBColor(160, 40, 40),
 ];
 
 /// Range of the finite coordinates, widened when degenerate.

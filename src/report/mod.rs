@@ -4,6 +4,7 @@
 
 pub mod check;
 pub mod expansion;
+pub mod finite;
 pub mod latex;
 
 use std::fmt;

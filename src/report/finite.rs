@@ -1,0 +1,181 @@
+//! Reports of the finite-coupling commands: `at` (a table of values with
+//! error estimates and the strong-coupling expansion beside them), `scan`
+//! (CSV or JSON rows) and `radius` (the ratio and root sequences).
+
+use rug::Float;
+use serde::Serialize;
+
+use super::expansion::status_line;
+use super::{decimal, Format};
+use crate::catalogue::{Entry, Status};
+use crate::convergence::RadiusEstimate;
+use crate::error::{Error, Result};
+use crate::numeric::Estimate;
+
+/// One coupling of `at`.
+pub struct AtRow {
+    pub g: Float,
+    pub estimate: Estimate,
+    pub strong: Option<Float>,
+}
+
+/// Everything `at` shows.
+pub struct AtReport {
+    pub quantity: String,
+    pub definition: String,
+    pub entry: Option<Entry>,
+    pub digits: u32,
+    pub rows: Vec<AtRow>,
+}
+
+#[derive(Serialize)]
+struct JsonRow {
+    g: String,
+    value: String,
+    error: String,
+    digits: u32,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    strong_coupling: Option<String>,
+}
+
+#[derive(Serialize)]
+struct JsonAt<'a> {
+    quantity: &'a str,
+    definition: &'a str,
+    coupling: &'static str,
+    status: Option<String>,
+    strong_coupling_formula: Option<String>,
+    strong_coupling_status: Option<String>,
+    values: Vec<JsonRow>,
+}
+
+fn g_text(g: &Float) -> String {
+    if g.is_zero() {
+        return "0".to_string();
+    }
+    let d = decimal(g, 12);
+    if d.contains('.') && !d.contains('e') {
+        d.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        d
+    }
+}
+
+/// The estimate's supported digits; an exact zero (g = 0) prints as 0.
+fn value_text(e: &Estimate, digits: u32) -> String {
+    if e.value.is_zero() && e.error.is_zero() {
+        "0".to_string()
+    } else {
+        e.to_decimal(digits)
+    }
+}
+
+fn json_row(r: &AtRow, digits: u32) -> JsonRow {
+    JsonRow {
+        g: g_text(&r.g),
+        value: value_text(&r.estimate, digits),
+        error: decimal(&r.estimate.error, 2),
+        digits: r.estimate.digits_supported().min(digits),
+        strong_coupling: r.strong.as_ref().map(|s| decimal(s, 15)),
+    }
+}
+
+impl AtReport {
+    fn json(&self) -> JsonAt<'_> {
+        let sc = self.entry.as_ref().and_then(|e| e.strong_coupling.as_ref());
+        JsonAt {
+            quantity: &self.quantity,
+            definition: &self.definition,
+            coupling: "g2",
+            status: self.entry.as_ref().map(|e| e.status.to_string()),
+            strong_coupling_formula: sc.map(|s| s.formula.clone()),
+            strong_coupling_status: sc.map(|s| s.status.to_string()),
+            values: self.rows.iter().map(|r| json_row(r, self.digits)).collect(),
+        }
+    }
+
+    pub fn render(&self, format: Format) -> Result<String> {
+        match format {
+            Format::Json => Ok(serde_json::to_string_pretty(&self.json()).map_err(|e| Error::io(e.to_string()))? + "\n"),
+            Format::Yaml => serde_yaml::to_string(&self.json()).map_err(|e| Error::io(e.to_string())),
+            Format::Latex => Err(Error::input("`at` reports come as text, json or yaml")),
+            Format::Text => Ok(self.text()),
+        }
+    }
+
+    fn text(&self) -> String {
+        let mut out = String::new();
+        let title = if self.quantity == self.definition { self.quantity.clone() } else { format!("{} = {}", self.quantity, self.definition) };
+        out.push_str(&format!("{title} at finite coupling, g^2 = lambda/(16 pi^2)"));
+        if let Some(e) = &self.entry {
+            out.push_str(&format!(": {}\n", e.summary));
+            out.push_str(&status_line(e));
+        } else {
+            out.push('\n');
+        }
+        let sc = self.entry.as_ref().and_then(|e| e.strong_coupling.as_ref());
+        if let Some(s) = sc {
+            let caution = if s.status == Status::Conjecture { " (CAUTION: conjecture)" } else { "" };
+            out.push_str(&format!("strong coupling: {}{caution}\n", s.formula));
+        }
+        out.push_str(&format!("values carry only the digits their error estimate supports (at most {})\n\n", self.digits));
+        let rows: Vec<JsonRow> = self.rows.iter().map(|r| json_row(r, self.digits)).collect();
+        let gw = rows.iter().map(|r| r.g.len()).max().unwrap_or(1).max(1);
+        let vw = rows.iter().map(|r| r.value.len()).max().unwrap_or(5).max(5);
+        let strong_header = if sc.is_some() { "  strong coupling" } else { "" };
+        let header = format!("{:>gw$}  {:<vw$}  {:<8}{strong_header}", "g", "value", "error");
+        out.push_str(header.trim_end());
+        out.push('\n');
+        for r in rows {
+            let strong = r.strong_coupling.as_deref().map_or(String::new(), |s| format!("  {s}"));
+            let line = format!("{:>gw$}  {:<vw$}  {:<8}{strong}", r.g, r.value, r.error);
+            out.push_str(line.trim_end());
+            out.push('\n');
+        }
+        out
+    }
+}
+
+/// Rows of `scan` as CSV (g,value,error) or JSON.
+pub fn scan_rows(couplings: &[Float], values: &[Estimate], digits: u32, json: bool) -> Result<String> {
+    let rows: Vec<JsonRow> = couplings
+        .iter()
+        .zip(values)
+        .map(|(g, e)| JsonRow {
+            g: g_text(g),
+            value: value_text(e, digits),
+            error: decimal(&e.error, 2),
+            digits: e.digits_supported().min(digits),
+            strong_coupling: None,
+        })
+        .collect();
+    if json {
+        return Ok(serde_json::to_string_pretty(&rows).map_err(|e| Error::io(e.to_string()))? + "\n");
+    }
+    let mut out = String::from("g,value,error\n");
+    for r in rows {
+        out.push_str(&format!("{},{},{}\n", r.g, r.value, r.error));
+    }
+    Ok(out)
+}
+
+/// The ratio and root sequences and the estimate, against the expected 1/4.
+pub fn radius_text(quantity: &str, r: &RadiusEstimate) -> String {
+    let mut out = format!(
+        "{quantity}: radius of convergence in g of the weak-coupling series\n\
+         (ratio test sqrt|c_L/c_(L+1)|, root test |c_L|^(-1/(2L)); physics.md expects 1/4 for every tilt)\n\n"
+    );
+    out.push_str(&format!("{:>4}  {:<14}  {:<14}\n", "L", "ratio", "root"));
+    for ((l, ratio), (_, root)) in r.ratio.iter().zip(&r.root) {
+        out.push_str(&format!("{l:>4}  {:<14}  {:<14}\n", decimal(ratio, 10), decimal(root, 10)));
+    }
+    let quarter = Float::with_val(64, 0.25);
+    let off = Float::with_val(64, &r.estimate - &quarter);
+    out.push_str(&format!(
+        "\nestimate (extrapolated ratio sequence): {} ± {}\ndifference from 1/4: {}\n",
+        decimal(&r.estimate, 10),
+        decimal(&r.spread, 2),
+        decimal(&off, 2)
+    ));
+    out
+}
