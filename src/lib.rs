@@ -7,6 +7,7 @@ pub mod coupling;
 pub mod error;
 pub mod expr;
 pub mod kernel;
+pub mod origin;
 pub mod prediction;
 pub mod report;
 pub mod ring;
