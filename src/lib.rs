@@ -6,6 +6,7 @@ pub mod catalogue;
 pub mod coupling;
 pub mod error;
 pub mod expr;
+pub mod fit;
 pub mod kernel;
 pub mod origin;
 pub mod prediction;
