@@ -116,7 +116,7 @@ pub fn expand_basis(elements: &[BasisElement], loops: u32, catalogue: &Catalogue
 fn rational_ratio(a: &Series, b: &Series) -> Option<Rational> {
     let k = b.coeffs().iter().position(|c| !c.is_zero())?;
     let (m, cb) = b.coeff(k).terms().next()?;
-    let r = Rational::from(a.coeff(k).coefficient(m) / cb);
+    let r = a.coeff(k).coefficient(m) / cb;
     let scaled = b.map(|c| c.scale(&r));
     (scaled == *a).then_some(r)
 }

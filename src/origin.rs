@@ -1,8 +1,8 @@
 //! The six-gluon amplitude at the origin u1, u2, u3 -> 0 (physics.md section 6):
 //! loop coefficients that are polynomials in the logarithms l_i = ln u_i, the
-//! conversion between the BDS-like normalised amplitude E and the remainder
-//! function R6, the logarithm of E, the exponentiation check, and the
-//! extraction of the double-log coefficients and of the constant C0,
+//! conversion between the normalised amplitude E and the remainder function
+//! R6, the logarithm of E, the exponentiation check, and the extraction of
+//! the double-log coefficients and of the constant C0,
 //!
 //!   ln E = alpha (l1+l2+l3)^2 + beta sum_i (l_i - l_(i+1))^2 + C0 + (power-suppressed),
 //!
@@ -11,9 +11,9 @@
 //! Loop coefficients of E grow to degree 2L in the logs with thousands of
 //! terms, while those of ln E stay quadratic. The series arithmetic here
 //! therefore runs on a private dense form (log exponents and an interned
-//! transcendental monomial packed into one integer key) and always multiplies
-//! a small factor against a large one; the ring's own `Exact` is used at the
-//! edges only.
+//! transcendental monomial packed into one integer key), with the small
+//! factor of every product (a coefficient of ln E, or of the exponent) in the
+//! outer loop; the ring's own `Exact` is used at the edges only.
 
 use std::collections::HashMap;
 use std::hash::{BuildHasherDefault, Hasher};
@@ -74,7 +74,7 @@ impl OriginLogs {
     }
 }
 
-/// The limit of the one-loop BDS-like amplitude E^(1) = sum_i Li2(1 - 1/u_i)
+/// The limit of the one-loop amplitude E^(1) = sum_i Li2(1 - 1/u_i)
 /// at the origin: -(1/2) sum_i l_i^2 - 3 zeta(2), from Li2(1 - 1/u) =
 /// -ln^2(u)/2 - zeta(2) + O(u) (Abramowitz & Stegun 27.7, inversion formula).
 /// On the line the sum is 3 l^2.
@@ -90,7 +90,7 @@ pub fn one_loop_constant() -> Exact {
 }
 
 /// Gamma_cusp/4 * E^(1) at the origin, order by order.
-fn bds_exponent(gamma_cusp: &Series, logs: &OriginLogs, order: usize) -> Result<Series> {
+fn ansatz_exponent(gamma_cusp: &Series, logs: &OriginLogs, order: usize) -> Result<Series> {
     if gamma_cusp.order() < order {
         return Err(Error::range(format!(
             "Gamma_cusp is known through g^{} only, the origin series needs g^{}",
@@ -105,7 +105,7 @@ fn bds_exponent(gamma_cusp: &Series, logs: &OriginLogs, order: usize) -> Result<
 /// E = exp[R6 + Gamma_cusp/4 * E^(1)] at the origin, exactly, through the
 /// order of `r6`. R6 must have no g^0 term.
 pub fn r6_to_e(r6: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result<Series> {
-    let exponent = r6 + &bds_exponent(gamma_cusp, logs, r6.order())?;
+    let exponent = r6 + &ansatz_exponent(gamma_cusp, logs, r6.order())?;
     if !exponent.coeff(0).is_zero() {
         return Err(Error::input(format!("R6 must vanish at g^0, found {}", exponent.coeff(0))));
     }
@@ -118,8 +118,8 @@ pub fn r6_to_e(r6: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result<Se
 /// R6 = ln E - Gamma_cusp/4 * E^(1) at the origin, exactly, through the order
 /// of `e`. E must start with 1.
 pub fn e_to_r6(e: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result<Series> {
-    let bds = bds_exponent(gamma_cusp, logs, e.order())?;
-    Ok(&ln_e(e, logs)? - &bds)
+    let ansatz = ansatz_exponent(gamma_cusp, logs, e.order())?;
+    Ok(&ln_e(e, logs)? - &ansatz)
 }
 
 /// ln E over the polynomials in the logs, through the order of `e`.
@@ -194,7 +194,7 @@ pub fn analyse_e(e: &Series, logs: &OriginLogs) -> Result<OriginAnalysis> {
 /// Reads a series of R6 at the origin: ln E = R6 + Gamma_cusp/4 * E^(1)
 /// directly, without passing through E.
 pub fn analyse_r6(r6: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result<OriginAnalysis> {
-    let ln = r6 + &bds_exponent(gamma_cusp, logs, r6.order())?;
+    let ln = r6 + &ansatz_exponent(gamma_cusp, logs, r6.order())?;
     if !ln.coeff(0).is_zero() {
         return Err(Error::input(format!("R6 must vanish at g^0, found {}", ln.coeff(0))));
     }
@@ -714,7 +714,7 @@ mod tests {
         assert_eq!(a.orders[0].linear, Exact::from(2));
     }
 
-    /// A small deterministic generator (64-bit LCG, constants of Knuth's MMIX).
+    /// A small deterministic generator (a 64-bit LCG with the MMIX multiplier and increment).
     struct Lcg(u64);
 
     impl Lcg {
