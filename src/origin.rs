@@ -111,7 +111,7 @@ pub fn r6_to_e(r6: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result<Se
     }
     let mut alg = Algebra::new(logs);
     let f = alg.import_series(&exponent)?;
-    let e = alg.exp(&f);
+    let e = alg.exp(&f)?;
     Ok(alg.export_series(&e))
 }
 
@@ -295,6 +295,20 @@ fn degree_of(key: u64) -> u64 {
 /// A polynomial in the logs with transcendental coefficients: key -> rational.
 type Dense = KeyMap<Rational>;
 
+fn max_exps(d: &Dense) -> [u64; 3] {
+    let mut m = [0; 3];
+    for &key in d.keys() {
+        for (x, e) in m.iter_mut().zip(exps_of(key)) {
+            *x = (*x).max(e);
+        }
+    }
+    m
+}
+
+fn too_many_transcendentals() -> Error {
+    Error::range(format!("more than {FIELD_MAX} distinct transcendental monomials in one origin series"))
+}
+
 /// The interned transcendental monomials and their products.
 struct Algebra {
     logs: OriginLogs,
@@ -320,15 +334,18 @@ impl Algebra {
         i
     }
 
-    fn product(&mut self, a: u64, b: u64) -> u64 {
+    fn product(&mut self, a: u64, b: u64) -> Result<u64> {
         let key = a << 32 | b;
         if let Some(&p) = self.products.get(&key) {
-            return p;
+            return Ok(p);
         }
         let m = self.monomials[a as usize].mul(&self.monomials[b as usize]);
         let p = self.intern(m);
+        if p > FIELD_MAX {
+            return Err(too_many_transcendentals());
+        }
         self.products.insert(key, p);
-        p
+        Ok(p)
     }
 
     fn import(&mut self, e: &Exact) -> Result<Dense> {
@@ -351,9 +368,7 @@ impl Algebra {
             }
             let t = self.intern(rest);
             if t > FIELD_MAX {
-                return Err(Error::range(format!(
-                    "more than {FIELD_MAX} distinct transcendental monomials in one origin series"
-                )));
+                return Err(too_many_transcendentals());
             }
             *out.entry(pack(exps, t)).or_default() += c;
         }
@@ -386,7 +401,12 @@ impl Algebra {
     }
 
     /// acc += factor * a * b, with `a` the small operand.
-    fn add_product(&mut self, acc: &mut Dense, factor: &Rational, a: &Dense, b: &Dense) {
+    fn add_product(&mut self, acc: &mut Dense, factor: &Rational, a: &Dense, b: &Dense) -> Result<()> {
+        // Exponents add field by field; a carry would corrupt the key.
+        let (ma, mb) = (max_exps(a), max_exps(b));
+        if (0..3).any(|i| ma[i] + mb[i] > FIELD_MAX) {
+            return Err(Error::range(format!("a power of a log above {FIELD_MAX} in a product of origin coefficients")));
+        }
         let mut row: KeyMap<u64> = KeyMap::default();
         for (&ka, ca) in a {
             let ca = Rational::from(ca * factor);
@@ -397,7 +417,7 @@ impl Algebra {
                 let t = match row.get(&tb) {
                     Some(&t) => t,
                     None => {
-                        let t = self.product(ta, tb);
+                        let t = self.product(ta, tb)?;
                         row.insert(tb, t);
                         t
                     }
@@ -413,11 +433,12 @@ impl Algebra {
             }
         }
         acc.retain(|_, c| *c != 0);
+        Ok(())
     }
 
     /// exp of a series with zero constant term: k out_k = sum_j j f_j out_(k-j),
     /// the f_j (the exponent) being the small operand.
-    fn exp(&mut self, f: &[Dense]) -> Vec<Dense> {
+    fn exp(&mut self, f: &[Dense]) -> Result<Vec<Dense>> {
         let n = f.len() - 1;
         let mut out: Vec<Dense> = Vec::with_capacity(n + 1);
         out.push(Dense::from_iter([(pack([0; 3], 0), Rational::from(1))]));
@@ -426,12 +447,12 @@ impl Algebra {
             for j in 1..=k {
                 if !f[j].is_empty() && !out[k - j].is_empty() {
                     let factor = Rational::from((j as i64, k as i64));
-                    self.add_product(&mut acc, &factor, &f[j], &out[k - j]);
+                    self.add_product(&mut acc, &factor, &f[j], &out[k - j])?;
                 }
             }
             out.push(acc);
         }
-        out
+        Ok(out)
     }
 
     /// ln of a series with constant term 1: out_k = e_k - (1/k) sum_(j<k) j out_j e_(k-j).
@@ -453,8 +474,9 @@ impl Algebra {
                 if !out[j].is_empty() && !e[k - j].is_empty() {
                     let factor = Rational::from((-(j as i64), k as i64));
                     let small = std::mem::take(&mut out[j]);
-                    self.add_product(&mut acc, &factor, &small, &e[k - j]);
+                    let done = self.add_product(&mut acc, &factor, &small, &e[k - j]);
                     out[j] = small;
+                    done?;
                 }
             }
             for (&key, c) in &e[k] {
@@ -792,5 +814,10 @@ mod tests {
         let e = Series::new(vec![Exact::one(), Exact::symbol("x")]);
         assert!(analyse_e(&e, &OriginLogs::three()).unwrap_err().message().contains("'x'"));
         assert!(r6_to_e(&two_loop_r6(), &cusp(1), &OriginLogs::three()).is_err());
+        // Powers whose products would not fit the dense keys are refused, not wrapped.
+        let big = Series::new(vec![Exact::one(), Exact::symbol("l1").pow(40_000)]);
+        assert_eq!(ln_e(&big, &OriginLogs::three()).unwrap(), big.ln().unwrap());
+        let twice = Series::new(vec![Exact::one(), Exact::symbol("l1").pow(40_000), Exact::zero()]);
+        assert!(ln_e(&twice, &OriginLogs::three()).is_err());
     }
 }
