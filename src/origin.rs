@@ -804,6 +804,18 @@ mod tests {
         assert!(a.orders.iter().all(|r| r.octagon == *p.octagon.coeff(r.order)));
     }
 
+    /// Three loops: Gamma_oct = (2/pi^2) ln cosh(2 pi g) with ln cosh y =
+    /// y^2/2 - y^4/12 + y^6/45 - ... (integrated tanh series, Abramowitz &
+    /// Stegun section 4.5) gives 128 pi^4/45 = 256 zeta4 at g^6; Gamma_hex^(3) =
+    /// 34 zeta4 (physics.md section 4).
+    #[test]
+    fn three_loop_predictions_against_closed_forms() {
+        let p = predicted_log_coefficients(3).unwrap();
+        assert_eq!(p.octagon.coeff(3), &Exact::pi().pow(4).scale(&Rational::from((-128, 45 * 24))));
+        assert_eq!(p.octagon.coeff(3), &zeta(4).scale(&Rational::from((-256, 24))));
+        assert_eq!(p.hexagon.coeff(3), &zeta(4).scale(&Rational::from((-34, 24))));
+    }
+
     #[test]
     fn bad_input_is_refused() {
         assert!(OriginLogs::from_symbols(&["a".into(), "b".into()]).is_err());
