@@ -35,7 +35,7 @@ pub struct AtArgs {
     #[arg(allow_hyphen_values = true)]
     pub quantity: String,
     /// Couplings g (g^2 = lambda/(16 pi^2)): a list 0.1,0.5,1,2 or a grid START:STOP:STEP.
-    #[arg(long, default_value = "0.1,0.5,1,2")]
+    #[arg(long, default_value = "0.1,0.5,1,2", allow_hyphen_values = true)]
     pub g: String,
     /// Significant digits wanted; only digits the error estimate supports are printed.
     #[arg(long, default_value_t = 20)]
@@ -85,7 +85,7 @@ pub struct ScanArgs {
     #[arg(allow_hyphen_values = true)]
     pub quantity: String,
     /// The grid: START:STOP:STEP, or START:STOP with --points values.
-    #[arg(long, default_value = "0:4:0.05")]
+    #[arg(long, default_value = "0:4:0.05", allow_hyphen_values = true)]
     pub g: String,
     /// Number of points of a START:STOP grid.
     #[arg(long, default_value_t = 61)]
@@ -119,7 +119,7 @@ pub struct PlotArgs {
     #[arg(required = true)]
     pub quantities: Vec<String>,
     /// The range of g: START:STOP.
-    #[arg(long, default_value = "0:3")]
+    #[arg(long, default_value = "0:3", allow_hyphen_values = true)]
     pub g: String,
     /// Points along the range.
     #[arg(long, default_value_t = 61)]

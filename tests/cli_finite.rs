@@ -1,0 +1,199 @@
+//! The finite-coupling commands run as a user runs them: `at` against the
+//! octagon closed forms (with honest error estimates), formulas, `scan`,
+//! `plot`, `radius`, `selftest`, and bad input.
+
+use std::process::Command;
+
+use rug::float::Constant;
+use rug::Float;
+
+fn loopwise(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+fn at_json(args: &[&str]) -> serde_json::Value {
+    let mut all = vec!["at"];
+    all.extend_from_slice(args);
+    all.extend_from_slice(&["--format", "json"]);
+    let (code, out, err) = loopwise(&all);
+    assert_eq!(code, 0, "{err}");
+    serde_json::from_str(&out).unwrap()
+}
+
+const PREC: u32 = 400;
+
+fn f(text: &str) -> Float {
+    Float::with_val(PREC, Float::parse(text).unwrap())
+}
+
+/// Checks every printed value against a reference: the true error is below
+/// the reported estimate, and at least `min_digits` significant digits are printed.
+fn assert_honest(v: &serde_json::Value, reference: impl Fn(&Float) -> Float, min_digits: u32) {
+    for row in v["values"].as_array().unwrap() {
+        let g = f(row["g"].as_str().unwrap());
+        let value = f(row["value"].as_str().unwrap());
+        let error = f(row["error"].as_str().unwrap());
+        let truth = reference(&g);
+        let actual = Float::with_val(PREC, &value - &truth).abs();
+        // The printed value is rounded to its supported digits: allow half a unit of the last one.
+        let digits = row["digits"].as_u64().unwrap() as i32;
+        let lead = truth.clone().abs().log10().floor().to_f64() as i32;
+        let half_unit = Float::with_val(PREC, Float::i_exp(1, 0)) * Float::with_val(PREC, 10u32).pow_ref_i(lead - digits + 1) / 2u32;
+        assert!(actual <= Float::with_val(PREC, &error + &half_unit), "g = {g}: |{value} - truth| = {actual} > {error}");
+        assert!(digits as u32 >= min_digits, "g = {g}: only {digits} digits");
+    }
+}
+
+trait PowI {
+    fn pow_ref_i(&self, k: i32) -> Float;
+}
+
+impl PowI for Float {
+    fn pow_ref_i(&self, k: i32) -> Float {
+        use rug::ops::Pow;
+        Float::with_val(self.prec(), self.pow(k))
+    }
+}
+
+/// Gamma(0) = (2/pi^2) ln cosh(2 pi g) (arXiv:1907.13131, arXiv:2003.01121;
+/// closed form from memory in physics.md, confirmed there numerically), at
+/// g = 0.1, 0.5, 1, 2, 4 to at least 25 digits, with honest error estimates.
+#[test]
+fn octagon_against_its_closed_form() {
+    let v = at_json(&["octagon", "--g", "0.1,0.5,1,2,4", "--digits", "30"]);
+    let pi = Float::with_val(PREC, Constant::Pi);
+    assert_honest(&v, |g| Float::with_val(PREC, Float::with_val(PREC, &pi * g) * 2u32).cosh().ln() * 2u32 / pi.clone().square(), 25);
+}
+
+/// Delta(0) = (1/4) ln(sinh(4 pi g)/(4 pi g)) (physics.md section 4; the
+/// identification with arXiv:2003.01121 is from memory), at least 20 digits.
+#[test]
+fn octagon_constant_against_its_closed_form() {
+    let v = at_json(&["octagon-constant", "--g", "0.1,0.5,1,2", "--digits", "25"]);
+    let pi = Float::with_val(PREC, Constant::Pi);
+    assert_honest(
+        &v,
+        |g| {
+            let y = Float::with_val(PREC, &pi * g) * 4u32;
+            Float::with_val(PREC, y.clone().sinh() / &y).ln() / 4u32
+        },
+        20,
+    );
+}
+
+/// A formula of functionals at finite coupling: the scaling function is twice
+/// the cusp (catalogue definitions), and an irrational tilt works here.
+#[test]
+fn formulas_and_any_real_tilt() {
+    let cusp = at_json(&["cusp", "--g", "0.7", "--digits", "20"]);
+    let twice = at_json(&["2*Gamma(pi/4)", "--g", "0.7", "--digits", "20"]);
+    let a = f(cusp["values"][0]["value"].as_str().unwrap());
+    let b = f(twice["values"][0]["value"].as_str().unwrap());
+    assert!(Float::with_val(PREC, b - a * 2u32).abs() < 1e-17);
+    let v = at_json(&["Gamma(pi/5)", "--g", "0.5", "--digits", "15"]);
+    assert!(v["values"][0]["digits"].as_u64().unwrap() >= 15);
+    // c2 = cos^2(pi/4) = 1/2 given directly is the cusp again.
+    let c = at_json(&["Gamma(c2=0.5)", "--g", "0.7", "--digits", "20"]);
+    assert_eq!(c["values"][0]["value"], cusp["values"][0]["value"]);
+}
+
+/// The cusp at strong coupling: 2g - 3 ln2/(2 pi) - K/(8 pi^2 g)
+/// (arXiv:0708.3933) is printed beside the value and approaches it.
+#[test]
+fn strong_coupling_column() {
+    let v = at_json(&["cusp", "--g", "5,10", "--digits", "12"]);
+    let diff = |k: usize| {
+        let row = &v["values"][k];
+        Float::with_val(PREC, f(row["value"].as_str().unwrap()) - f(row["strong_coupling"].as_str().unwrap())).abs()
+    };
+    let (d5, d10) = (diff(0), diff(1));
+    assert!(d5 < 1e-3 && d10 < d5, "{d5} {d10}");
+    assert_eq!(v["strong_coupling_status"], "established");
+    let (_, text, _) = loopwise(&["at", "hexagon", "--g", "1", "--digits", "8"]);
+    assert!(text.contains("CAUTION"), "the hexagon's strong coupling is a conjecture: {text}");
+}
+
+#[test]
+fn scan_gives_csv_and_json() {
+    let (code, out, _) = loopwise(&["scan", "hexagon", "--g", "0:1:0.25", "--digits", "10"]);
+    assert_eq!(code, 0);
+    let lines: Vec<&str> = out.lines().collect();
+    assert_eq!(lines[0], "g,value,error");
+    assert_eq!(lines.len(), 6, "{out}");
+    assert!(lines[1].starts_with("0,0,"), "{out}");
+    let (code, out, _) = loopwise(&["scan", "hexagon", "--g", "0.5:1", "--points", "3", "--format", "json"]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v.as_array().unwrap().len(), 3);
+    assert_eq!(v[2]["g"], "1");
+}
+
+/// The SVG is written, is SVG, and names every series in its legend.
+#[test]
+fn plot_writes_an_svg_with_every_series_named() {
+    let path = std::env::temp_dir().join(format!("loopwise-plot-{}.svg", std::process::id()));
+    let (code, _, err) = loopwise(&["plot", "cusp", "octagon", "--g", "0:2", "--points", "21", "--loops", "2,6", "--pade", "4", "--out", path.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    let svg = std::fs::read_to_string(&path).unwrap();
+    std::fs::remove_file(&path).ok();
+    assert!(svg.trim_start().starts_with("<svg") || svg.trim_start().starts_with("<?xml"), "{}", &svg[..80.min(svg.len())]);
+    assert!(svg.trim_end().ends_with("</svg>"));
+    for name in [
+        "cusp (finite coupling)",
+        "octagon (finite coupling)",
+        "cusp weak coupling, 2 loops",
+        "cusp weak coupling, 6 loops",
+        "cusp strong coupling",
+        "g^2 = lambda/(16 pi^2)",
+    ] {
+        assert!(svg.contains(name), "missing {name}");
+    }
+    assert!(svg.contains("Padé [4/4]") || svg.contains("Pad&#233; [4/4]") || svg.contains("Pad\u{e9}"), "Padé curve named");
+}
+
+/// The ratio test on the octagon's 30 exact orders points to 1/4, the
+/// radius of ln cosh(2 pi g) (singularity at g = i/4; physics.md section 4).
+#[test]
+fn radius_of_the_octagon_series() {
+    let (code, out, _) = loopwise(&["radius", "octagon", "--loops", "30"]);
+    assert_eq!(code, 0);
+    let line = out.lines().find(|l| l.starts_with("difference from 1/4:")).unwrap();
+    let d: f64 = line.split(':').nth(1).unwrap().trim().parse().unwrap();
+    assert!(d.abs() < 1e-4, "{out}");
+}
+
+/// The summed weak-coupling series against the numerical engine at
+/// g = 0.05, 0.1, 0.15 for four tilts, both functionals.
+#[test]
+fn selftest_passes() {
+    let (code, out, err) = loopwise(&["selftest"]);
+    assert_eq!(code, 0, "{out}{err}");
+    assert!(out.contains("24 passed, 0 failed"), "{out}");
+}
+
+#[test]
+fn bad_input_is_one_message_and_exit_code_two() {
+    let unwritable = "/nonexistent-dir/figure.svg";
+    for (args, needle) in [
+        (vec!["at", "cusp", "--g", "-1"], "g >= 0"),
+        (vec!["at", "cusp", "--g", "abc"], "is not a number"),
+        (vec!["at", "cusp", "--g", ""], "no couplings"),
+        (vec!["at", "cusp", "--digits", "5000"], "honestly"),
+        (vec!["at", "Gamma(c2)", "--g", "1"], "symbolic tilt"),
+        (vec!["scan", "cusp", "--g", "2:1"], "empty or reversed"),
+        (vec!["scan", "cusp", "--g", "1:1"], "empty or reversed"),
+        (vec!["scan", "cusp", "--g", "0:1:0"], "step"),
+        (vec!["plot", "cusp", "--out", unwritable], "does not exist"),
+        (vec!["plot", "cusp", "--loops", "0", "--out", "x.svg"], "loop order"),
+    ] {
+        let (code, out, err) = loopwise(&args);
+        assert_eq!(code, 2, "{args:?}: {err}");
+        assert!(out.is_empty(), "{args:?}: {out}");
+        assert!(err.contains(needle), "{args:?}: {err}");
+    }
+}
