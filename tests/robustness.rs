@@ -1,10 +1,17 @@
 //! Robustness of the parser and the series-file reader against random and
 //! mangled input: every input must end in `Ok` or a clean `Err` (no panic,
 //! no stack overflow), and whatever parses must print to text that parses
-//! back to the same tree. The default run is short; the long run (over
-//! 100,000 inputs in total) is `cargo test --release --test robustness -- --ignored`.
+//! back to the same tree; whatever parses must also evaluate (exactly, as a
+//! prediction, and numerically) to a value or a clean error, and mutated
+//! series files must go through the whole `check` pipeline the same way.
+//! The default run is short; the long run (over 100,000 inputs in total) is
+//! `cargo test --release --test robustness -- --ignored`.
 
+use loopwise::catalogue::Catalogue;
+use loopwise::compare;
+use loopwise::expr::numeric::{evaluate, Context};
 use loopwise::expr::parse;
+use loopwise::prediction::Quantity;
 use loopwise::seriesfile::parse_series_text;
 use proptest::prelude::*;
 use proptest::test_runner::{Config, TestRunner};
@@ -40,6 +47,19 @@ orders:
     value: -1240.9
     uncertainty: 0.2
   - {loop: 7, exact: 'ζ(3) l1 + g l2'}
+"#;
+
+const SEED_CHECK: &str = r#"prediction: cusp
+coupling: a
+orders:
+  - loop: 1
+    exact: "2"
+  - loop: 2
+    exact: "-2 zeta(2)"
+  - loop: 3
+    value: "11.9056(1)"
+  - loop: 4
+    exact: "-219/4 zeta(6) - 2 zeta(3)^2 + zeta(5,3) - zeta(5,3)"
 "#;
 
 /// Characters mutations draw from: the language's own tokens, YAML syntax,
@@ -95,7 +115,15 @@ fn check_expression(input: &str) -> Result<(), TestCaseError> {
             let printed = e.to_string();
             let again = parse(&printed, "<printed>", None)
                 .map_err(|err| TestCaseError::fail(format!("{input:?} printed as {printed:?} fails:\n{err}")))?;
-            prop_assert_eq!(again, e, "{:?} printed as {:?}", input, printed);
+            prop_assert_eq!(&again, &e, "{:?} printed as {:?}", input, printed);
+            let mzv = |s: &[u32], p: u32| loopwise::mzv::mzv(s, p);
+            let mut ctx = Context::new(96);
+            ctx.mzv = Some(&mzv);
+            let _ = evaluate(&e, &mut ctx);
+            let q = Quantity::from_formula(input, e, "<fuzz>", (1, 1));
+            if let Err(err) = q.expand(3, &mut |_, _, _| {}) {
+                prop_assert!(err.message().contains("<fuzz>") || !err.message().is_empty(), "{}", err);
+            }
         }
         Err(err) => prop_assert!(err.message().starts_with("<fuzz>"), "{}", err),
     }
@@ -103,8 +131,14 @@ fn check_expression(input: &str) -> Result<(), TestCaseError> {
 }
 
 fn check_file(input: &str) -> Result<(), TestCaseError> {
-    if let Err(err) = parse_series_text(input, "fuzz.yaml") {
-        prop_assert!(err.message().contains("fuzz.yaml"), "{}", err);
+    match parse_series_text(input, "fuzz.yaml") {
+        Err(err) => prop_assert!(err.message().contains("fuzz.yaml"), "{}", err),
+        Ok(file) => {
+            let catalogue = Catalogue::builtin().map_err(|e| TestCaseError::fail(e.to_string()))?;
+            if file.orders.iter().all(|o| o.loop_order <= 6) {
+                let _ = compare::check(&file, &catalogue, 20, &mut |_, _, _| {});
+            }
+        }
     }
     Ok(())
 }
@@ -124,8 +158,8 @@ fn mutated_expressions(cases: u32) {
 }
 
 fn mutated_files(cases: u32) {
-    let strategy = prop::collection::vec(edit(), 1..10);
-    runner(cases).run(&strategy, |edits| check_file(&mutate(SEED_FILE, &edits))).unwrap();
+    let strategy = (prop::sample::select(&[SEED_FILE, SEED_CHECK][..]), prop::collection::vec(edit(), 1..10));
+    runner(cases).run(&strategy, |(seed, edits)| check_file(&mutate(seed, &edits))).unwrap();
 }
 
 #[test]
@@ -135,6 +169,9 @@ fn seeds_are_valid() {
         assert!(parse(s, "<seed>", None).is_ok(), "{s}");
     }
     assert!(parse_series_text(SEED_FILE, "seed.yaml").is_ok());
+    let file = parse_series_text(SEED_CHECK, "seed.yaml").unwrap();
+    let c = compare::check(&file, &Catalogue::builtin().unwrap(), 20, &mut |_, _, _| {}).unwrap();
+    assert!(!c.any_differs(), "{:?}", c.summary());
 }
 
 #[test]
