@@ -165,7 +165,7 @@ impl Expander<'_> {
                 } else {
                     let b = self.series(base)?;
                     let b = if k < 0 { b.inverse().map_err(|err| self.fail(base.span, err.message()))? } else { b };
-                    power(&b, k.unsigned_abs(), n)
+                    b.pow(k.unsigned_abs())
                 }
             }
         })
@@ -254,23 +254,6 @@ fn contains_functional_or_coupling(e: &Expr) -> bool {
             contains_functional_or_coupling(a) || contains_functional_or_coupling(b)
         }
     }
-}
-
-/// b^k truncated at order n, by repeated squaring.
-fn power(b: &Series, k: u64, n: usize) -> Series {
-    let mut result = Series::constant(Exact::one(), n);
-    let mut base = b.clone();
-    let mut k = k;
-    while k > 0 {
-        if k & 1 == 1 {
-            result = &result * &base;
-        }
-        k >>= 1;
-        if k > 0 {
-            base = &base * &base;
-        }
-    }
-    result
 }
 
 #[cfg(test)]

@@ -6,16 +6,10 @@
 //! + (14192/14175 pi^8 + 64/3 pi^2 zeta3^2 + 640 zeta3 zeta5) g^10).
 
 use std::path::PathBuf;
-use std::process::Command;
+mod common;
 
-fn loopwise(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
+use common::loopwise;
+
 
 fn write(name: &str, text: &str) -> PathBuf {
     let dir = std::env::temp_dir().join(format!("loopwise-check-{}", std::process::id()));

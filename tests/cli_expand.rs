@@ -1,19 +1,13 @@
 //! The `loopwise` binary, run as a user runs it: `list` and `expand`, their
 //! output shapes, exit codes and messages for bad input.
 
-use std::process::Command;
+mod common;
+
+use common::loopwise;
 
 use rug::ops::Pow;
 use rug::Float;
 
-fn loopwise(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
 
 fn json(args: &[&str]) -> serde_json::Value {
     let (code, stdout, stderr) = loopwise(args);

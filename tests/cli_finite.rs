@@ -2,19 +2,13 @@
 //! octagon closed forms (with honest error estimates), formulas, `scan`,
 //! `plot`, `radius`, `selftest`, and bad input.
 
-use std::process::Command;
+mod common;
+
+use common::loopwise;
 
 use rug::float::Constant;
 use rug::Float;
 
-fn loopwise(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
 
 fn at_json(args: &[&str]) -> serde_json::Value {
     let mut all = vec!["at"];

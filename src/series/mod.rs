@@ -70,6 +70,23 @@ impl Series {
         Series { coeffs: self.coeffs.iter().map(f).collect() }
     }
 
+    /// The k-th power, by repeated squaring.
+    pub fn pow(&self, k: u64) -> Series {
+        let mut result = Series::constant(Exact::one(), self.order());
+        let mut base = self.clone();
+        let mut k = k;
+        while k > 0 {
+            if k & 1 == 1 {
+                result = &result * &base;
+            }
+            k >>= 1;
+            if k > 0 {
+                base = &base * &base;
+            }
+        }
+        result
+    }
+
     /// x -> k x: the coefficient of x^n is multiplied by k^n.
     pub fn rescale(&self, k: &Exact) -> Series {
         let mut power = Exact::one();
@@ -219,6 +236,13 @@ mod tests {
             &Exact::zeta(3).unwrap() + &Exact::symbol("c2"),
             q(3, 7),
         ])
+    }
+
+    #[test]
+    fn powers_agree_with_products() {
+        let f = sample();
+        assert_eq!(f.pow(3), &(&f * &f) * &f);
+        assert_eq!(f.pow(0), Series::constant(Exact::one(), 4));
     }
 
     #[test]
