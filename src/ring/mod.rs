@@ -14,7 +14,7 @@ use std::collections::BTreeMap;
 use std::ops::{Add, AddAssign, Mul, Neg, Sub, SubAssign};
 
 use rug::ops::Pow;
-use rug::{Float, Integer, Rational};
+use rug::{Float, Rational};
 
 pub use display::{EvenStyle, Notation};
 pub use monomial::Monomial;
@@ -76,10 +76,6 @@ impl Exact {
 
     pub fn terms(&self) -> impl Iterator<Item = (&Monomial, &Rational)> {
         self.terms.iter()
-    }
-
-    pub fn into_terms(self) -> impl Iterator<Item = (Monomial, Rational)> {
-        self.terms.into_iter()
     }
 
     pub fn coefficient(&self, m: &Monomial) -> Rational {
@@ -196,16 +192,6 @@ impl Exact {
         out
     }
 
-    /// Groups the terms by their symbol part: (symbol monomial, coefficient without symbols).
-    pub fn by_symbols(&self) -> BTreeMap<Monomial, Exact> {
-        let mut out: BTreeMap<Monomial, Exact> = BTreeMap::new();
-        for (m, c) in &self.terms {
-            let (rest, syms) = m.split_symbols();
-            out.entry(syms).or_default().add_term(rest, c.clone());
-        }
-        out
-    }
-
     /// Numerical value to `prec` bits; symbols must have been substituted.
     /// Works with guard bits and repeats at higher precision when terms
     /// cancel, so the result carries `prec` correct bits up to rounding.
@@ -257,15 +243,7 @@ impl Exact {
         (sum, largest)
     }
 
-    /// Multiplies every coefficient by a common integer and returns the
-    /// integer-coefficient form: (numerators, common denominator).
-    pub fn common_denominator(&self) -> Integer {
-        let mut d = Integer::from(1);
-        for c in self.terms.values() {
-            d.lcm_mut(c.denom());
-        }
-        d
-    }
+
 }
 
 /// pi and zeta values at one precision, computed once per evaluation.
@@ -383,6 +361,7 @@ impl Neg for Exact {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use rug::Integer;
 
     fn zeta(n: u32) -> Exact {
         Exact::zeta(n).unwrap()
