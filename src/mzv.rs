@@ -116,7 +116,7 @@ type Word = Vec<bool>;
 fn word_of(s: &[u32]) -> Word {
     let mut word = Vec::new();
     for &si in s {
-        word.extend(std::iter::repeat(false).take(si as usize - 1));
+        word.extend(std::iter::repeat_n(false, si as usize - 1));
         word.push(true);
     }
     word

@@ -86,7 +86,7 @@ fn octagon_matches_log_cosh_through_thirty_loops() {
     for n in 1..=loops {
         let two_n = 2 * n;
         let pow2 = Integer::from(1) << two_n;
-        let c = Rational::from(&b[two_n as usize] * Rational::from(pow2.clone() * (pow2 - 1u32)))
+        let c = (&b[two_n as usize] * Rational::from(pow2.clone() * (pow2 - 1u32)))
             / Rational::from(factorial(two_n) * two_n);
         // x^(2n) = (2 pi g)^(2n); times 2/pi^2.
         let coefficient = c * Rational::from(Integer::from(1) << two_n) * 2u32;
@@ -106,7 +106,7 @@ fn octagon_constant_matches_log_sinh_through_twenty_loops() {
     let b = bernoulli_even(2 * loops as usize);
     for n in 1..=loops {
         let two_n = 2 * n;
-        let c = Rational::from(&b[two_n as usize] * Rational::from(Integer::from(1) << two_n))
+        let c = (&b[two_n as usize] * Rational::from(Integer::from(1) << two_n))
             / Rational::from(factorial(two_n) * two_n);
         // y^(2n) = (4 pi g)^(2n); times 1/4.
         let coefficient = c * Rational::from(Integer::from(1) << (2 * two_n)) / 4u32;

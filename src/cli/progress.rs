@@ -23,7 +23,7 @@ impl Progress {
         self.shown = true;
         let mut err = std::io::stderr().lock();
         let width = 30;
-        let filled = if total == 0 { width } else { done * width / total };
+        let filled = (done * width).checked_div(total).unwrap_or(width).min(width);
         let _ = write!(err, "\r{what} [{}{}] {done}/{total} ", "#".repeat(filled), ".".repeat(width - filled));
         let _ = err.flush();
     }

@@ -37,6 +37,12 @@ impl Approx {
     }
 }
 
+/// Values of the functionals at the context's coupling.
+pub type FunctionalValues<'a> = &'a mut dyn FnMut(FunctionalKind, &Angle) -> Result<Approx>;
+
+/// Multiple zeta values (arguments, precision in bits).
+pub type MzvValues<'a> = &'a dyn Fn(&[u32], u32) -> Result<Float>;
+
 /// What an evaluation may consult beyond the expression itself.
 pub struct Context<'a> {
     /// Working precision in bits.
@@ -46,9 +52,9 @@ pub struct Context<'a> {
     pub symbols: &'a [(&'a str, Float)],
     /// Values of the functionals at the context's coupling, when the caller
     /// can compute them (finite coupling); None makes them an error.
-    pub functional: Option<&'a mut dyn FnMut(FunctionalKind, &Angle) -> Result<Approx>>,
+    pub functional: Option<FunctionalValues<'a>>,
     /// Multiple zeta values of depth > 1.
-    pub mzv: Option<&'a dyn Fn(&[u32], u32) -> Result<Float>>,
+    pub mzv: Option<MzvValues<'a>>,
 }
 
 impl<'a> Context<'a> {

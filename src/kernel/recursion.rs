@@ -210,13 +210,13 @@ fn target_row(
             continue;
         }
         // R^(n)_i = -sum_p M_p (1 / (D_p E_m)) (tilt factors) sums.
-        let scale = Integer::from(common / (Integer::from(tables.kernel.denominator(p) * &level.denominator) * tilt_denominator(tilt)));
+        let scale = common / (Integer::from(tables.kernel.denominator(p) * &level.denominator) * tilt_denominator(tilt));
         let shift = &tables.shifts[m][p];
         let slots_m = tilt.slots(m);
         match tilt {
             TiltFactors::Rational { u, w } => {
                 let fc = Integer::from(u * 2u32) * &scale;
-                let fs = Integer::from(Integer::from(w - u) * 2u32) * &scale;
+                let fs = (Integer::from(w - u) * 2u32) * &scale;
                 for (b, &target) in shift.iter().enumerate() {
                     let t = &mut out[target as usize];
                     if any_c && !sum_c[b].is_zero() {

@@ -21,7 +21,7 @@ pub enum Tilt {
 impl Tilt {
     /// The tilt with cos^2(alpha) = c2, which must lie in [0, 1].
     pub fn cos2(c2: Rational) -> Result<Tilt> {
-        if c2 < 0 || c2 > 1 {
+        if !(0..=1).contains(&c2) {
             return Err(Error::range(format!("c2 = cos^2(alpha) = {c2} is outside [0, 1]")));
         }
         Ok(Tilt::Cos2(c2))

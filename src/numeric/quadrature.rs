@@ -161,7 +161,7 @@ pub(crate) fn plan(g: f64, ln_tol: f64) -> Option<Vec<Panel>> {
                 }
             }
         }
-        if ok && best.as_ref().map_or(true, |(b, _)| total < *b) {
+        if ok && best.as_ref().is_none_or(|(b, _)| total < *b) {
             best = Some((total, panels));
         }
     }

@@ -163,7 +163,7 @@ fn text(c: &Comparison) -> String {
     let width = rows.iter().map(|(_, (_, w, _))| w.len()).max().unwrap_or(7).max(7);
     out.push_str(&format!("{:>4}  {:<4}  {:<width$}  detail\n", "L", "", "verdict"));
     for (l, (mark, words, detail)) in rows {
-        out.push_str(&format!("{l:>4}  {mark:<4}  {words:<width$}  {detail}").trim_end().to_string());
+        out.push_str(format!("{l:>4}  {mark:<4}  {words:<width$}  {detail}").trim_end());
         out.push('\n');
     }
     if !c.diagnoses.is_empty() {

@@ -57,7 +57,7 @@ impl Exact {
 fn split_even(m: &Monomial, c: &Rational, even: EvenStyle) -> (Rational, Option<u32>) {
     let e = m.pi_exponent();
     if even == EvenStyle::Zeta && e > 0 && e % 2 == 0 {
-        (Rational::from(c / even_zeta_over_pi_power(e as u32 / 2)), Some(e as u32))
+        ((c / even_zeta_over_pi_power(e as u32 / 2)), Some(e as u32))
     } else {
         (c.clone(), None)
     }
