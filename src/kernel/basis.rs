@@ -57,6 +57,47 @@ impl WeightBases {
     }
 }
 
+/// Monomials as additive keys: the exponents of pi^2, zeta(3), zeta(5), ...
+/// packed into bit fields of one u128, each field wide enough for the
+/// largest exponent a weight up to `top` allows, so that the key of a
+/// product is the sum of the keys. Up to weight 100 the fields take 103 bits.
+pub struct ProductIndex {
+    keys: Vec<Vec<u128>>,
+    index: HashMap<u128, u32>,
+}
+
+impl ProductIndex {
+    /// None when the fields do not fit in 128 bits (weights far beyond 100).
+    pub fn new(bases: &WeightBases) -> Option<Self> {
+        let offsets = field_offsets(bases.parts.len() - 1)?;
+        let key = |parts: &[u8]| parts.iter().map(|&p| 1u128 << offsets[p as usize]).sum::<u128>();
+        let keys: Vec<Vec<u128>> = bases.parts.iter().map(|w| w.iter().map(|p| key(p)).collect()).collect();
+        let index = keys.iter().flat_map(|w| w.iter().enumerate().map(|(k, &key)| (key, k as u32))).collect();
+        Some(ProductIndex { keys, index })
+    }
+
+    pub fn key(&self, w: usize, k: usize) -> u128 {
+        self.keys[w][k]
+    }
+
+    /// The index, within its weight, of the monomial with this key.
+    pub fn index_of(&self, key: u128) -> u32 {
+        self.index[&key]
+    }
+}
+
+/// Bit offsets of the exponent fields of parts 2, 3, 5, ... for weights up
+/// to `top`, or None when they need more than 128 bits.
+fn field_offsets(top: usize) -> Option<Vec<u32>> {
+    let mut offsets = vec![0u32; top + 1];
+    let mut used = 0u32;
+    for p in (2..=top).filter(|&p| p == 2 || p % 2 == 1) {
+        offsets[p] = used;
+        used += usize::BITS - (top / p).leading_zeros();
+    }
+    (used <= 128).then_some(offsets)
+}
+
 /// The partition of (monomial * M_p): p/2 more parts 2 for even p, the part p for odd p.
 fn times_factor(parts: &[u8], p: usize) -> Vec<u8> {
     let mut out = parts.to_vec();
@@ -109,6 +150,22 @@ mod tests {
                 assert_eq!(b.monomial(w, k).weight(), w as i64);
             }
         }
+    }
+
+    #[test]
+    fn product_keys_add() {
+        let b = WeightBases::new(20);
+        let index = ProductIndex::new(&b).unwrap();
+        for (w1, w2) in [(2, 3), (5, 8), (6, 14)] {
+            for i in 0..b.len(w1) {
+                for j in 0..b.len(w2) {
+                    let k = index.index_of(index.key(w1, i) + index.key(w2, j)) as usize;
+                    assert_eq!(b.monomial(w1 + w2, k), b.monomial(w1, i).mul(&b.monomial(w2, j)));
+                }
+            }
+        }
+        assert!(field_offsets(100).is_some());
+        assert!(field_offsets(200).is_none());
     }
 
     #[test]

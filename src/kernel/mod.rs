@@ -12,6 +12,7 @@
 
 mod basis;
 mod entries;
+mod logdet;
 mod recursion;
 mod tilt;
 
@@ -82,14 +83,20 @@ pub fn delta(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) ->
     let top = 2 * loops as usize;
     let tables = recursion::Tables::new(top);
     let factors = tilt.factors();
-    let mut total = Series::zero(loops as usize);
+    let index = basis::ProductIndex::new(&tables.bases)
+        .ok_or_else(|| Error::range(format!("{loops} loops is beyond what the determinant's packed monomials hold")))?;
+    let mut total = logdet::zeros(&tables.bases, &factors, loops as usize);
     // [(1 + K_{>=s})^(-1)]_ss - 1 starts at g^(2s), so s <= loops suffices.
     let steps = loops as usize * top;
     for s in 1..=loops as usize {
-        let diag = recursion::diagonal(&tables, &factors, s, top, &mut |n, _| progress((s - 1) * top + n, steps));
-        let g2 = Series::new((0..=loops as usize).map(|l| diag[2 * l].clone()).collect());
-        total = &total - &g2.ln()?;
+        let diag = recursion::diagonal_dense(&tables, &factors, s, top, &mut |n, _| progress((s - 1) * top + n, steps));
+        let in_x: logdet::DenseSeries = diag.into_iter().step_by(2).collect();
+        total = logdet::subtract(&total, &logdet::ln(&in_x, &tables.bases, &index, &factors));
     }
-    Ok(total)
+    let coeffs = total
+        .iter()
+        .enumerate()
+        .map(|(k, d)| recursion::to_exact(&tables, &factors, 2 * k, &d.denominator, &d.numerators))
+        .collect();
+    Ok(Series::new(coeffs))
 }
-

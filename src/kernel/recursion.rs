@@ -34,7 +34,7 @@ pub enum TiltFactors {
 }
 
 impl TiltFactors {
-    fn slots(&self, weight: usize) -> usize {
+    pub(crate) fn slots(&self, weight: usize) -> usize {
         match self {
             TiltFactors::Rational { .. } => 1,
             TiltFactors::Symbolic => weight / 2 + 1,
@@ -71,6 +71,14 @@ impl Level {
     }
 }
 
+/// One coefficient in dense form: integer numerators over one denominator,
+/// laid out as [basis element of its weight][power of c2].
+#[derive(Clone, Debug)]
+pub struct Dense {
+    pub denominator: Integer,
+    pub numerators: Vec<Integer>,
+}
+
 /// [(1 + K_{>=s})^(-1)]_{ss} through g^top, as exact coefficients of g^n for
 /// n = 0..=top (odd n are zero). `progress` is told (n, top) after each order.
 pub fn diagonal(
@@ -80,6 +88,22 @@ pub fn diagonal(
     top: usize,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Vec<Exact> {
+    diagonal_dense(tables, tilt, s, top, progress)
+        .iter()
+        .enumerate()
+        .map(|(n, d)| to_exact(tables, tilt, n, &d.denominator, &d.numerators))
+        .collect()
+}
+
+/// The same element as `diagonal`, each coefficient of g^n in dense form
+/// (all-zero numerators where the element has no g^n term).
+pub fn diagonal_dense(
+    tables: &Tables,
+    tilt: &TiltFactors,
+    s: usize,
+    top: usize,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Vec<Dense> {
     let threads = std::thread::available_parallelism().map_or(1, |n| n.get()).min(8);
     let mut levels: Vec<Level> = Vec::with_capacity(top + 1);
     let len0 = tables.bases.len(0) * tilt.slots(0);
@@ -118,11 +142,14 @@ pub fn diagonal(
     }
 
     levels
-        .iter()
+        .into_iter()
         .enumerate()
-        .map(|(n, level)| match level.row(s) {
-            Some(v) => to_exact(tables, tilt, n, &level.denominator, v),
-            None => Exact::zero(),
+        .map(|(n, level)| {
+            let numerators = match level.row(s) {
+                Some(v) => v.clone(),
+                None => vec![Integer::new(); tables.bases.len(n) * tilt.slots(n)],
+            };
+            Dense { denominator: level.denominator, numerators }
         })
         .collect()
 }
@@ -279,7 +306,7 @@ fn reduce(mut level: Level) -> Level {
     level
 }
 
-fn to_exact(tables: &Tables, tilt: &TiltFactors, n: usize, denominator: &Integer, v: &[Integer]) -> Exact {
+pub(crate) fn to_exact(tables: &Tables, tilt: &TiltFactors, n: usize, denominator: &Integer, v: &[Integer]) -> Exact {
     let slots = tilt.slots(n);
     let mut out = Exact::zero();
     for (k, x) in v.iter().enumerate() {
