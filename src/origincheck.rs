@@ -16,7 +16,7 @@ use crate::error::{Error, Result};
 use crate::fit::{self, BasisElement, Fit};
 use crate::kernel::{self, MAX_LOOPS};
 use crate::origin::{self, Breakdown, HexagonSlot, OriginLogs};
-use crate::prediction::Quantity;
+use crate::prediction::{Expander, Quantity};
 use crate::ring::Exact;
 use crate::series::Series;
 use crate::seriesfile::{parse_series_text, Normalisation, OrderEntry, SeriesFile, MAX_FILE_BYTES};
@@ -72,7 +72,9 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
     for entry in &file.orders {
         coeffs[entry.loop_order as usize] = exact_coefficient(&file, entry)?;
     }
-    if let Some(missing) = (1..coeffs.len()).find(|&k| !file.orders.iter().any(|o| o.loop_order as usize == k)) {
+    // R6 vanishes at one loop by definition, so an R6 file may start at two.
+    let first = if normalisation == Normalisation::R6 { 2 } else { 1 };
+    if let Some(missing) = (first..coeffs.len()).find(|&k| !file.orders.iter().any(|o| o.loop_order as usize == k)) {
         return Err(Error::input(format!(
             "{origin}: loop order {missing} is missing; the logarithm of the series needs every order up to the highest ({})",
             coeffs.len() - 1
@@ -99,14 +101,17 @@ fn exact_coefficient(file: &SeriesFile, entry: &OrderEntry) -> Result<Exact> {
             file.origin, entry.line, entry.loop_order
         ))
     })?;
-    match crate::compare::supplied::read(located, &file.origin, 64)? {
-        Supplied::Exact(x) => Ok(x),
-        Supplied::Number { .. } => Err(Error::input(format!(
-            "{}: the coefficient at line {} (loop {}) is not exact (decimals, logarithms, Catalan's constant \
-             or multiple zeta values); this command takes exact coefficients only",
-            file.origin, located.line, entry.loop_order
-        ))),
-    }
+    // The exact reader names file, line and column of anything outside the
+    // exact ring (decimals, logarithms, Catalan's constant, multiple zeta values).
+    let mut expander = Expander {
+        source: &located.text,
+        origin: &file.origin,
+        place: Some((located.line, located.column)),
+        loops: 0,
+        cache: std::collections::HashMap::new(),
+        progress: &mut |_, _, _| {},
+    };
+    Ok(expander.series(&located.expr)?.coeff(0).clone())
 }
 
 /// One coefficient read from the data, with its verdict.

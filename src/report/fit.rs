@@ -192,18 +192,25 @@ fn text(r: &FitReport) -> String {
             }
         }
         Solution::None(bad) => {
-            out.push_str(&format!(
-                "no combination fits: the orders up to {} have no common solution.\n",
-                bad.first_inconsistent_order
-            ));
+            let n = bad.first_inconsistent_order;
+            let below: Vec<u32> = r.orders.iter().copied().filter(|&l| l < n).collect();
+            if below.is_empty() {
+                out.push_str(&format!("no combination fits: no rational combination of the basis matches order {n}.\n"));
+            } else {
+                out.push_str(&format!(
+                    "no combination fits: orders {} can be matched, but not together with order {n}.\n",
+                    orders_text(&below)
+                ));
+            }
             let width = r.fit.names.iter().map(String::len).max().unwrap_or(4);
-            for (n, s) in r.fit.names.iter().zip(&bad.elements) {
-                let status = match (s.ruled_out_at, s.can_appear) {
-                    (Some(l), _) => format!("ruled out from order {l}"),
-                    (None, true) => "could still appear in a fit of the lower orders".to_string(),
-                    (None, false) => "zero in every fit of the lower orders".to_string(),
+            for (name, s) in r.fit.names.iter().zip(&bad.elements) {
+                let status = match (s.ruled_out_at, s.can_appear, below.is_empty()) {
+                    (Some(l), _, _) => format!("ruled out by the orders up to {l}"),
+                    (None, _, true) => format!("no lower order to rule it out before order {n}"),
+                    (None, true, false) => format!("still possible at orders {}", orders_text(&below)),
+                    (None, false, false) => format!("zero in every fit of orders {}", orders_text(&below)),
                 };
-                out.push_str(&format!("  {n:<width$}  {status}\n"));
+                out.push_str(&format!("  {name:<width$}  {status}\n"));
             }
         }
     }
