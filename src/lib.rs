@@ -14,6 +14,7 @@ pub mod kernel;
 pub mod mzv;
 pub mod numeric;
 pub mod origin;
+pub mod origincheck;
 pub mod prediction;
 pub mod report;
 pub mod ring;

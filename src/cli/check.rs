@@ -1,9 +1,9 @@
-//! `loopwise check FILE...` and `loopwise demo`: compare series files with
+//! `loopwise check FILE...` and `loopwise demo [cusp]`: compare series files with
 //! their predictions and print the verdicts.
 
 use std::path::PathBuf;
 
-use clap::Args as ClapArgs;
+use clap::{Args as ClapArgs, ValueEnum};
 
 use loopwise::catalogue::Catalogue;
 use loopwise::compare;
@@ -34,8 +34,20 @@ pub struct Args {
     pub digits: u32,
 }
 
+/// The built-in demos.
+#[derive(Clone, Copy, Debug, ValueEnum)]
+pub enum DemoKind {
+    /// `check` on a seven-loop cusp anomalous dimension.
+    Cusp,
+    /// `origin` on a seven-loop six-gluon amplitude at the origin.
+    Origin,
+}
+
 #[derive(ClapArgs, Debug)]
 pub struct DemoArgs {
+    /// Which demo to run.
+    #[arg(value_enum, default_value = "cusp")]
+    pub which: DemoKind,
     /// Output format.
     #[arg(long, value_enum, default_value = "text")]
     pub format: DataFormatArg,

@@ -7,6 +7,7 @@ mod check;
 mod eval;
 mod expand;
 mod finite;
+mod origin;
 mod progress;
 
 use std::io::Write;
@@ -44,8 +45,12 @@ pub enum Command {
     Check(check::Args),
     /// Evaluate one expression numerically to many digits.
     Eval(eval::Args),
-    /// Run `check` on a built-in, fictional seven-loop dataset.
+    /// Run `check` (cusp, the default) or `origin` on a built-in, fictional seven-loop dataset.
     Demo(check::DemoArgs),
+    /// Read a six-gluon origin series: exponentiation, Gamma_oct, Gamma_hex and C0 order by order.
+    Origin(origin::OriginArgs),
+    /// Fit loop coefficients as an exact rational combination of basis series.
+    Fit(origin::FitArgs),
     /// Values at finite coupling, with error estimates.
     At(finite::AtArgs),
     /// Values on a grid of couplings, as CSV or JSON.
@@ -163,7 +168,12 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::Expand(args) => expand::run(args, &catalogue),
         Command::Check(args) => check::run(args, &catalogue),
         Command::Eval(args) => eval::run(args),
-        Command::Demo(args) => check::demo(args, &catalogue),
+        Command::Demo(args) => match args.which {
+            check::DemoKind::Cusp => check::demo(args, &catalogue),
+            check::DemoKind::Origin => origin::demo(args.format, &catalogue),
+        },
+        Command::Origin(args) => origin::origin(args, &catalogue),
+        Command::Fit(args) => origin::fit(args, &catalogue),
         Command::At(args) => finite::at(args, &catalogue),
         Command::Scan(args) => finite::scan(args, &catalogue),
         Command::Plot(args) => finite::plot(args, &catalogue),

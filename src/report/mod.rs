@@ -6,6 +6,8 @@ pub mod check;
 pub mod expansion;
 pub mod finite;
 pub mod latex;
+pub mod origin;
+pub mod fit;
 
 use std::fmt;
 use std::str::FromStr;

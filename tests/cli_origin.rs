@@ -1,0 +1,359 @@
+//! `loopwise origin`, `loopwise fit` and `loopwise demo origin` run as a user
+//! runs them, on files written here: the readings against closed forms and
+//! published expansions, the exponentiation check, the line, the fits, the
+//! exit codes, the JSON shape and the refusal of unusable input.
+//! Sources are named beside each check.
+
+use std::path::PathBuf;
+use std::process::Command;
+
+use loopwise::ring::{EvenStyle, Exact, Notation};
+use loopwise::series::Series;
+use rug::Rational;
+
+fn loopwise(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+fn write(name: &str, text: &str) -> PathBuf {
+    let dir = std::env::temp_dir().join(format!("loopwise-origin-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let path = dir.join(name);
+    std::fs::write(&path, text).unwrap();
+    path
+}
+
+fn run_json(command: &str, name: &str, text: &str, extra: &[&str]) -> (i32, serde_json::Value) {
+    let path = write(name, text);
+    let mut args = vec![command, path.to_str().unwrap(), "--format", "json"];
+    args.extend_from_slice(extra);
+    let (code, out, err) = loopwise(&args);
+    assert!(code == 0 || code == 1, "{err}");
+    (code, serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}")))
+}
+
+fn origin_file(normalisation: &str, coupling: &str, symbols: &str, orders: &[(u32, String)]) -> String {
+    let mut s = format!("normalisation: {normalisation}\ncoupling: {coupling}\nsymbols: {symbols}\norders:\n");
+    for (l, c) in orders {
+        s.push_str(&format!("  - loop: {l}\n    exact: \"{c}\"\n"));
+    }
+    s
+}
+
+/// One loop: E^(1) = sum_i Li2(1 - 1/u_i) -> sum_i (-ln^2(u_i)/2 - zeta(2))
+/// by the inversion formula (Abramowitz & Stegun 27.7), so the octagon and
+/// hexagon coefficients are -1/6 and -1/6 (alpha + 2 beta = -1/2 and
+/// 2 alpha - 2 beta = 0, by hand) and C0 = -3 zeta(2).
+#[test]
+fn one_loop_from_the_inversion_formula() {
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 3*zeta(2)".into())]);
+    let (code, v) = run_json("origin", "one-loop.yaml", &text, &[]);
+    assert_eq!(code, 0, "{v}");
+    let o = &v["orders"][0];
+    assert_eq!(o["exponentiation"], "holds");
+    assert_eq!(o["octagon"]["supplied"], "-1/6");
+    assert_eq!(o["hexagon"]["supplied"], "-1/6");
+    assert_eq!(o["constant"]["supplied"], "-3*zeta(2)");
+    for k in ["octagon", "hexagon", "linear", "constant"] {
+        assert_eq!(o[k]["verdict"], "agrees-exactly", "{k}");
+    }
+    assert_eq!(v["agrees"], true);
+    // A wrong constant (-2 zeta(2)) differs by exactly zeta(2) = pi^2/6 = 1.6449340668482264365 (A&S 23.2.24).
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 2*zeta(2)".into())]);
+    let (code, v) = run_json("origin", "one-loop-wrong.yaml", &text, &[]);
+    assert_eq!(code, 1);
+    assert_eq!(v["orders"][0]["constant"]["verdict"], "differs-exactly");
+    assert_eq!(v["orders"][0]["constant"]["difference"], "zeta(2)");
+    assert!(v["orders"][0]["constant"]["difference_value"].as_str().unwrap().starts_with("1.644934066848226436"));
+}
+
+/// Two loops, R6 of arXiv:1006.5703 at the origin as given in physics.md
+/// section 6 (g^2 normalisation): zeta(2)(l1 l2 + l2 l3 + l3 l1) + 77/4
+/// zeta(4) - 6 zeta(2)^2. Predicted: octagon -Gamma_oct^(2)/24 = 16 zeta(2)/24
+/// = 2/3 zeta(2), hexagon 4 zeta(2)/24 = 1/6 zeta(2), C0^(2) = 77/4 zeta(4).
+const TWO_LOOP_R6: &str = "zeta(2)*(l1*l2 + l2*l3 + l3*l1) + 77/4*zeta(4) - 6*zeta(2)^2";
+
+#[test]
+fn two_loop_remainder_function() {
+    let text = origin_file("R6", "g2", "[l1, l2, l3]", &[(2, TWO_LOOP_R6.into())]);
+    let (code, v) = run_json("origin", "two-loop-r6.yaml", &text, &[]);
+    assert_eq!(code, 0, "{v}");
+    let o = &v["orders"][1];
+    assert_eq!(o["octagon"]["supplied"], "2/3*zeta(2)");
+    assert_eq!(o["octagon"]["verdict"], "agrees-exactly");
+    assert_eq!(o["hexagon"]["supplied"], "1/6*zeta(2)");
+    assert_eq!(o["hexagon"]["verdict"], "agrees-exactly");
+    assert_eq!(o["constant"]["supplied"], "77/4*zeta(4)");
+    assert_eq!(o["constant"]["verdict"], "not-predicted");
+    // One loop of R6 is zero, so order 1 of ln E is Gamma_cusp^(1)/4 E^(1) = E^(1).
+    assert_eq!(v["orders"][0]["constant"]["supplied"], "-3*zeta(2)");
+
+    let path = write("two-loop-r6.yaml", &text);
+    let (code, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    assert_eq!(code, 0);
+    assert!(out.contains("L=2: octagon 2/3*zeta(2); hexagon 1/6*zeta(2); C0 77/4*zeta(4)"), "{out}");
+    assert!(out.contains("summary: orders 1-2 agree"), "{out}");
+    assert!(out.contains("arXiv:2001.05460") && out.contains("conjecture"), "{out}");
+
+    // The same formula in a = 2 g^2: divide by 4 (physics.md section 6); C0^(2) in a is 77/16 zeta(4).
+    let in_a = format!("({TWO_LOOP_R6})/4");
+    let (code, v) = run_json("origin", "two-loop-r6-a.yaml", &origin_file("R6", "a", "[l1, l2, l3]", &[(2, in_a)]), &[]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["orders"][1]["constant"]["supplied"], "77/16*zeta(4)");
+    assert_eq!(v["coupling"], "a");
+}
+
+/// A C0 formula in `prediction:` is compared at every order and called the
+/// user's conjecture. The member -zeta(2)/2 Gamma_cusp + (1/4)[Delta(pi/4) +
+/// Delta(pi/3) - Delta(pi/6) - Delta(0)] fits one and two loops (physics.md
+/// section 6); C0 = -zeta(2)/2*Gamma(pi/4) alone gives -2 zeta(2) at one loop
+/// (Gamma_cusp^(1) = 4), one zeta(2) above the value from A&S 27.7.
+#[test]
+fn user_formula_for_the_constant() {
+    let member = "-zeta(2)/2*Gamma(pi/4) + (Delta(pi/4) + Delta(pi/3) - Delta(pi/6) - Delta(0))/4";
+    let mut text = format!("prediction: \"{member}\"\n");
+    text.push_str(&origin_file("R6", "g2", "[l1, l2, l3]", &[(2, TWO_LOOP_R6.into())]));
+    let (code, v) = run_json("origin", "formula.yaml", &text, &[]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["orders"][1]["constant_formula"]["verdict"], "agrees-exactly");
+    assert!(v["notes"].as_array().unwrap().iter().any(|n| n.as_str().unwrap().contains("the user's conjecture")));
+
+    let mut text = "prediction: \"-zeta(2)/2*Gamma(pi/4)\"\n".to_string();
+    text.push_str(&origin_file("R6", "g2", "[l1, l2, l3]", &[(2, TWO_LOOP_R6.into())]));
+    let (code, v) = run_json("origin", "formula-wrong.yaml", &text, &[]);
+    assert_eq!(code, 1);
+    assert_eq!(v["orders"][0]["constant_formula"]["verdict"], "differs-exactly");
+    assert_eq!(v["orders"][0]["constant_formula"]["difference"], "-zeta(2)");
+}
+
+fn l(i: usize) -> Exact {
+    Exact::symbol(&format!("l{i}"))
+}
+
+fn q(n: i64, d: i64) -> Rational {
+    Rational::from((n, d))
+}
+
+fn zeta(n: u32) -> Exact {
+    Exact::zeta(n).unwrap()
+}
+
+/// E through three loops from the predicted quadratic form, with the
+/// octagon coefficients from the closed form Gamma_oct = (2/pi^2) ln cosh(2 pi g)
+/// and ln cosh y = y^2/2 - y^4/12 + y^6/45 - ... (A&S 4.5.67 via the tanh
+/// series 4.5.64): 4, -16 zeta(2), 256 zeta(4); the hexagon ones 4, -4 zeta(2),
+/// 34 zeta(4) (physics.md section 4); made-up constants. The exponential is
+/// the ring's own series exp, not the origin module's.
+fn predicted_e() -> Series {
+    let sum = (&(&l(1) + &l(2)) + &l(3)).pow(2);
+    let diff = {
+        let d = |a: usize, b: usize| (&l(a) - &l(b)).pow(2);
+        &(&d(1, 2) + &d(2, 3)) + &d(3, 1)
+    };
+    let oct = [Exact::from(4), zeta(2).scale(&q(-16, 1)), zeta(4).scale(&q(256, 1))];
+    let hex = [Exact::from(4), zeta(2).scale(&q(-4, 1)), zeta(4).scale(&q(34, 1))];
+    let c0 = [zeta(2).scale(&q(-3, 1)), zeta(4).scale(&q(5, 2)), &zeta(6).scale(&q(-7, 3)) + &zeta(3).pow(2)];
+    let mut coeffs = vec![Exact::zero()];
+    for k in 0..3 {
+        let form = &(&sum.scale(&q(-1, 24)) * &oct[k]) + &(&diff.scale(&q(-1, 24)) * &hex[k]);
+        coeffs.push(&form + &c0[k]);
+    }
+    Series::new(coeffs).exp().unwrap()
+}
+
+fn e_file(e: &Series) -> String {
+    let orders: Vec<(u32, String)> = (1..=e.order()).map(|k| (k as u32, e.coeff(k).format(EvenStyle::Zeta, Notation::Text))).collect();
+    origin_file("E", "g2", "[l1, l2, l3]", &orders)
+}
+
+#[test]
+fn exponentiated_prediction_round_trips_and_a_cubic_term_breaks_one_order() {
+    let e = predicted_e();
+    let (code, v) = run_json("origin", "round-trip.yaml", &e_file(&e), &[]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["exponentiates"], true);
+    assert_eq!(v["orders"][2]["octagon"]["supplied"], "-32/3*zeta(4)");
+    assert_eq!(v["orders"][2]["hexagon"]["supplied"], "-17/12*zeta(4)");
+    assert_eq!(v["orders"][2]["constant"]["supplied"], "-7/3*zeta(6) + zeta(3)^2");
+    for o in v["orders"].as_array().unwrap() {
+        assert_eq!(o["octagon"]["verdict"], "agrees-exactly");
+        assert_eq!(o["hexagon"]["verdict"], "agrees-exactly");
+    }
+
+    // 5/7 l1^2 l2 added to E^(2): ln E^(2) changes by exactly that term.
+    let mut changed = e.coeffs().to_vec();
+    changed[2] = &changed[2] + &(&l(1).pow(2) * &l(2)).scale(&q(5, 7));
+    let (code, v) = run_json("origin", "cubic.yaml", &e_file(&Series::new(changed)), &[]);
+    assert_eq!(code, 1);
+    assert_eq!(v["exponentiates"], false);
+    assert_eq!(v["broken"]["loop"], 2);
+    assert_eq!(v["broken"]["high_degree"], "5/7*l1^2*l2");
+    assert_eq!(v["orders"][0]["exponentiation"], "holds");
+    assert_eq!(v["orders"][1]["exponentiation"], "broken");
+    assert_eq!(v["orders"][2]["exponentiation"], "not-examined");
+    assert!(v["orders"][2]["octagon"].is_null());
+    assert_eq!(v["summary"], "order 1 agrees, order 2 breaks exponentiation, order 3 not examined");
+}
+
+/// The two-loop R6 above on the line l1 = l2 = l3 = l: only the octagon is
+/// tested: (l1+l2+l3)^2 = 9 l^2 and R6 -> 3 zeta(2) l^2 + ...
+#[test]
+fn on_the_line_only_the_octagon_is_tested() {
+    let r6 = "3*zeta(2)*l^2 + 77/4*zeta(4) - 6*zeta(2)^2";
+    let (code, v) = run_json("origin", "line.yaml", &origin_file("R6", "g2", "[l]", &[(2, r6.into())]), &[]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["line"], true);
+    assert_eq!(v["orders"][1]["octagon"]["supplied"], "2/3*zeta(2)");
+    assert_eq!(v["orders"][1]["hexagon"]["verdict"], "not-testable-on-line");
+    assert!(v["notes"].as_array().unwrap().iter().any(|n| n.as_str().unwrap().contains("only Gamma_oct is testable")));
+    let path = write("line.yaml", &origin_file("R6", "g2", "[l]", &[(2, r6.into())]));
+    let (_, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    assert!(out.contains("n/a") && out.contains("only Gamma_oct is testable"), "{out}");
+    // A wrong line coefficient (4 zeta(2) l^2) is seen by the octagon: 4/9 zeta(2) more.
+    let (code, v) = run_json("origin", "line-wrong.yaml", &origin_file("R6", "g2", "[l]", &[(2, r6.replace("3*zeta(2)", "7*zeta(2)"))]), &[]);
+    assert_eq!(code, 1);
+    assert_eq!(v["orders"][1]["octagon"]["difference"], "4/9*zeta(2)");
+}
+
+/// The fictional demo plants -4195/16 instead of -4159/16 for the zeta(6)
+/// l1^3 l2 coefficient at five loops (see the file's comments): ln E^(5)
+/// carries exactly the difference, -36/16 = -9/4, on that term.
+#[test]
+fn demo_shows_the_planted_failure() {
+    let (code, out, _) = loopwise(&["demo", "origin"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("fictional"), "{out}");
+    assert!(out.contains("exponentiation breaks at order 5"), "{out}");
+    assert!(out.contains("-9/4*l1^3*l2*zeta(6)"), "{out}");
+    assert!(out.contains("summary: orders 1-4 agree, order 5 breaks exponentiation, orders 6-7 not examined"), "{out}");
+    let (code, out, _) = loopwise(&["demo", "origin", "--format", "json"]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["broken"]["loop"], 5);
+    let (code, out, _) = loopwise(&["demo"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("cusp"), "{out}");
+}
+
+#[test]
+fn json_shape() {
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 3*zeta(2)".into())]);
+    let (_, v) = run_json("origin", "shape.yaml", &text, &[]);
+    for key in ["file", "normalisation", "logs", "line", "coupling", "c0_formula", "exponentiates", "broken", "agrees", "orders", "summary", "notes"] {
+        assert!(v.get(key).is_some(), "missing {key}: {v}");
+    }
+    assert_eq!(v["logs"], serde_json::json!(["l1", "l2", "l3"]));
+    for key in ["loop", "exponentiation", "octagon", "hexagon", "linear", "constant"] {
+        assert!(v["orders"][0].get(key).is_some(), "missing {key}");
+    }
+    for key in ["verdict", "supplied", "predicted"] {
+        assert!(v["orders"][0]["octagon"].get(key).is_some(), "missing {key}");
+    }
+    let path = write("shape.yaml", &text);
+    let (code, out, _) = loopwise(&["origin", path.to_str().unwrap(), "--format", "yaml"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("exponentiates: true"), "{out}");
+}
+
+#[test]
+fn unusable_input_exits_two_naming_file_and_line() {
+    let bad = |name: &str, text: &str, expect: &[&str]| {
+        let path = write(name, text);
+        let (code, out, err) = loopwise(&["origin", path.to_str().unwrap()]);
+        assert_eq!(code, 2, "{name}: {out}");
+        assert!(out.is_empty());
+        for e in expect {
+            assert!(err.contains(e), "{name}: {err}");
+        }
+    };
+    bad("unknown-symbol.yaml", &origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*l1^2 + x".into())]), &["unknown-symbol.yaml:6:", "`x`"]);
+    bad(
+        "no-normalisation.yaml",
+        "coupling: g2\nsymbols: [l1, l2, l3]\norders:\n  - loop: 1\n    exact: \"l1\"\n",
+        &["no-normalisation.yaml", "normalisation"],
+    );
+    bad("mixed.yaml", &origin_file("E", "g2", "[l1, l2, l3, l]", &[(1, "l".into())]), &["line 3 of", "mixed.yaml"]);
+    bad("numbers.yaml", &origin_file("E", "g2", "[l]", &[(1, "1.5*l^2".into())]), &["numbers.yaml:6:", "not exact"]);
+    bad("gap.yaml", &origin_file("E", "g2", "[l]", &[(2, "l^2".into())]), &["loop order 1 is missing"]);
+    bad("not-one.yaml", "normalisation: R6\ncoupling: g2\nsymbols: [l]\norders:\n  - loop: 1\n    exact: \"1\"\n  - loop: 0\n    exact: \"1\"\n", &["outside"]);
+    let (code, _, err) = loopwise(&["origin", "/nonexistent/origin.yaml"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("/nonexistent/origin.yaml"), "{err}");
+}
+
+fn c0_file(orders: &[(u32, &str)]) -> String {
+    let mut s = "coupling: g2\norders:\n".to_string();
+    for (l, c) in orders {
+        s.push_str(&format!("  - loop: {l}\n    exact: \"{c}\"\n"));
+    }
+    s
+}
+
+/// C0 through two loops, -3 zeta(2) (A&S 27.7) and 77/4 zeta(4)
+/// (arXiv:1006.5703, physics.md section 6): 4 equations (the monomials 1 and
+/// pi^2 at one loop, pi^2 and pi^4 at two, since Gamma has weight 2L - 2 and
+/// Delta and zeta(2) Gamma weight 2L) for 14 unknowns leave 10 free parameters.
+#[test]
+fn fit_of_the_constant_through_two_loops_is_a_family() {
+    let (code, v) = run_json("fit", "c0.yaml", &c0_file(&[(1, "-3*zeta(2)"), (2, "77/4*zeta(4)")]), &[]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["result"], "family");
+    assert_eq!(v["free_directions"].as_array().unwrap().len(), 10);
+    let fixed = v["fixing"]["fixed_at"].as_u64().unwrap() as u32;
+    assert!(fixed > 2);
+    let missing: Vec<u32> = v["fixing"]["missing_orders"].as_array().unwrap().iter().map(|x| x.as_u64().unwrap() as u32).collect();
+    assert_eq!(missing, (3..=fixed).collect::<Vec<u32>>());
+    assert!(v["caution"].as_str().unwrap().contains("conjecture, not a derivation"));
+    // The particular solution pastes back into `expand` and reproduces the data.
+    let formula = v["formula"].as_str().unwrap();
+    let (code, out, err) = loopwise(&["expand", formula, "-L", "2", "--format", "json"]);
+    assert_eq!(code, 0, "{err}");
+    let e: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(e["orders"][0]["exact"], "-1/2*pi^2");
+    assert_eq!(e["orders"][1]["exact"], "77/360*pi^4");
+    let path = write("c0.yaml", &c0_file(&[(1, "-3*zeta(2)"), (2, "77/4*zeta(4)")]));
+    let (_, out, _) = loopwise(&["fit", path.to_str().unwrap()]);
+    assert!(out.contains(&format!("data through loop {fixed} would fix it")), "{out}");
+    assert!(out.contains("CAUTION: a fit turns data into a conjecture"), "{out}");
+}
+
+/// A combination built by the exact engine (`loopwise expand`) is recovered
+/// alone, with the formula printed so it pastes back; an impossible target
+/// (weight 3 at one loop, where every element has weight 0 or 2) is refused.
+#[test]
+fn fit_recovers_a_known_combination_and_refuses_an_impossible_one() {
+    let combo = "3/7*Gamma(pi/6) - 2*zeta(2)*Gamma(0) + Delta(pi/3)/5";
+    let (code, out, _) = loopwise(&["expand", combo, "-L", "8", "--format", "json"]);
+    assert_eq!(code, 0);
+    let e: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let orders: Vec<(u32, String)> =
+        e["orders"].as_array().unwrap().iter().map(|o| (o["loop"].as_u64().unwrap() as u32, o["exact"].as_str().unwrap().to_string())).collect();
+    let refs: Vec<(u32, &str)> = orders.iter().map(|(l, s)| (*l, s.as_str())).collect();
+    let basis = "P=Gamma(pi/6); Q=Gamma(0); R=zeta(2)*Gamma(0); S=Delta(pi/3)";
+    let (code, v) = run_json("fit", "combo.yaml", &c0_file(&refs), &["--basis", basis]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["result"], "unique");
+    assert_eq!(v["coefficients"], serde_json::json!(["3/7", "0", "-2", "1/5"]));
+    assert_eq!(v["formula"], "3/7*Gamma(pi/6) - 2*zeta(2)*Gamma(0) + 1/5*Delta(pi/3)");
+
+    let (code, v) = run_json("fit", "impossible.yaml", &c0_file(&[(1, "zeta(3)")]), &[]);
+    assert_eq!(code, 1);
+    assert_eq!(v["result"], "none");
+    assert_eq!(v["first_inconsistent_order"], 1);
+    // Gamma(0) = 4 g^2 + ... fits one loop alone; Delta(0) = 4 zeta(2) g^2 + ...
+    // (physics.md sections 2-3) is ruled out there, then zeta(3) at two loops is impossible.
+    let (code, v) = run_json("fit", "impossible-2.yaml", &c0_file(&[(1, "4"), (2, "zeta(3)")]), &["--basis", "Gamma(0); Delta(0)"]);
+    assert_eq!(code, 1);
+    assert_eq!(v["first_inconsistent_order"], 2);
+    assert_eq!(v["elements"][1]["ruled_out_at"], 1);
+
+    let path = write("symbols.yaml", "coupling: g2\nsymbols: [l]\norders:\n  - loop: 1\n    exact: \"l\"\n");
+    let (code, _, err) = loopwise(&["fit", path.to_str().unwrap()]);
+    assert_eq!(code, 2);
+    assert!(err.contains("line 4") && err.contains("`l`"), "{err}");
+}
