@@ -5,20 +5,14 @@
 //! Sources are named beside each check.
 
 use std::path::PathBuf;
-use std::process::Command;
+mod common;
+
+use common::loopwise;
 
 use loopwise::ring::{EvenStyle, Exact, Notation};
 use loopwise::series::Series;
 use rug::Rational;
 
-fn loopwise(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
 
 fn write(name: &str, text: &str) -> PathBuf {
     let dir = std::env::temp_dir().join(format!("loopwise-origin-{}", std::process::id()));
