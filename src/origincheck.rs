@@ -60,7 +60,7 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
     let file = parse_series_text(text, origin)?;
     let normalisation = file.normalisation.ok_or_else(|| {
         Error::input(format!(
-            "{origin}: an origin file needs `normalisation: E` (the BDS-like normalised amplitude) \
+            "{origin}: an origin file needs `normalisation: E` (the normalised amplitude) \
              or `normalisation: R6` (the remainder function)"
         ))
     })?;
