@@ -124,12 +124,15 @@ fn broken_catalogue_file_names_file_and_line() {
     std::fs::create_dir_all(&dir).unwrap();
     std::fs::write(dir.join("mine.yaml"), "name: mine\nsummary: s\ndefinition: Gamma(0)\nstatuss: established\n").unwrap();
     let (code, _, err) = loopwise(&["--catalog", dir.to_str().unwrap(), "list"]);
-    std::fs::write(dir.join("mine.yaml"), "name: mine\nsummary: mine\ndefinition: 3*Gamma(pi/6)\nstatus: conjecture\n").unwrap();
+    std::fs::write(dir.join("mine.yaml"), "name: mine\nsummary: mine\ndefinition: 3*Gamma(pi/6)\ncoupling: a\nstatus: conjecture\n").unwrap();
     let (code2, out2, _) = loopwise(&["--catalog", dir.to_str().unwrap(), "expand", "mine", "--loops", "2", "--format", "json"]);
     std::fs::remove_dir_all(&dir).ok();
     assert_eq!(code, 2);
     assert!(err.contains("mine.yaml:4:") && err.contains("did you mean `status`"), "{err}");
     assert_eq!(code2, 0);
     let v: serde_json::Value = serde_json::from_str(&out2).unwrap();
-    assert_eq!(v["orders"][1]["exact"], "-6*pi^2");
+    // 3 Gamma(pi/6) at two loops is 3 * (-16 * 3/4 * zeta(2)) = -6 pi^2 in g^2; the
+    // entry asks for a = 2 g^2, which divides by 2^2.
+    assert_eq!(v["coupling"], "a");
+    assert_eq!(v["orders"][1]["exact"], "-3/2*pi^2");
 }

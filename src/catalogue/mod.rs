@@ -13,8 +13,14 @@ use std::path::Path;
 
 use serde::Deserialize;
 
+use crate::coupling::Coupling;
 use crate::error::{Error, Result};
 use crate::suggest::did_you_mean;
+
+fn coupling_name<'de, D: serde::Deserializer<'de>>(d: D) -> std::result::Result<Coupling, D::Error> {
+    let text = String::deserialize(d)?;
+    text.parse().map_err(|e: Error| serde::de::Error::custom(e.message()))
+}
 
 /// The built-in files, in the order `list` shows them. Adding a quantity means
 /// adding its file to series/catalogue/ and one line here.
@@ -65,6 +71,10 @@ pub struct Entry {
     /// The quantity in terms of the functionals, in the coefficient language,
     /// with the coupling g^2 = lambda / (16 pi^2).
     pub definition: String,
+    /// The convention the literature quotes this quantity's loop coefficients
+    /// in; `expand` prints them in it unless told otherwise.
+    #[serde(default, deserialize_with = "coupling_name")]
+    pub coupling: Coupling,
     pub status: Status,
     #[serde(default)]
     pub note: Option<String>,
@@ -79,7 +89,7 @@ pub struct Entry {
     pub origin: String,
 }
 
-const ENTRY_KEYS: &[&str] = &["name", "summary", "definition", "status", "note", "references", "closed_form", "strong_coupling"];
+const ENTRY_KEYS: &[&str] = &["name", "summary", "definition", "coupling", "status", "note", "references", "closed_form", "strong_coupling"];
 const STRONG_KEYS: &[&str] = &["formula", "status", "note"];
 
 /// All known quantities, by name.
@@ -202,6 +212,17 @@ mod tests {
         let e = parse_entry(text, "mine.yaml").unwrap_err();
         assert!(e.message().starts_with("mine.yaml:5:"), "{e}");
         assert!(e.message().contains("did you mean `references`"), "{e}");
+    }
+
+    #[test]
+    fn coupling_defaults_to_g2_and_is_checked() {
+        let c = Catalogue::builtin().unwrap();
+        assert_eq!(c.get("cusp").unwrap().coupling, Coupling::G2);
+        let text = "name: x\nsummary: s\ndefinition: Gamma(0)\ncoupling: a\nstatus: established\n";
+        assert_eq!(parse_entry(text, "mine.yaml").unwrap().coupling, Coupling::A);
+        let text = "name: x\nsummary: s\ndefinition: Gamma(0)\ncoupling: b\nstatus: established\n";
+        let e = parse_entry(text, "mine.yaml").unwrap_err();
+        assert!(e.message().contains("mine.yaml:4:") && e.message().contains("unknown coupling"), "{e}");
     }
 
     #[test]

@@ -3,6 +3,7 @@
 use clap::Args as ClapArgs;
 
 use loopwise::catalogue::Catalogue;
+use loopwise::coupling::Coupling;
 use loopwise::kernel::MAX_LOOPS;
 use loopwise::prediction::Quantity;
 use loopwise::report::expansion::Expansion;
@@ -32,9 +33,10 @@ pub struct Args {
     /// Write even zeta values as powers of pi or as zeta(2n).
     #[arg(long, value_enum, default_value = "pi")]
     pub even: EvenArg,
-    /// The coupling the coefficients are given in.
-    #[arg(long, value_enum, default_value = "g2")]
-    pub coupling: CouplingArg,
+    /// The coupling the coefficients are given in [default: the catalogue
+    /// entry's convention, g2 for formulas].
+    #[arg(long, value_enum)]
+    pub coupling: Option<CouplingArg>,
 }
 
 pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
@@ -56,7 +58,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
         &quantity.definition,
         quantity.entry.clone(),
         &series?,
-        args.coupling.into(),
+        args.coupling.map_or_else(|| quantity.entry.as_ref().map_or(Coupling::G2, |e| e.coupling), Coupling::from),
         args.even.into(),
         args.digits,
     );
