@@ -158,7 +158,15 @@ impl Catalogue {
 
 /// Reads one entry; errors name the file, line and column, and suggest keys.
 pub fn parse_entry(text: &str, origin: &str) -> Result<Entry> {
-    let mut entry: Entry = serde_yaml::from_str(text).map_err(|e| yaml_error(origin, &e))?;
+    let mut entry: Entry = serde_yaml::from_str(text).map_err(|e| {
+        // serde_yaml places errors raised while converting a value at the
+        // document's start; point at the `coupling:` line instead.
+        let line = text.lines().position(|l| l.starts_with("coupling:")).map(|i| i + 1);
+        match line {
+            Some(line) if e.to_string().contains("unknown coupling") => Error::input(format!("{origin}:{line}:11: {e}")),
+            _ => yaml_error(origin, &e),
+        }
+    })?;
     if entry.name.trim().is_empty() || entry.name.contains(char::is_whitespace) {
         return Err(Error::input(format!("{origin}: `name` must be one word without spaces, not {:?}", entry.name)));
     }
