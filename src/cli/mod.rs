@@ -214,3 +214,26 @@ fn list(catalogue: &Catalogue) -> Result<Outcome> {
     emit(&out)?;
     Ok(Outcome::Done)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use clap::CommandFactory;
+
+    /// clap's own consistency checks, and a help line for every command and
+    /// every argument, so `--help` stays complete as options are added.
+    #[test]
+    fn help_is_complete() {
+        let cli = Cli::command();
+        cli.clone().debug_assert();
+        for sub in cli.get_subcommands() {
+            assert!(sub.get_about().is_some(), "command `{}` has no help", sub.get_name());
+            for arg in sub.get_arguments() {
+                if arg.get_id() == "help" {
+                    continue;
+                }
+                assert!(arg.get_help().is_some(), "`{} {}` has no help", sub.get_name(), arg.get_id());
+            }
+        }
+    }
+}
