@@ -125,7 +125,7 @@ fn rational_ratio(a: &Series, b: &Series) -> Option<Rational> {
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum Solution {
     Unique(Vec<Rational>),
-    /// a = particular + sum_i t_i null_space[i], t_i any rationals.
+    /// a = particular + sum_i t_i `null_space[i]`, t_i any rationals.
     Family { particular: Vec<Rational>, null_space: Vec<Vec<Rational>> },
     /// No combination fits.
     None(Inconsistency),
@@ -148,7 +148,7 @@ pub struct ElementStatus {
     pub can_appear: bool,
 }
 
-/// Solves target = sum_k a_k basis[k] at the supplied orders, exactly.
+/// Solves target = sum_k a_k `basis[k]` at the supplied orders, exactly.
 pub fn solve(target: &[(u32, Exact)], basis: &[Series]) -> Result<Solution> {
     let orders = check_orders(target, basis)?;
     let n = basis.len();

@@ -15,7 +15,7 @@
 //! positive, so there is no cancellation.
 //!
 //! Guarantee: the returned value has relative error below 2^-(prec-1). The
-//! truncation of every sum is bounded rigorously (see [`terms_needed`]); the
+//! truncation of every sum is bounded rigorously (see `terms_needed`); the
 //! rounding of the working-precision arithmetic is bounded by a worst-case
 //! count of correctly rounded operations on positive numbers, covered by the
 //! guard bits; the final rounding to `prec` bits adds at most half an ulp.

@@ -97,7 +97,7 @@ pub enum Angle {
 
 /// Parses one expression of the coefficient language.
 ///
-/// `origin` names the source for messages ("file.yaml" or "<argument>");
+/// `origin` names the source for messages (`"file.yaml"` or `"<argument>"`);
 /// `place` optionally shifts reported line/column when the text sits inside
 /// a larger file (line, column of its first character, both from 1), so
 /// errors point into that file.

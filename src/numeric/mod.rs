@@ -63,7 +63,7 @@ impl Estimate {
     /// significant digits (trailing zeros included, since they are supported
     /// digits too), in plain decimal when that needs no padding zeros and as
     /// mantissa`e`exponent otherwise. Only digits the error supports are
-    /// printed; when none are, the result is "0 +- <error>".
+    /// printed; when none are, the result is `"0 +- <error>"`.
     pub fn to_decimal(&self, max_digits: u32) -> String {
         let k = self.digits_supported().min(max_digits);
         if k == 0 {
