@@ -65,12 +65,6 @@ struct Level {
     rows: Vec<(usize, Vec<Integer>)>,
 }
 
-impl Level {
-    fn row(&self, j: usize) -> Option<&Vec<Integer>> {
-        self.rows.iter().find(|(k, _)| *k == j).map(|(_, v)| v)
-    }
-}
-
 /// One coefficient in dense form: integer numerators over one denominator,
 /// laid out as [basis element of its weight][power of c2].
 #[derive(Clone, Debug)]
@@ -145,10 +139,12 @@ pub fn diagonal_dense(
         .into_iter()
         .enumerate()
         .map(|(n, level)| {
-            let numerators = match level.row(s) {
-                Some(v) => v.clone(),
-                None => vec![Integer::new(); tables.bases.len(n) * tilt.slots(n)],
-            };
+            let numerators = level
+                .rows
+                .into_iter()
+                .find(|(j, _)| *j == s)
+                .map(|(_, v)| v)
+                .unwrap_or_else(|| vec![Integer::new(); tables.bases.len(n) * tilt.slots(n)]);
             Dense { denominator: level.denominator, numerators }
         })
         .collect()
