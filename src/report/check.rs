@@ -6,7 +6,7 @@ use rug::Float;
 use serde::Serialize;
 
 use super::expansion::status_line;
-use super::{decimal, Format};
+use super::{decimal, serialized, Format};
 use crate::compare::{Comparison, OrderResult, Verdict};
 use crate::error::{Error, Result};
 
@@ -123,12 +123,7 @@ fn text_row(o: &OrderResult, max_digits: u32) -> (&'static str, String, String) 
 pub fn render(c: &Comparison, format: Format) -> Result<String> {
     match format {
         Format::Text => Ok(text(c)),
-        Format::Json => {
-            let mut s = serde_json::to_string_pretty(&json(c)).map_err(|e| Error::io(e.to_string()))?;
-            s.push('\n');
-            Ok(s)
-        }
-        Format::Yaml => serde_yaml::to_string(&json(c)).map_err(|e| Error::io(e.to_string())),
+        Format::Json | Format::Yaml => serialized(&json(c), format),
         Format::Latex => Err(Error::input("the check report comes as text, json or yaml")),
     }
 }

@@ -7,7 +7,7 @@ use super::latex::{escape, math_cell};
 use super::{bits_for_digits, decimal, Format};
 use crate::catalogue::{Entry, Status};
 use crate::coupling::Coupling;
-use crate::error::{Error, Result};
+use crate::error::Result;
 use crate::ring::{EvenStyle, Exact, Notation};
 use crate::series::Series;
 
@@ -79,12 +79,7 @@ impl Expansion {
     pub fn render(&self, format: Format) -> Result<String> {
         match format {
             Format::Text => self.text(),
-            Format::Json => {
-                let mut s = serde_json::to_string_pretty(&self.json()?).map_err(|e| Error::io(e.to_string()))?;
-                s.push('\n');
-                Ok(s)
-            }
-            Format::Yaml => serde_yaml::to_string(&self.json()?).map_err(|e| Error::io(e.to_string())),
+            Format::Json | Format::Yaml => super::serialized(&self.json()?, format),
             Format::Latex => self.latex(),
         }
     }

@@ -96,8 +96,7 @@ impl AtReport {
 
     pub fn render(&self, format: Format) -> Result<String> {
         match format {
-            Format::Json => Ok(serde_json::to_string_pretty(&self.json()).map_err(|e| Error::io(e.to_string()))? + "\n"),
-            Format::Yaml => serde_yaml::to_string(&self.json()).map_err(|e| Error::io(e.to_string())),
+            Format::Json | Format::Yaml => super::serialized(&self.json(), format),
             Format::Latex => Err(Error::input("`at` reports come as text, json or yaml")),
             Format::Text => Ok(self.text()),
         }
@@ -150,7 +149,7 @@ pub fn scan_rows(couplings: &[Float], values: &[Estimate], digits: u32, json: bo
         })
         .collect();
     if json {
-        return Ok(serde_json::to_string_pretty(&rows).map_err(|e| Error::io(e.to_string()))? + "\n");
+        return super::serialized(&rows, Format::Json);
     }
     let mut out = String::from("g,value,error\n");
     for r in rows {

@@ -65,12 +65,7 @@ struct JsonReport {
 pub fn render(r: &FitReport, format: Format) -> Result<String> {
     match format {
         Format::Text => Ok(text(r)),
-        Format::Json => {
-            let mut s = serde_json::to_string_pretty(&json(r)).map_err(|e| Error::io(e.to_string()))?;
-            s.push('\n');
-            Ok(s)
-        }
-        Format::Yaml => serde_yaml::to_string(&json(r)).map_err(|e| Error::io(e.to_string())),
+        Format::Json | Format::Yaml => super::serialized(&json(r), format),
         Format::Latex => Err(Error::input("the fit report comes as text, json or yaml")),
     }
 }

@@ -50,6 +50,14 @@ impl fmt::Display for Format {
     }
 }
 
+/// A report value as JSON (pretty, with a final newline) or YAML.
+pub fn serialized<T: serde::Serialize>(value: &T, format: Format) -> Result<String> {
+    match format {
+        Format::Yaml => serde_yaml::to_string(value).map_err(|e| Error::io(e.to_string())),
+        _ => serde_json::to_string_pretty(value).map(|s| s + "\n").map_err(|e| Error::io(e.to_string())),
+    }
+}
+
 /// Bits of MPFR precision that carry `digits` decimal digits.
 pub fn bits_for_digits(digits: u32) -> u32 {
     (f64::from(digits) * std::f64::consts::LOG2_10).ceil() as u32 + 8
