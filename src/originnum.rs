@@ -565,8 +565,8 @@ mod tests {
         assert_eq!(written(&num("0.5"), 20), "0.500(50)");
         assert_eq!(written(&num("2"), 6), "2.00000");
         // What is written reads back as the same interval (rounded outwards).
-        let back = num(&written(&num("3.14159(27)"), 20));
-        assert!(close(&back.value, 3.14159, 1e-12) && close(&back.uncertainty, 0.00027, 1e-12));
+        let back = num(&written(&num("1.23456(27)"), 20));
+        assert!(close(&back.value, 1.23456, 1e-12) && close(&back.uncertainty, 0.00027, 1e-12));
     }
 
     /// (1.5(1) l1 + 2) * (l1 - 0.5(2)): l1^2 1.5(1); l1 2 - 0.75 with
@@ -620,10 +620,10 @@ mod tests {
             ln.push(ln_order(&ln, &nums, k).unwrap());
         }
         let exact_ln = e.ln().unwrap();
-        for k in 1..=3 {
+        for (k, computed) in ln.iter().enumerate().skip(1) {
             let want = NumPoly::from_exact(exact_ln.coeff(k), &line, PREC).unwrap();
             for (m, c) in want.terms() {
-                let got = ln[k].coefficient(*m);
+                let got = computed.coefficient(*m);
                 assert!(Float::with_val(PREC, &got.value - &c.value).abs() < 1e-50, "order {k} {m:?}");
             }
         }

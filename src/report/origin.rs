@@ -53,7 +53,7 @@ fn break_parts(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> (
         if ts.is_empty() {
             "0".to_string()
         } else {
-            ts.iter().map(|t| term_text(t, logs, digits)).collect::<Vec<_>>().join(" + ")
+            ts.iter().map(|t| term_text(t, logs, digits)).collect::<Vec<_>>().join(" + ").replace("+ -", "- ")
         }
     };
     match b {
