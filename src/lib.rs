@@ -28,6 +28,7 @@ pub mod mzv;
 pub mod numeric;
 pub mod origin;
 pub mod origincheck;
+pub mod originnum;
 pub mod prediction;
 pub mod report;
 pub mod ring;

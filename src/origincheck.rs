@@ -8,18 +8,26 @@
 //! Coefficients are compared in the file's own coupling: the analysis runs
 //! in g^2, and readings and predictions are converted back order by order
 //! (a rescaling, which no exact verdict can notice).
+//!
+//! An order written with decimals (or other numbers outside the exact ring)
+//! makes the whole file numerical: every order becomes a polynomial with
+//! [`Approx`] coefficients at the working precision and the analysis runs
+//! in [`crate::originnum`], judged with [`crate::compare::judge_numbers`].
+//! A file that is all exact takes the exact path alone.
 
 use crate::catalogue::{Catalogue, Entry};
-use crate::compare::{judge, Supplied, Verdict};
+use crate::compare::{judge, judge_numbers, working_bits, Supplied, Verdict};
 use crate::coupling::Coupling;
 use crate::error::{Error, Result};
+use crate::expr::numeric::Approx;
 use crate::fit::{self, BasisElement, Fit};
 use crate::kernel::{self, MAX_LOOPS};
 use crate::origin::{self, Breakdown, HexagonSlot, OriginLogs};
+use crate::originnum::{self, needs_numbers, NumBreakdown, NumPoly, NumTerm};
 use crate::prediction::{Expander, Quantity};
 use crate::ring::Exact;
 use crate::series::Series;
-use crate::seriesfile::{parse_series_text, Normalisation, OrderEntry, SeriesFile, MAX_FILE_BYTES};
+use crate::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile, MAX_FILE_BYTES};
 
 /// An origin file, read and checked: the coefficients as one series in g^2.
 #[derive(Clone, Debug)]
@@ -28,7 +36,11 @@ pub struct OriginData {
     pub logs: OriginLogs,
     pub normalisation: Normalisation,
     /// Coefficients of g^(2L), L = 0 .. highest order; 1 (E) or 0 (R6) at g^0.
+    /// The orders listed in `numeric` hold zero here.
     pub series: Series,
+    /// The loop orders written with numbers outside the exact ring, read at
+    /// the working precision by [`check_origin`]; empty for an exact file.
+    pub numeric: Vec<u32>,
 }
 
 /// Reads an origin file from disk.
@@ -69,8 +81,12 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
         None => e.context(origin),
     })?;
     let mut coeffs = vec![Exact::zero(); highest(&file) as usize + 1];
+    let mut numeric = Vec::new();
     for entry in &file.orders {
-        coeffs[entry.loop_order as usize] = exact_coefficient(&file, entry)?;
+        match numeric_source(entry) {
+            Some(_) => numeric.push(entry.loop_order),
+            None => coeffs[entry.loop_order as usize] = exact_coefficient(&file, entry)?,
+        }
     }
     // R6 vanishes at one loop by definition, so an R6 file may start at two.
     let first = if normalisation == Normalisation::R6 { 2 } else { 1 };
@@ -86,7 +102,18 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
         c[0] = Exact::one();
         series = Series::new(c);
     }
-    Ok(OriginData { file, logs, normalisation, series })
+    Ok(OriginData { file, logs, normalisation, series, numeric })
+}
+
+/// The text of an entry to be read numerically: an `exact` coefficient with
+/// numbers outside the exact ring, or a `value` given alone. An entry with
+/// an exact `exact` is read exactly, whatever its `value` says.
+fn numeric_source(entry: &OrderEntry) -> Option<&Located> {
+    match (&entry.exact, &entry.value) {
+        (Some(x), _) if needs_numbers(&x.expr) => Some(x),
+        (Some(_), _) => None,
+        (None, v) => v.as_ref(),
+    }
 }
 
 fn highest(file: &SeriesFile) -> u32 {
@@ -114,21 +141,56 @@ fn exact_coefficient(file: &SeriesFile, entry: &OrderEntry) -> Result<Exact> {
     Ok(expander.series(&located.expr)?.coeff(0).clone())
 }
 
+/// A coefficient read from the data: exact, or a number with its
+/// propagated uncertainty when the file was read numerically.
+#[derive(Clone, Debug)]
+pub enum Reading {
+    Exact(Exact),
+    Number(Approx),
+}
+
+impl Reading {
+    pub fn is_zero(&self) -> bool {
+        match self {
+            Reading::Exact(x) => x.is_zero(),
+            Reading::Number(a) => a.value.is_zero() && a.uncertainty.is_zero(),
+        }
+    }
+}
+
 /// One coefficient read from the data, with its verdict.
 #[derive(Clone, Debug)]
 pub struct Judged {
-    pub supplied: Exact,
+    pub supplied: Reading,
     pub predicted: Option<Exact>,
     pub verdict: Verdict,
 }
 
 impl Judged {
-    fn new(supplied: Exact, predicted: Option<Exact>, digits: u32) -> Result<Self> {
-        let verdict = match &predicted {
-            Some(p) => judge(&Supplied::Exact(supplied.clone()), p, digits)?,
-            None => Verdict::NotPredicted,
+    fn new(supplied: Reading, predicted: Option<Exact>, digits: u32) -> Result<Self> {
+        let verdict = match (&supplied, &predicted) {
+            (_, None) => Verdict::NotPredicted,
+            (Reading::Exact(x), Some(p)) => judge(&Supplied::Exact(x.clone()), p, digits)?,
+            (Reading::Number(a), Some(p)) => judge_numbers(a, &p.evaluate(working_bits(digits))?, None, digits),
         };
         Ok(Judged { supplied, predicted, verdict })
+    }
+}
+
+/// The first order that breaks exponentiation, with its offending terms.
+#[derive(Clone, Debug)]
+pub enum Broken {
+    Exact(Breakdown),
+    /// The terms found nonzero beyond their uncertainty.
+    Numeric(NumBreakdown),
+}
+
+impl Broken {
+    pub fn order(&self) -> usize {
+        match self {
+            Broken::Exact(b) => b.order,
+            Broken::Numeric(b) => b.order,
+        }
     }
 }
 
@@ -184,12 +246,14 @@ pub struct OriginCheck {
     /// The orders that exponentiate, from 1 up to a breaking order.
     pub rows: Vec<OriginRow>,
     /// The first order that breaks exponentiation, its terms in the file's coupling.
-    pub broken: Option<Breakdown>,
+    pub broken: Option<Broken>,
     /// The file's C0 formula, as written.
     pub formula: Option<String>,
     pub octagon_entry: Option<Entry>,
     pub hexagon_entry: Option<Entry>,
     pub digits: u32,
+    /// The orders written with numbers; non-empty when the file was read numerically.
+    pub numeric: Vec<u32>,
 }
 
 impl OriginCheck {
@@ -203,8 +267,8 @@ impl OriginCheck {
         let mut classes: Vec<(u32, &'static str)> =
             self.rows.iter().map(|r| (r.loop_order, if r.differs() { "differ" } else { "agree" })).collect();
         if let Some(b) = &self.broken {
-            classes.push((b.order as u32, "break exponentiation"));
-            classes.extend((b.order as u32 + 1..=self.highest).map(|l| (l, "not examined")));
+            classes.push((b.order() as u32, "break exponentiation"));
+            classes.extend((b.order() as u32 + 1..=self.highest).map(|l| (l, "not examined")));
         }
         let mut runs: Vec<(u32, u32, &'static str)> = Vec::new();
         for (l, c) in classes {
@@ -228,6 +292,10 @@ impl OriginCheck {
     pub fn on_line(&self) -> bool {
         matches!(self.logs, OriginLogs::Line(_))
     }
+
+    pub fn is_numeric(&self) -> bool {
+        !self.numeric.is_empty()
+    }
 }
 
 /// The coefficient of order k of a g^2 series, written in `coupling`.
@@ -237,13 +305,105 @@ fn in_file(c: &Exact, k: usize, coupling: Coupling) -> Exact {
     Series::new(coeffs).in_coupling(coupling).coeff(k).clone()
 }
 
+/// The factor that takes a coefficient of order k in `coupling` to g^2.
+fn to_g2(k: usize, coupling: Coupling) -> Exact {
+    let mut coeffs = vec![Exact::zero(); k + 1];
+    coeffs[k] = Exact::one();
+    Series::new(coeffs).from_coupling(coupling).coeff(k).clone()
+}
+
+/// What the analysis of either path leaves for the verdicts, in g^2.
+struct Readings {
+    /// (order, octagon, hexagon or None on the line, linear, constant).
+    orders: Vec<(usize, Reading, Option<Reading>, Reading, Reading)>,
+    broken: Option<Broken>,
+}
+
+fn exact_readings(data: &OriginData, cusp: Option<&Series>) -> Result<Readings> {
+    let analysis = match cusp {
+        None => origin::analyse_e(&data.series, &data.logs),
+        Some(cusp) => origin::analyse_r6(&data.series, cusp, &data.logs),
+    }
+    .map_err(|e| e.context(&data.file.origin))?;
+    let c = data.file.coupling;
+    let orders = analysis
+        .orders
+        .iter()
+        .map(|r| {
+            let k = r.order;
+            let at = |x: &Exact| Reading::Exact(in_file(x, k, c));
+            let hexagon = match &r.hexagon {
+                HexagonSlot::Value(v) => Some(at(v)),
+                HexagonSlot::NotTestableOnLine => None,
+            };
+            (k, at(&r.octagon), hexagon, at(&r.linear), at(&r.constant))
+        })
+        .collect();
+    let broken = analysis.broken.map(|b| {
+        Broken::Exact(Breakdown {
+            order: b.order,
+            high_degree: in_file(&b.high_degree, b.order, c),
+            asymmetric: in_file(&b.asymmetric, b.order, c),
+        })
+    });
+    Ok(Readings { orders, broken })
+}
+
+/// Every order as a numerical polynomial in g^2 at `prec` bits: the numeric
+/// entries read from their text, the exact ones evaluated.
+fn numeric_series(data: &OriginData, prec: u32) -> Result<Vec<NumPoly>> {
+    let file = &data.file;
+    let mut out = Vec::with_capacity(data.series.order() + 1);
+    for (k, exact) in data.series.coeffs().iter().enumerate() {
+        let entry = file.orders.iter().find(|o| o.loop_order as usize == k);
+        let poly = match entry.and_then(numeric_source) {
+            Some(located) => {
+                let p = originnum::read_polynomial(located, &file.origin, &data.logs, prec)?;
+                p.scale(&to_g2(k, file.coupling).evaluate(prec)?)
+            }
+            None => NumPoly::from_exact(exact, &data.logs, prec).map_err(|e| e.context(&file.origin))?,
+        };
+        out.push(poly);
+    }
+    Ok(out)
+}
+
+fn numeric_readings(data: &OriginData, cusp: Option<&Series>, digits: u32) -> Result<Readings> {
+    let prec = working_bits(digits);
+    let series = numeric_series(data, prec)?;
+    let analysis = match cusp {
+        None => originnum::analyse_e(&series, &data.logs, digits),
+        Some(cusp) => originnum::analyse_r6(&series, cusp, &data.logs, digits),
+    }
+    .map_err(|e| e.context(&data.file.origin))?;
+    let c = data.file.coupling;
+    let back = |k: usize| -> Result<rug::Float> { in_file(&Exact::one(), k, c).evaluate(prec) };
+    let mut orders = Vec::new();
+    for r in &analysis.orders {
+        let f = back(r.order)?;
+        let at = |a: &Approx| Reading::Number(originnum::scaled(a, &f));
+        orders.push((r.order, at(&r.octagon), r.hexagon.as_ref().map(at), at(&r.linear), at(&r.constant)));
+    }
+    let broken = match analysis.broken {
+        None => None,
+        Some(b) => {
+            let f = back(b.order)?;
+            let terms = |ts: &[NumTerm]| -> Vec<NumTerm> {
+                ts.iter().map(|t| NumTerm { exponents: t.exponents, coefficient: originnum::scaled(&t.coefficient, &f) }).collect()
+            };
+            Some(Broken::Numeric(NumBreakdown { order: b.order, high_degree: terms(&b.high_degree), asymmetric: terms(&b.asymmetric) }))
+        }
+    };
+    Ok(Readings { orders, broken })
+}
+
 /// Runs the exponentiation check and judges every reading.
 pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Result<OriginCheck> {
     let file = &data.file;
     let top = data.series.order();
     let reach = (top as u32).clamp(1, MAX_LOOPS);
-    let analysis = match data.normalisation {
-        Normalisation::E => origin::analyse_e(&data.series, &data.logs),
+    let cusp = match data.normalisation {
+        Normalisation::E => None,
         Normalisation::R6 => {
             if top as u32 > MAX_LOOPS {
                 return Err(Error::range(format!(
@@ -251,11 +411,14 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
                     file.origin
                 )));
             }
-            let cusp = kernel::gamma(&kernel::Tilt::cos2(rug::Rational::from((1, 2)))?, reach, &mut |_, _| {})?;
-            origin::analyse_r6(&data.series, &cusp, &data.logs)
+            Some(kernel::gamma(&kernel::Tilt::cos2(rug::Rational::from((1, 2)))?, reach, &mut |_, _| {})?)
         }
-    }
-    .map_err(|e| e.context(&file.origin))?;
+    };
+    let readings = if data.numeric.is_empty() {
+        exact_readings(data, cusp.as_ref())?
+    } else {
+        numeric_readings(data, cusp.as_ref(), digits)?
+    };
     let predicted = origin::predicted_log_coefficients(reach)?;
     let formula = match &file.prediction {
         None => None,
@@ -270,13 +433,11 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
     let c = file.coupling;
     let predicted_at = |s: &Series, k: usize| (k <= s.order()).then(|| in_file(s.coeff(k), k, c));
     let mut rows = Vec::new();
-    for r in &analysis.orders {
-        let k = r.order;
-        let hexagon = match &r.hexagon {
-            HexagonSlot::Value(v) => HexagonCell::Judged(Judged::new(in_file(v, k, c), predicted_at(&predicted.hexagon, k), digits)?),
-            HexagonSlot::NotTestableOnLine => HexagonCell::NotTestableOnLine,
+    for (k, octagon, hexagon, linear, constant) in readings.orders {
+        let hexagon = match hexagon {
+            Some(v) => HexagonCell::Judged(Judged::new(v, predicted_at(&predicted.hexagon, k), digits)?),
+            None => HexagonCell::NotTestableOnLine,
         };
-        let constant = in_file(&r.constant, k, c);
         let one_loop = (k == 1).then(|| in_file(&origin::one_loop_constant(), 1, c));
         let formula_cell = match &formula {
             Some((_, s)) => Some(Judged::new(constant.clone(), predicted_at(s, k), digits)?),
@@ -284,18 +445,13 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
         };
         rows.push(OriginRow {
             loop_order: k as u32,
-            octagon: Judged::new(in_file(&r.octagon, k, c), predicted_at(&predicted.octagon, k), digits)?,
+            octagon: Judged::new(octagon, predicted_at(&predicted.octagon, k), digits)?,
             hexagon,
-            linear: Judged::new(in_file(&r.linear, k, c), Some(Exact::zero()), digits)?,
+            linear: Judged::new(linear, Some(Exact::zero()), digits)?,
             constant: Judged::new(constant, one_loop, digits)?,
             formula: formula_cell,
         });
     }
-    let broken = analysis.broken.map(|b| Breakdown {
-        order: b.order,
-        high_degree: in_file(&b.high_degree, b.order, c),
-        asymmetric: in_file(&b.asymmetric, b.order, c),
-    });
     Ok(OriginCheck {
         file: file.origin.clone(),
         about: file.about.clone(),
@@ -304,11 +460,12 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
         logs: data.logs.clone(),
         highest: top as u32,
         rows,
-        broken,
+        broken: readings.broken,
         formula: formula.map(|(f, _)| f),
         octagon_entry: catalogue.get("octagon").cloned(),
         hexagon_entry: catalogue.get("hexagon").cloned(),
         digits,
+        numeric: data.numeric.clone(),
     })
 }
 
@@ -319,6 +476,9 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
 pub fn fit_target(file: &SeriesFile) -> Result<Vec<(u32, Exact)>> {
     let mut out = Vec::new();
     for entry in &file.orders {
+        if let Some(located) = numeric_source(entry) {
+            return Err(refuse_numbers(file, entry, located));
+        }
         let x = exact_coefficient(file, entry)?;
         if let Some((m, _)) = x.terms().find(|(m, _)| !m.symbols().is_empty()) {
             return Err(Error::input(format!(
@@ -336,6 +496,33 @@ pub fn fit_target(file: &SeriesFile) -> Result<Vec<(u32, Exact)>> {
         out.push((entry.loop_order, Series::new(coeffs).from_coupling(file.coupling).coeff(k).clone()));
     }
     Ok(out)
+}
+
+/// Why a fit takes no decimals, pointing at the first number outside the
+/// exact ring (or at the `value` given alone).
+fn refuse_numbers(file: &SeriesFile, entry: &OrderEntry, located: &Located) -> Error {
+    fn first_inexact(e: &crate::expr::Expr) -> Option<crate::expr::Span> {
+        use crate::expr::Node;
+        match &e.node {
+            Node::Decimal { .. } | Node::Catalan | Node::Log(_) => Some(e.span),
+            Node::Zeta(args) if args.len() > 1 => Some(e.span),
+            Node::Neg(a) => first_inexact(a),
+            Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+                first_inexact(a).or_else(|| first_inexact(b))
+            }
+            _ => None,
+        }
+    }
+    let message = format!(
+        "`loopwise fit` needs exact coefficients (loop {}): it solves for rational coefficients of the basis, \
+         which a decimal cannot fix; write the coefficient exactly (fractions, pi, zeta values), or read numerical \
+         data with `loopwise origin`",
+        entry.loop_order
+    );
+    match first_inexact(&located.expr) {
+        Some(span) => located.error_at(&file.origin, span, &message),
+        None => Error::input(format!("{}: line {}: {message}", file.origin, located.line)),
+    }
 }
 
 /// Reads `--basis "NAME=FORMULA; FORMULA; ..."`: elements separated by `;`,

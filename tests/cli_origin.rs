@@ -11,7 +11,9 @@ use common::loopwise;
 
 use loopwise::ring::{EvenStyle, Exact, Notation};
 use loopwise::series::Series;
-use rug::Rational;
+use rug::float::Constant;
+use rug::ops::Pow;
+use rug::{Float, Rational};
 
 
 fn write(name: &str, text: &str) -> PathBuf {
@@ -252,6 +254,8 @@ fn json_shape() {
     let (code, out, _) = loopwise(&["origin", path.to_str().unwrap(), "--format", "yaml"]);
     assert_eq!(code, 0);
     assert!(out.contains("exponentiates: true"), "{out}");
+    // An exact file is read exactly and says nothing about numbers.
+    assert!(v.get("numeric_orders").is_none() && v["orders"][0]["octagon"].get("uncertainty").is_none(), "{v}");
 }
 
 #[test]
@@ -272,7 +276,7 @@ fn unusable_input_exits_two_naming_file_and_line() {
         &["no-normalisation.yaml", "normalisation"],
     );
     bad("mixed.yaml", &origin_file("E", "g2", "[l1, l2, l3, l]", &[(1, "l".into())]), &["line 3 of", "mixed.yaml"]);
-    bad("numbers.yaml", &origin_file("E", "g2", "[l]", &[(1, "1.5*l^2".into())]), &["numbers.yaml:6:", "not exact"]);
+    bad("numbers.yaml", &origin_file("E", "g2", "[l]", &[(1, "1.5*l^2 + log(l)".into())]), &["numbers.yaml:6:", "polynomial in the logs"]);
     bad("gap.yaml", &origin_file("E", "g2", "[l]", &[(2, "l^2".into())]), &["loop order 1 is missing"]);
     bad("not-one.yaml", "normalisation: R6\ncoupling: g2\nsymbols: [l]\norders:\n  - loop: 1\n    exact: \"1\"\n  - loop: 0\n    exact: \"1\"\n", &["outside"]);
     let (code, _, err) = loopwise(&["origin", "/nonexistent/origin.yaml"]);
@@ -350,4 +354,230 @@ fn fit_recovers_a_known_combination_and_refuses_an_impossible_one() {
     let (code, _, err) = loopwise(&["fit", path.to_str().unwrap()]);
     assert_eq!(code, 2);
     assert!(err.contains("line 4") && err.contains("`l`"), "{err}");
+}
+
+// ---------------------------------------------------------------------------
+// Files written with decimals: the numerical path.
+
+const PREC: u32 = 200;
+
+fn float(s: &serde_json::Value) -> Float {
+    let text = s.as_str().unwrap_or_else(|| panic!("not a string: {s}"));
+    Float::with_val(PREC, Float::parse(text).unwrap_or_else(|e| panic!("{text}: {e}")))
+}
+
+fn pi_power(n: i32) -> Float {
+    Float::with_val(PREC, Constant::Pi).pow(n)
+}
+
+/// A numerical reading within three of its uncertainties of `reference`.
+fn within(cell: &serde_json::Value, reference: &Float) {
+    let value = float(&cell["supplied_value"]);
+    let u = float(&cell["uncertainty"]);
+    let gap = Float::with_val(PREC, &value - reference).abs();
+    // The shown value is rounded to 20 digits, hence the relative 1e-19 on top.
+    let room = Float::with_val(PREC, &u * 3u32) + Float::with_val(PREC, reference.abs_ref()) * 1e-19;
+    assert!(gap <= room, "{cell}: {value} against {reference}");
+}
+
+/// A numerical cell: verdict agrees-numerically and the value within three
+/// of its uncertainties of `reference`.
+fn agrees_with(cell: &serde_json::Value, reference: &Float) {
+    assert_eq!(cell["verdict"], "agrees-numerically", "{cell}");
+    within(cell, reference);
+}
+
+/// zeta(2) = pi^2/6 = 1.6449340668482264365 (A&S 23.2.24) rounded at ten
+/// decimals, with an uncertainty of one in the last digit.
+const ZETA2_DECIMAL: &str = "1.6449340668(1)";
+/// 77/4 zeta(4) - 6 zeta(2)^2 = 4.5998737432723373139... (mpmath 1.3.0,
+/// mp.dps = 40), rounded at twelve decimals, one in the last digit.
+const R6_CONSTANT_DECIMAL: &str = "4.599873743272(1)";
+/// C0 through two loops, -3 zeta(2) (A&S 27.7) and 77/4 zeta(4)
+/// (arXiv:1006.5703 as given in physics.md section 6), as a C0 formula.
+const C0_THROUGH_TWO_LOOPS: &str = "-3*zeta(2)*g^2 + 77/4*zeta(4)*g^4";
+
+fn numeric_two_loop_r6(constant: &str) -> String {
+    let mut text = format!("prediction: \"{C0_THROUGH_TWO_LOOPS}\"\n");
+    let r6 = format!("{ZETA2_DECIMAL}*(l1*l2 + l2*l3 + l3*l1) + {constant}");
+    text.push_str(&origin_file("R6", "g2", "[l1, l2, l3]", &[(2, r6)]));
+    text
+}
+
+/// The two-loop R6 of physics.md section 6 in decimals passes the double-log
+/// checks numerically (octagon 2/3 zeta(2) = pi^2/9, hexagon 1/6 zeta(2) =
+/// pi^2/36, zeta(2) = pi^2/6 by A&S 23.2.24), and C0^(2) = 77/4 zeta(4) =
+/// 77 pi^4/360 = 20.8347222489... (zeta(4) = pi^4/90, A&S 23.2.24; computed
+/// here with MPFR's pi), with the stated 1e-12 of the constant carried over.
+#[test]
+fn numerical_two_loop_remainder_function() {
+    let (code, v) = run_json("origin", "num-two-loop.yaml", &numeric_two_loop_r6(R6_CONSTANT_DECIMAL), &[]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["numeric_orders"], serde_json::json!([2]));
+    assert_eq!(v["exponentiates"], true);
+    let o = &v["orders"][1];
+    agrees_with(&o["octagon"], &(pi_power(2) / 9u32));
+    agrees_with(&o["hexagon"], &(pi_power(2) / 36u32));
+    agrees_with(&o["linear"], &Float::with_val(PREC, 0));
+    let c0 = pi_power(4) * 77u32 / 360u32;
+    agrees_with(&o["constant_formula"], &c0);
+    assert_eq!(o["constant"]["verdict"], "not-predicted");
+    assert_eq!(o["octagon"]["uncertainty_stated"], true);
+    // Only the constant's own uncertainty reaches C0 (the zeta(2)^2 of the
+    // cusp term is exact), so C0 = 20.8347222489391(10).
+    assert_eq!(o["constant"]["uncertainty"], "1.00e-12");
+    assert_eq!(o["constant"]["supplied"], "20.8347222489391(10)");
+    // The octagon takes (A + B)/3 with B = the l1 l2 coefficient: 1e-10/3.
+    // (The JSON shows uncertainties to three digits.)
+    assert_eq!(o["octagon"]["uncertainty"], "3.33e-11");
+    // One loop has no decimals: exact readings, no uncertainty, -3 zeta(2) = -pi^2/2.
+    agrees_with(&v["orders"][0]["constant"], &(-pi_power(2) / 2u32));
+    assert_eq!(v["orders"][0]["constant"]["uncertainty"], "0");
+
+    let path = write("num-two-loop.yaml", &numeric_two_loop_r6(R6_CONSTANT_DECIMAL));
+    let (code, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    assert_eq!(code, 0);
+    assert!(out.contains("C0 20.8347222489391(10)"), "{out}");
+    assert!(out.contains("read numerically: order 2 is written with numbers") && out.contains("worst case"), "{out}");
+    assert!(out.contains("summary: orders 1-2 agree"), "{out}");
+}
+
+/// A wrong decimal at one order: the constant 1e-6 too large (the fifth
+/// decimal 8 -> 9) differs by 1e-6, a million of its stated 1e-12.
+#[test]
+fn wrong_decimal_differs_in_units_of_sigma() {
+    let wrong = "4.599874743272(1)";
+    let (code, v) = run_json("origin", "num-wrong.yaml", &numeric_two_loop_r6(wrong), &[]);
+    assert_eq!(code, 1, "{v}");
+    let cell = &v["orders"][1]["constant_formula"];
+    assert_eq!(cell["verdict"], "differs-numerically", "{cell}");
+    // 4.599874743272 - 4.5998737432723373139 (mpmath above) = 9.99999662686e-7.
+    let sigmas = float(&cell["sigmas"]);
+    // Shown to four digits: 1.000e6.
+    assert!((999_500.0..=1_000_500.0).contains(&sigmas.to_f64()), "{cell}");
+    assert!((float(&cell["difference_value"]).to_f64() - 9.99999662686e-7).abs() < 1e-17, "{cell}");
+    // The double logs do not see the constant.
+    assert_eq!(v["orders"][1]["octagon"]["verdict"], "agrees-numerically");
+    assert_eq!(v["summary"], "order 1 agrees, order 2 differs");
+    let path = write("num-wrong.yaml", &numeric_two_loop_r6(wrong));
+    let (_, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    assert!(out.contains("L=2 C0 formula: supplied 20.8347232489391(10)") && out.contains("= 1.00e6 sigma"), "{out}");
+}
+
+/// E of `predicted_e` (exact, closed forms above) with a numerical term
+/// added to one order: exact and numerical orders mixed in one file.
+fn with_numeric_term(order: usize, term: &str) -> String {
+    let e = predicted_e();
+    let orders: Vec<(u32, String)> = (1..=e.order())
+        .map(|k| {
+            let exact = e.coeff(k).format(EvenStyle::Zeta, Notation::Text);
+            (k as u32, if k == order { format!("{exact} + {term}") } else { exact })
+        })
+        .collect();
+    origin_file("E", "g2", "[l1, l2, l3]", &orders)
+}
+
+/// 0.05(1) l1^2 l2 added to E^(k) appears as that term of ln E^(k) (the
+/// orders below are unchanged), 5 sigma from zero: exponentiation breaks
+/// at exactly that order, the orders below agree.
+#[test]
+fn numerical_cubic_term_beyond_its_uncertainty_breaks_that_order() {
+    for k in [2usize, 3] {
+        let (code, v) = run_json("origin", "num-cubic.yaml", &with_numeric_term(k, "0.05(1)*l1^2*l2"), &[]);
+        assert_eq!(code, 1, "{v}");
+        assert_eq!(v["numeric_orders"], serde_json::json!([k]));
+        assert_eq!(v["exponentiates"], false);
+        assert_eq!(v["broken"]["loop"], k);
+        let terms = v["broken"]["terms"].as_array().unwrap();
+        assert_eq!(terms.len(), 1, "{v}");
+        assert_eq!(terms[0]["part"], "high-degree");
+        assert_eq!(terms[0]["monomial"], "l1^2*l2");
+        assert!((float(&terms[0]["sigmas"]).to_f64() - 5.0).abs() < 1e-12, "{v}");
+        for o in &v["orders"].as_array().unwrap()[..k - 1] {
+            assert_eq!(o["exponentiation"], "holds");
+            assert_eq!(o["octagon"]["verdict"], "agrees-numerically");
+            assert_eq!(o["hexagon"]["verdict"], "agrees-numerically");
+        }
+        let expect = if k == 2 {
+            "order 1 agrees, order 2 breaks exponentiation, order 3 not examined"
+        } else {
+            "orders 1-2 agree, order 3 breaks exponentiation"
+        };
+        assert_eq!(v["summary"], expect);
+    }
+    let path = write("num-cubic.yaml", &with_numeric_term(2, "0.05(1)*l1^2*l2"));
+    let (_, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    assert!(out.contains("terms of degree > 2 in the logs: 0.050(10)*l1^2*l2 (5.00 sigma)"), "{out}");
+}
+
+/// 0.00002(1) l1^2 l2 is 2 sigma from zero: within 3 sigma, so order 2
+/// exponentiates, and the products it leaves in ln E^(3) stay within their
+/// propagated uncertainties; the octagon at three loops still reads
+/// -Gamma_oct^(3)/24 = -256 zeta(4)/24 = -32 pi^4/270 (closed form above,
+/// zeta(4) = pi^4/90 by A&S 23.2.24).
+#[test]
+fn tiny_numerical_cubic_term_within_its_uncertainty_does_not_break() {
+    let (code, v) = run_json("origin", "num-tiny.yaml", &with_numeric_term(2, "0.00002(1)*l1^2*l2"), &[]);
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["exponentiates"], true);
+    assert_eq!(v["orders"].as_array().unwrap().len(), 3);
+    agrees_with(&v["orders"][2]["octagon"], &(-pi_power(4) * 32u32 / 270u32));
+    agrees_with(&v["orders"][2]["hexagon"], &(-pi_power(4) * 34u32 / (24u32 * 90u32)));
+    // The made-up constant of predicted_e at two loops, 5/2 zeta(4) = pi^4/36, is read back.
+    let c = &v["orders"][1]["constant"];
+    assert_eq!(c["verdict"], "not-predicted");
+    within(c, &(pi_power(4) / 36u32));
+}
+
+/// One loop in decimals: -0.5 l_i^2 (an implied rounding bound of 0.05) and
+/// -3 zeta(2) = -pi^2/2 = -4.934802200544679(1) (A&S 23.2.24): the
+/// octagon and hexagon read -1/6 (by hand, as in the exact test above)
+/// within 0.05/3, and C0 -pi^2/2 within its stated 1e-15.
+#[test]
+fn one_loop_in_decimals() {
+    let c = "-0.5*(l1^2 + l2^2 + l3^2) - 4.934802200544679(1)";
+    let (code, v) = run_json("origin", "num-one-loop.yaml", &origin_file("E", "g2", "[l1, l2, l3]", &[(1, c.into())]), &[]);
+    assert_eq!(code, 0, "{v}");
+    let o = &v["orders"][0];
+    let sixth = Float::with_val(PREC, -1) / 6u32;
+    agrees_with(&o["octagon"], &sixth);
+    agrees_with(&o["hexagon"], &sixth);
+    assert_eq!(o["octagon"]["supplied"], "-0.167(17)");
+    assert_eq!(o["octagon"]["uncertainty_stated"], false);
+    agrees_with(&o["constant"], &(-pi_power(2) / 2u32));
+    agrees_with(&o["linear"], &Float::with_val(PREC, 0));
+    // C0 off by 1e-12 is 1000 of its stated 1e-15.
+    let c = "-0.5*(l1^2 + l2^2 + l3^2) - 4.934802200545679(1)";
+    let (code, v) = run_json("origin", "num-one-loop-wrong.yaml", &origin_file("E", "g2", "[l1, l2, l3]", &[(1, c.into())]), &[]);
+    assert_eq!(code, 1, "{v}");
+    assert_eq!(v["orders"][0]["constant"]["verdict"], "differs-numerically");
+    assert!((float(&v["orders"][0]["constant"]["sigmas"]).to_f64() - 1000.0).abs() < 1.0, "{v}");
+}
+
+/// The two-loop R6 on the line in decimals, 3 zeta(2) l^2 = 4.934802200545(1) l^2
+/// (A&S 23.2.24): the octagon reads 2/3 zeta(2) = pi^2/9; a `value:` entry
+/// alone is read numerically too.
+#[test]
+fn numerical_line_and_value_entries() {
+    let text = format!(
+        "normalisation: R6\ncoupling: g2\nsymbols: [l]\norders:\n  - loop: 2\n    value: \"4.934802200545(1)*l^2 + {R6_CONSTANT_DECIMAL}\"\n"
+    );
+    let (code, v) = run_json("origin", "num-line.yaml", &text, &[]);
+    assert_eq!(code, 0, "{v}");
+    agrees_with(&v["orders"][1]["octagon"], &(pi_power(2) / 9u32));
+    assert_eq!(v["orders"][1]["hexagon"]["verdict"], "not-testable-on-line");
+}
+
+/// `loopwise fit` solves for rational coefficients and keeps refusing
+/// decimals, pointing at the number.
+#[test]
+fn fit_refuses_decimals() {
+    let path = write("c0-decimal.yaml", &c0_file(&[(1, "-4.934802200544679")]));
+    let (code, out, err) = loopwise(&["fit", path.to_str().unwrap()]);
+    assert_eq!(code, 2, "{out}");
+    assert!(err.contains("c0-decimal.yaml:4:") && err.contains("needs exact coefficients"), "{err}");
+    let path = write("c0-value.yaml", "coupling: g2\norders:\n  - loop: 1\n    value: -4.93480220054(1)\n");
+    let (code, _, err) = loopwise(&["fit", path.to_str().unwrap()]);
+    assert_eq!(code, 2);
+    assert!(err.contains("needs exact coefficients"), "{err}");
 }

@@ -24,12 +24,14 @@ const DEFAULT_CEILING: u32 = 12;
 
 #[derive(ClapArgs, Debug)]
 pub struct OriginArgs {
-    /// A series file with `normalisation: E` or `R6` and `symbols: [l1, l2, l3]` or `[l]`.
+    /// A series file with `normalisation: E` or `R6` and `symbols: [l1, l2, l3]` or `[l]`;
+    /// coefficients exact, or with decimals (then the whole file is read numerically).
     pub file: PathBuf,
     /// Output format.
     #[arg(long, value_enum, default_value = "text")]
     pub format: DataFormatArg,
-    /// Working decimal digits of the numerical size of differences.
+    /// Working decimal digits: of the numerical size of differences, and of the
+    /// whole analysis when the file is read numerically.
     #[arg(long, default_value_t = 30)]
     pub digits: u32,
     /// Write even zeta values as zeta(2n) or as powers of pi.
@@ -39,7 +41,7 @@ pub struct OriginArgs {
 
 #[derive(ClapArgs, Debug)]
 pub struct FitArgs {
-    /// A series file whose `orders` hold exact coefficients (no symbols).
+    /// A series file whose `orders` hold exact coefficients (no symbols, no decimals).
     pub file: PathBuf,
     /// Basis elements separated by `;`, each `NAME=FORMULA` or a bare formula;
     /// default: Gamma, Delta and zeta(2)*Gamma at the tilts 0, pi/6, pi/4, pi/3, pi/2.

@@ -2,7 +2,9 @@
 //! status and the verdicts on the octagon and hexagon coefficients, the
 //! linear term and the constant, then the readings, the differences, where
 //! exponentiation breaks, a summary line and notes; as text for people or
-//! JSON/YAML for pipelines (the same content either way).
+//! JSON/YAML for pipelines (the same content either way). A file read
+//! numerically shows its readings as numbers with their propagated
+//! uncertainties, `20.834722249(13)`.
 
 use serde::Serialize;
 
@@ -10,11 +12,54 @@ use super::{decimal, Format};
 use crate::catalogue::{Entry, Status};
 use crate::compare::Verdict;
 use crate::error::{Error, Result};
-use crate::origincheck::{HexagonCell, Judged, OriginCheck};
+use crate::expr::numeric::Approx;
+use crate::origin::OriginLogs;
+use crate::origincheck::{Broken, HexagonCell, Judged, OriginCheck, Reading};
+use crate::originnum::{monomial_text, written, NumTerm};
 use crate::ring::{EvenStyle, Exact, Notation};
 
 fn show(x: &Exact, even: EvenStyle) -> String {
     x.format(even, Notation::Text)
+}
+
+/// Significant digits of numbers shown without an uncertainty.
+const SHOWN_DIGITS: u32 = 20;
+
+fn show_reading(r: &Reading, even: EvenStyle, digits: u32) -> String {
+    match r {
+        Reading::Exact(x) => show(x, even),
+        Reading::Number(a) => written(a, digits.min(SHOWN_DIGITS)),
+    }
+}
+
+/// |value| / uncertainty, when there is an uncertainty.
+fn sigmas_of(a: &Approx) -> Option<rug::Float> {
+    (!a.uncertainty.is_zero()).then(|| rug::Float::with_val(a.value.prec(), a.value.abs_ref()) / &a.uncertainty)
+}
+
+/// One term that breaks exponentiation, with how far it is from zero.
+fn term_text(t: &NumTerm, logs: &OriginLogs, digits: u32) -> String {
+    let size = match sigmas_of(&t.coefficient) {
+        Some(s) if t.coefficient.stated => format!("{} sigma", decimal(&s, 3)),
+        Some(s) => format!("{} times its rounding bound", decimal(&s, 3)),
+        None => "beyond the working precision".to_string(),
+    };
+    format!("{}*{} ({size})", written(&t.coefficient, digits.min(SHOWN_DIGITS)), monomial_text(t.exponents, logs))
+}
+
+/// The high-degree and asymmetric parts of a break, as text.
+fn break_parts(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> (String, String) {
+    let terms = |ts: &[NumTerm]| {
+        if ts.is_empty() {
+            "0".to_string()
+        } else {
+            ts.iter().map(|t| term_text(t, logs, digits)).collect::<Vec<_>>().join(" + ").replace("+ -", "- ")
+        }
+    };
+    match b {
+        Broken::Exact(b) => (show(&b.high_degree, even), show(&b.asymmetric, even)),
+        Broken::Numeric(b) => (terms(&b.high_degree), terms(&b.asymmetric)),
+    }
 }
 
 #[derive(Serialize)]
@@ -26,21 +71,68 @@ struct JsonCell {
     difference: Option<String>,
     #[serde(skip_serializing_if = "Option::is_none")]
     difference_value: Option<String>,
+    /// For numerical readings: the value, its uncertainty and whether that
+    /// came from uncertainties the file states.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    supplied_value: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    uncertainty: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    uncertainty_stated: Option<bool>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    predicted_value: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    digits_agreeing: Option<u32>,
+    /// |supplied - predicted| in units of the uncertainty.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    sigmas: Option<String>,
 }
 
-fn cell(j: &Judged, even: EvenStyle) -> JsonCell {
-    let (difference, difference_value) = match &j.verdict {
-        Verdict::DiffersExactly { difference, size } => (Some(show(difference, even)), Some(decimal(size, 20))),
-        Verdict::DiffersNumerically { difference, .. } => (None, Some(decimal(difference, 20))),
-        _ => (None, None),
-    };
-    JsonCell {
-        verdict: j.verdict.name(),
-        supplied: Some(show(&j.supplied, even)),
-        predicted: j.predicted.as_ref().map(|p| show(p, even)),
-        difference,
-        difference_value,
+impl JsonCell {
+    fn empty(verdict: &'static str) -> Self {
+        JsonCell {
+            verdict,
+            supplied: None,
+            predicted: None,
+            difference: None,
+            difference_value: None,
+            supplied_value: None,
+            uncertainty: None,
+            uncertainty_stated: None,
+            predicted_value: None,
+            digits_agreeing: None,
+            sigmas: None,
+        }
     }
+}
+
+fn cell(j: &Judged, even: EvenStyle, digits: u32) -> JsonCell {
+    let mut out = JsonCell::empty(j.verdict.name());
+    out.supplied = Some(show_reading(&j.supplied, even, digits));
+    out.predicted = j.predicted.as_ref().map(|p| show(p, even));
+    match &j.verdict {
+        Verdict::DiffersExactly { difference, size } => {
+            out.difference = Some(show(difference, even));
+            out.difference_value = Some(decimal(size, 20));
+        }
+        Verdict::DiffersNumerically { difference, sigmas, digits } => {
+            out.difference_value = Some(decimal(difference, 20));
+            out.sigmas = sigmas.as_ref().map(|s| decimal(s, 4));
+            out.digits_agreeing = Some(*digits);
+        }
+        Verdict::AgreesNumerically { digits, sigmas } => {
+            out.sigmas = sigmas.as_ref().map(|s| decimal(s, 4));
+            out.digits_agreeing = Some(*digits);
+        }
+        _ => {}
+    }
+    if let Reading::Number(a) = &j.supplied {
+        out.supplied_value = Some(decimal(&a.value, digits.min(SHOWN_DIGITS)));
+        out.uncertainty = Some(decimal(&a.uncertainty, 3));
+        out.uncertainty_stated = Some(a.stated);
+        out.predicted_value = j.predicted.as_ref().and_then(|p| p.evaluate(a.value.prec()).ok()).map(|v| decimal(&v, 20));
+    }
+    out
 }
 
 #[derive(Serialize)]
@@ -63,6 +155,39 @@ struct JsonBreak {
     loop_order: u32,
     high_degree: String,
     asymmetric: String,
+    /// For a file read numerically: each term found nonzero.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    terms: Vec<JsonTerm>,
+}
+
+#[derive(Serialize)]
+struct JsonTerm {
+    /// high-degree | asymmetric
+    part: &'static str,
+    monomial: String,
+    value: String,
+    uncertainty: String,
+    uncertainty_stated: bool,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    sigmas: Option<String>,
+}
+
+fn json_break(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> JsonBreak {
+    let (high_degree, asymmetric) = break_parts(b, logs, even, digits);
+    let mut terms = Vec::new();
+    if let Broken::Numeric(n) = b {
+        for (part, ts) in [("high-degree", &n.high_degree), ("asymmetric", &n.asymmetric)] {
+            terms.extend(ts.iter().map(|t| JsonTerm {
+                part,
+                monomial: monomial_text(t.exponents, logs),
+                value: decimal(&t.coefficient.value, digits.min(SHOWN_DIGITS)),
+                uncertainty: decimal(&t.coefficient.uncertainty, 3),
+                uncertainty_stated: t.coefficient.stated,
+                sigmas: sigmas_of(&t.coefficient).map(|s| decimal(&s, 4)),
+            }));
+        }
+    }
+    JsonBreak { loop_order: b.order() as u32, high_degree, asymmetric, terms }
 }
 
 #[derive(Serialize)]
@@ -79,6 +204,9 @@ struct JsonReport {
     orders: Vec<JsonOrder>,
     summary: String,
     notes: Vec<String>,
+    /// The orders written with numbers; the analysis was numerical when any is.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    numeric_orders: Vec<u32>,
 }
 
 pub fn render(c: &OriginCheck, format: Format, even: EvenStyle) -> Result<String> {
@@ -95,33 +223,28 @@ pub fn render(c: &OriginCheck, format: Format, even: EvenStyle) -> Result<String
 }
 
 fn json(c: &OriginCheck, even: EvenStyle) -> JsonReport {
+    let d = c.digits;
     let mut orders: Vec<JsonOrder> = c
         .rows
         .iter()
         .map(|r| JsonOrder {
             loop_order: r.loop_order,
             exponentiation: "holds",
-            octagon: Some(cell(&r.octagon, even)),
+            octagon: Some(cell(&r.octagon, even, d)),
             hexagon: match &r.hexagon {
-                HexagonCell::Judged(j) => Some(cell(j, even)),
-                HexagonCell::NotTestableOnLine => Some(JsonCell {
-                    verdict: "not-testable-on-line",
-                    supplied: None,
-                    predicted: None,
-                    difference: None,
-                    difference_value: None,
-                }),
+                HexagonCell::Judged(j) => Some(cell(j, even, d)),
+                HexagonCell::NotTestableOnLine => Some(JsonCell::empty("not-testable-on-line")),
             },
-            linear: Some(cell(&r.linear, even)),
-            constant: Some(cell(&r.constant, even)),
-            constant_formula: r.formula.as_ref().map(|f| cell(f, even)),
+            linear: Some(cell(&r.linear, even, d)),
+            constant: Some(cell(&r.constant, even, d)),
+            constant_formula: r.formula.as_ref().map(|f| cell(f, even, d)),
         })
         .collect();
     if let Some(b) = &c.broken {
-        for l in b.order as u32..=c.highest {
+        for l in b.order() as u32..=c.highest {
             orders.push(JsonOrder {
                 loop_order: l,
-                exponentiation: if l == b.order as u32 { "broken" } else { "not-examined" },
+                exponentiation: if l == b.order() as u32 { "broken" } else { "not-examined" },
                 octagon: None,
                 hexagon: None,
                 linear: None,
@@ -138,15 +261,12 @@ fn json(c: &OriginCheck, even: EvenStyle) -> JsonReport {
         coupling: c.coupling.name(),
         c0_formula: c.formula.clone(),
         exponentiates: c.broken.is_none(),
-        broken: c.broken.as_ref().map(|b| JsonBreak {
-            loop_order: b.order as u32,
-            high_degree: show(&b.high_degree, even),
-            asymmetric: show(&b.asymmetric, even),
-        }),
+        broken: c.broken.as_ref().map(|b| json_break(b, &c.logs, even, d)),
         agrees: c.agrees(),
         orders,
         summary: c.summary(),
         notes: notes(c),
+        numeric_orders: c.numeric.clone(),
     }
 }
 
@@ -208,6 +328,24 @@ pub fn notes(c: &OriginCheck) -> Vec<String> {
     if c.normalisation == crate::seriesfile::Normalisation::R6 {
         out.push("R6 was read as ln E = R6 + Gamma_cusp/4 E^(1), with Gamma_cusp = Gamma(pi/4).".to_string());
     }
+    if c.is_numeric() {
+        let orders: Vec<String> = c.numeric.iter().map(u32::to_string).collect();
+        let which = match orders.as_slice() {
+            [one] => format!("order {one} is"),
+            _ => format!("orders {} are", orders.join(", ")),
+        };
+        out.push(format!(
+            "read numerically: {which} written with numbers outside the exact ring, so every order was taken \
+             as a polynomial in the logs with numerical coefficients at {} digits (exact ones without uncertainty). \
+             Uncertainties are those written ((1), ±) or half a unit in the last written digit, propagated to first \
+             order in the worst case (|a| u_b + |b| u_a for products, sums for sums) through ln E; readings are \
+             shown as value(uncertainty in the last digits). As in `check`, a reading agrees within 3 sigma of a \
+             stated uncertainty, within the rounding bound of an implied one, or to the working precision without \
+             one, and a term of degree > 2 or an asymmetric part breaks exponentiation only when it is nonzero by \
+             the same rule.",
+            c.digits
+        ));
+    }
     out
 }
 
@@ -264,12 +402,12 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
         out.push('\n');
     }
     if let Some(b) = &c.broken {
-        out.push_str(&format!("{:>4}  NO (see below)\n", b.order));
-        if c.highest > b.order as u32 {
-            let rest = if c.highest == b.order as u32 + 1 {
+        out.push_str(&format!("{:>4}  NO (see below)\n", b.order()));
+        if c.highest > b.order() as u32 {
+            let rest = if c.highest == b.order() as u32 + 1 {
                 format!("{:>4}  not examined\n", c.highest)
             } else {
-                format!("{:>4}  not examined (orders {}-{})\n", "", b.order + 1, c.highest)
+                format!("{:>4}  not examined (orders {}-{})\n", "", b.order() + 1, c.highest)
             };
             out.push_str(&rest);
         }
@@ -279,17 +417,17 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
         out.push_str("\nreadings:\n");
         for r in &c.rows {
             let hex = match &r.hexagon {
-                HexagonCell::Judged(j) => show(&j.supplied, even),
+                HexagonCell::Judged(j) => show_reading(&j.supplied, even, c.digits),
                 HexagonCell::NotTestableOnLine => "n/a".to_string(),
             };
             let mut line = format!(
                 "L={}: octagon {}; hexagon {hex}; C0 {}",
                 r.loop_order,
-                show(&r.octagon.supplied, even),
-                show(&r.constant.supplied, even)
+                show_reading(&r.octagon.supplied, even, c.digits),
+                show_reading(&r.constant.supplied, even, c.digits)
             );
             if !r.linear.supplied.is_zero() {
-                line.push_str(&format!("; linear {}", show(&r.linear.supplied, even)));
+                line.push_str(&format!("; linear {}", show_reading(&r.linear.supplied, even, c.digits)));
             }
             out.push_str(&indent(&super::wrap(&line, 84)));
         }
@@ -307,15 +445,29 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
             cells.push(("C0 formula", f));
         }
         for (name, j) in cells {
-            if let Verdict::DiffersExactly { difference, size } = &j.verdict {
-                let predicted = j.predicted.as_ref().map_or(String::new(), |p| show(p, even));
-                differences.push(format!(
-                    "L={} {name}: supplied {}, predicted {predicted}; supplied - predicted = {} = {}",
+            let predicted = j.predicted.as_ref().map_or(String::new(), |p| show(p, even));
+            let supplied = show_reading(&j.supplied, even, c.digits);
+            match &j.verdict {
+                Verdict::DiffersExactly { difference, size } => differences.push(format!(
+                    "L={} {name}: supplied {supplied}, predicted {predicted}; supplied - predicted = {} = {}",
                     r.loop_order,
-                    show(&j.supplied, even),
                     show(difference, even),
                     decimal(size, 6)
-                ));
+                )),
+                Verdict::DiffersNumerically { difference, sigmas, .. } => {
+                    let value = j
+                        .predicted
+                        .as_ref()
+                        .and_then(|p| p.evaluate(crate::compare::working_bits(c.digits)).ok())
+                        .map_or(String::new(), |v| format!(" = {}", decimal(&v, 12)));
+                    let s = sigmas.as_ref().map_or(String::new(), |s| format!(" = {} sigma", decimal(s, 3)));
+                    differences.push(format!(
+                        "L={} {name}: supplied {supplied}, predicted {predicted}{value}; supplied - predicted = {}{s}",
+                        r.loop_order,
+                        decimal(difference, 6)
+                    ));
+                }
+                _ => {}
             }
         }
     }
@@ -327,18 +479,23 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
     }
 
     if let Some(b) = &c.broken {
-        out.push_str(&format!("\nexponentiation breaks at order {}: ln E is not a symmetric polynomial of degree <= 2 there.\n", b.order));
-        if !b.high_degree.is_zero() {
-            out.push_str(&indent(&super::wrap(&format!("terms of degree > 2 in the logs: {}", show(&b.high_degree, even)), 84)));
+        let within = if c.is_numeric() { " (beyond the uncertainties)" } else { "" };
+        out.push_str(&format!(
+            "\nexponentiation breaks at order {}: ln E is not a symmetric polynomial of degree <= 2 there{within}.\n",
+            b.order()
+        ));
+        let (high_degree, asymmetric) = break_parts(b, &c.logs, even, c.digits);
+        if high_degree != "0" {
+            out.push_str(&indent(&super::wrap(&format!("terms of degree > 2 in the logs: {high_degree}"), 84)));
         }
-        if !b.asymmetric.is_zero() {
+        if asymmetric != "0" {
             out.push_str(&indent(&super::wrap(
-                &format!("part of degree <= 2 that is not symmetric in the logs: {}", show(&b.asymmetric, even)),
+                &format!("part of degree <= 2 that is not symmetric in the logs: {asymmetric}"),
                 84,
             )));
         }
-        if c.highest > b.order as u32 {
-            out.push_str(&indent(&format!("orders above {} are not compared.\n", b.order)));
+        if c.highest > b.order() as u32 {
+            out.push_str(&indent(&format!("orders above {} are not compared.\n", b.order())));
         }
     }
 

@@ -1,0 +1,644 @@
+//! Origin files with numerical coefficients: polynomials in the logs whose
+//! coefficients are numbers with an uncertainty ([`Approx`]), read from
+//! decimals such as `-0.16667(1)*l1^2 + 1.6449 l1 l2 - 4.93480220054(2)`,
+//! and the numerical counterpart of [`crate::origin`]: ln E order by order,
+//! the exponentiation check and the readings of the double-log coefficients,
+//! the linear term and C0.
+//!
+//! Uncertainties are those of [`crate::expr::numeric`]: written by the user
+//! or half a unit in the last written digit, propagated to first order in
+//! the worst case (|a| u_b + |b| u_a + u_a u_b for a product, sums for
+//! sums). A coefficient that is exact carries none. Whether a term that
+//! should vanish (degree > 2, or an asymmetric part) is nonzero is decided
+//! with [`crate::compare::judge_numbers`] against zero, so the criteria are
+//! those of `check`: beyond 3 sigma for a stated uncertainty, beyond the
+//! rounding bound for an implied one, beyond the working precision for none.
+
+use std::collections::{BTreeMap, BTreeSet};
+
+use rug::{Float, Integer, Rational};
+
+use crate::compare::judge_numbers;
+use crate::error::{Error, Result};
+use crate::expr::numeric::{self, Approx, Context};
+use crate::expr::{for_each_symbol, Expr, Node};
+use crate::origin::{one_loop_limit, OriginLogs};
+use crate::ring::Exact;
+use crate::series::Series;
+use crate::seriesfile::Located;
+
+/// Exponents of (l1, l2, l3); on the line only the first is used.
+pub type Exponents = [u32; 3];
+
+/// The highest power of a log a numerical coefficient may reach; far beyond
+/// any bootstrap output (degree 2L), and it keeps products from overflowing.
+const MAX_POWER: u32 = 1 << 16;
+
+/// Whether a coefficient needs numbers outside the exact ring: decimals,
+/// Catalan's constant, logarithms of numbers, multiple zeta values.
+pub fn needs_numbers(e: &Expr) -> bool {
+    match &e.node {
+        Node::Decimal { .. } | Node::Catalan | Node::Log(_) => true,
+        Node::Zeta(args) => args.len() > 1,
+        Node::Integer(_) | Node::Pi | Node::Symbol(_) | Node::Functional { .. } => false,
+        Node::Neg(a) => needs_numbers(a),
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+            needs_numbers(a) || needs_numbers(b)
+        }
+    }
+}
+
+fn zero(prec: u32) -> Approx {
+    Approx::exact(Float::with_val(prec, 0))
+}
+
+fn sum(x: &Approx, y: &Approx) -> Approx {
+    let p = x.value.prec().max(y.value.prec());
+    Approx {
+        value: Float::with_val(p, &x.value + &y.value),
+        uncertainty: Float::with_val(p, &x.uncertainty + &y.uncertainty),
+        stated: x.stated || y.stated,
+    }
+}
+
+fn negated(x: &Approx) -> Approx {
+    Approx { value: Float::with_val(x.value.prec(), -&x.value), ..x.clone() }
+}
+
+fn product(x: &Approx, y: &Approx) -> Approx {
+    let p = x.value.prec().max(y.value.prec());
+    let value = Float::with_val(p, &x.value * &y.value);
+    let u = Float::with_val(p, x.value.abs_ref()) * &y.uncertainty
+        + Float::with_val(p, y.value.abs_ref()) * &x.uncertainty
+        + Float::with_val(p, &x.uncertainty * &y.uncertainty);
+    Approx { value, uncertainty: u, stated: x.stated || y.stated }
+}
+
+/// `x` times an exact number.
+pub fn scaled(x: &Approx, factor: &Float) -> Approx {
+    let p = x.value.prec().max(factor.prec());
+    Approx {
+        value: Float::with_val(p, &x.value * factor),
+        uncertainty: Float::with_val(p, &x.uncertainty * factor).abs(),
+        stated: x.stated,
+    }
+}
+
+/// x / y to first order, worst case; y must be nonzero beyond its uncertainty.
+fn quotient(x: &Approx, y: &Approx) -> Approx {
+    let p = x.value.prec().max(y.value.prec());
+    let value = Float::with_val(p, &x.value / &y.value);
+    let ay = Float::with_val(p, y.value.abs_ref());
+    let spread = Float::with_val(p, &x.uncertainty * &ay) + Float::with_val(p, x.value.abs_ref()) * &y.uncertainty;
+    let denominator = Float::with_val(p, &ay * &ay) - Float::with_val(p, &ay * &y.uncertainty);
+    Approx { value, uncertainty: spread / denominator, stated: x.stated || y.stated }
+}
+
+/// A polynomial in the logs with numerical coefficients.
+#[derive(Clone, Debug)]
+pub struct NumPoly {
+    prec: u32,
+    terms: BTreeMap<Exponents, Approx>,
+}
+
+impl NumPoly {
+    pub fn zero(prec: u32) -> Self {
+        NumPoly { prec, terms: BTreeMap::new() }
+    }
+
+    pub fn constant(c: Approx) -> Self {
+        let mut p = NumPoly::zero(c.value.prec());
+        p.terms.insert([0, 0, 0], c);
+        p
+    }
+
+    /// The coefficient of one monomial; zero (exactly) when absent.
+    pub fn coefficient(&self, e: Exponents) -> Approx {
+        self.terms.get(&e).cloned().unwrap_or_else(|| zero(self.prec))
+    }
+
+    pub fn terms(&self) -> impl Iterator<Item = (&Exponents, &Approx)> {
+        self.terms.iter()
+    }
+
+    fn add_term(&mut self, e: Exponents, c: &Approx) {
+        let merged = match self.terms.get(&e) {
+            Some(old) => sum(old, c),
+            None => c.clone(),
+        };
+        self.terms.insert(e, merged);
+    }
+
+    pub fn add(&self, other: &NumPoly) -> NumPoly {
+        let mut out = self.clone();
+        for (e, c) in &other.terms {
+            out.add_term(*e, c);
+        }
+        out
+    }
+
+    pub fn neg(&self) -> NumPoly {
+        NumPoly { prec: self.prec, terms: self.terms.iter().map(|(e, c)| (*e, negated(c))).collect() }
+    }
+
+    pub fn scale(&self, factor: &Float) -> NumPoly {
+        NumPoly { prec: self.prec, terms: self.terms.iter().map(|(e, c)| (*e, scaled(c, factor))).collect() }
+    }
+
+    fn divide(&self, d: &Approx) -> NumPoly {
+        NumPoly { prec: self.prec, terms: self.terms.iter().map(|(e, c)| (*e, quotient(c, d))).collect() }
+    }
+
+    pub fn mul(&self, other: &NumPoly) -> Result<NumPoly> {
+        let mut out = NumPoly::zero(self.prec.max(other.prec));
+        for (ea, ca) in &self.terms {
+            for (eb, cb) in &other.terms {
+                let mut e = [0; 3];
+                for i in 0..3 {
+                    e[i] = ea[i] + eb[i];
+                    if e[i] > MAX_POWER {
+                        return Err(Error::range(format!("a power of a log above {MAX_POWER} in a numerical origin coefficient")));
+                    }
+                }
+                out.add_term(e, &product(ca, cb));
+            }
+        }
+        Ok(out)
+    }
+
+    fn pow(&self, k: u32) -> Result<NumPoly> {
+        let mut out = NumPoly::constant(Approx::exact(Float::with_val(self.prec, 1)));
+        for _ in 0..k {
+            out = out.mul(self)?;
+        }
+        Ok(out)
+    }
+
+    /// An exact polynomial in the logs, its transcendental coefficients
+    /// evaluated at `prec` bits (no uncertainty).
+    pub fn from_exact(x: &Exact, logs: &OriginLogs, prec: u32) -> Result<NumPoly> {
+        let names = logs.names();
+        let mut out = NumPoly::zero(prec);
+        for (m, c) in x.terms() {
+            let (rest, syms) = m.split_symbols();
+            let mut e = [0u32; 3];
+            for (name, power) in syms.symbols() {
+                let slot = names.iter().position(|n| **n == **name).ok_or_else(|| {
+                    Error::input(format!("'{name}' in an origin coefficient is not one of the logs ({})", names.join(", ")))
+                })?;
+                e[slot] = *power;
+            }
+            let value = Exact::term(c.clone(), rest).evaluate(prec)?;
+            out.add_term(e, &Approx::exact(value));
+        }
+        Ok(out)
+    }
+}
+
+/// Reads a coefficient written with numbers as a polynomial in the logs, at
+/// `prec` bits; errors name file, line and column.
+pub fn read_polynomial(located: &Located, origin: &str, logs: &OriginLogs, prec: u32) -> Result<NumPoly> {
+    Reader { located, origin, logs, prec }.poly(&located.expr)
+}
+
+struct Reader<'a> {
+    located: &'a Located,
+    origin: &'a str,
+    logs: &'a OriginLogs,
+    prec: u32,
+}
+
+fn has_symbol(e: &Expr) -> bool {
+    let mut found = false;
+    for_each_symbol(e, &mut |_, _| found = true);
+    found
+}
+
+impl Reader<'_> {
+    fn fail(&self, span: crate::expr::Span, message: &str) -> Error {
+        self.located.error_at(self.origin, span, message)
+    }
+
+    fn number(&self, e: &Expr) -> Result<Approx> {
+        let mut ctx = Context::new(self.prec);
+        let mzv = |s: &[u32], p: u32| crate::mzv::mzv(s, p);
+        ctx.mzv = Some(&mzv);
+        numeric::evaluate(e, &mut ctx).map_err(|(span, msg)| self.fail(span, &msg))
+    }
+
+    fn poly(&self, e: &Expr) -> Result<NumPoly> {
+        if !has_symbol(e) {
+            return Ok(NumPoly::constant(self.number(e)?));
+        }
+        match &e.node {
+            Node::Symbol(name) => {
+                let names = self.logs.names();
+                let slot = names.iter().position(|n| n == name).ok_or_else(|| {
+                    self.fail(e.span, &format!("the symbol `{name}` is not one of the logs ({})", names.join(", ")))
+                })?;
+                let mut exps = [0; 3];
+                exps[slot] = 1;
+                let mut p = NumPoly::zero(self.prec);
+                p.add_term(exps, &Approx::exact(Float::with_val(self.prec, 1)));
+                Ok(p)
+            }
+            Node::Neg(a) => Ok(self.poly(a)?.neg()),
+            Node::Add(a, b) => Ok(self.poly(a)?.add(&self.poly(b)?)),
+            Node::Sub(a, b) => Ok(self.poly(a)?.add(&self.poly(b)?.neg())),
+            Node::Mul(a, b) => self.poly(a)?.mul(&self.poly(b)?),
+            Node::Div(a, b) => {
+                if has_symbol(b) {
+                    return Err(self.fail(b.span, "an origin coefficient is a polynomial in the logs: divide by numbers only"));
+                }
+                let d = self.number(b)?;
+                if Float::with_val(self.prec, d.value.abs_ref()) <= d.uncertainty {
+                    return Err(self.fail(b.span, "division by a number that is zero within its uncertainty"));
+                }
+                Ok(self.poly(a)?.divide(&d))
+            }
+            Node::Pow(a, b) => {
+                let k = if has_symbol(b) { None } else { Some(self.number(b)?) };
+                let k = k
+                    .filter(|k| k.is_exact() && k.value.is_integer() && k.value >= 0 && k.value <= MAX_POWER)
+                    .and_then(|k| k.value.to_integer())
+                    .and_then(|k| k.to_u32())
+                    .ok_or_else(|| {
+                        self.fail(b.span, "a power of the logs takes a whole exponent from 0 up (a polynomial in the logs)")
+                    })?;
+                self.poly(a)?.pow(k)
+            }
+            _ => Err(self.fail(e.span, "an origin coefficient is a polynomial in the logs; this is not one")),
+        }
+    }
+}
+
+/// What one order of ln E says, once it has passed the exponentiation
+/// check; the numerical counterpart of [`crate::origin::OrderReading`].
+#[derive(Clone, Debug)]
+pub struct NumReading {
+    pub order: usize,
+    pub octagon: Approx,
+    /// None on the line u1 = u2 = u3, where it cannot be read.
+    pub hexagon: Option<Approx>,
+    pub linear: Approx,
+    pub constant: Approx,
+}
+
+/// A term of ln E that should vanish and does not.
+#[derive(Clone, Debug)]
+pub struct NumTerm {
+    pub exponents: Exponents,
+    pub coefficient: Approx,
+}
+
+/// The first order at which ln E is not, within the uncertainties, a
+/// symmetric polynomial of degree <= 2: the terms found nonzero.
+#[derive(Clone, Debug)]
+pub struct NumBreakdown {
+    pub order: usize,
+    pub high_degree: Vec<NumTerm>,
+    pub asymmetric: Vec<NumTerm>,
+}
+
+#[derive(Clone, Debug)]
+pub struct NumAnalysis {
+    /// ln E through the last order examined.
+    pub ln_e: Vec<NumPoly>,
+    pub orders: Vec<NumReading>,
+    pub broken: Option<NumBreakdown>,
+}
+
+/// Reads a series of E (constant term 1) with numerical coefficients;
+/// `digits` sets the working precision of the verdicts on vanishing terms.
+pub fn analyse_e(e: &[NumPoly], logs: &OriginLogs, digits: u32) -> Result<NumAnalysis> {
+    let one = e.first().map(|c| c.coefficient([0, 0, 0]));
+    let is_one = e.first().is_some_and(|c| c.terms.len() == 1) && one.is_some_and(|c| c.is_exact() && c.value == 1);
+    if !is_one {
+        return Err(Error::input("a series of E must start with exactly 1 at g^0"));
+    }
+    let mut ln: Vec<NumPoly> = vec![NumPoly::zero(e[0].prec)];
+    let mut orders = Vec::new();
+    for k in 1..e.len() {
+        let acc = ln_order(&ln, e, k)?;
+        let (reading, breakdown) = examine(k, &acc, logs, digits);
+        ln.push(acc);
+        match breakdown {
+            Some(b) => return Ok(NumAnalysis { ln_e: ln, orders, broken: Some(b) }),
+            None => orders.extend(reading),
+        }
+    }
+    Ok(NumAnalysis { ln_e: ln, orders, broken: None })
+}
+
+/// Order k of ln E from the orders below it: with L = ln E, E' = E L' gives
+/// k L_k = k E_k - sum_{j<k} j L_j E_(k-j).
+fn ln_order(ln: &[NumPoly], e: &[NumPoly], k: usize) -> Result<NumPoly> {
+    let mut acc = e[k].clone();
+    for j in 1..k {
+        let term = ln[j].mul(&e[k - j])?.scale(&Float::with_val(e[k].prec, Rational::from((j as i64, k as i64))));
+        acc = acc.add(&term.neg());
+    }
+    Ok(acc)
+}
+
+/// Reads a series of R6 with numerical coefficients: ln E = R6 +
+/// Gamma_cusp/4 E^(1) directly, as [`crate::origin::analyse_r6`] does.
+pub fn analyse_r6(r6: &[NumPoly], gamma_cusp: &Series, logs: &OriginLogs, digits: u32) -> Result<NumAnalysis> {
+    let top = r6.len().saturating_sub(1);
+    if gamma_cusp.order() < top {
+        return Err(Error::range(format!(
+            "Gamma_cusp is known through g^{} only, the origin series needs g^{}",
+            2 * gamma_cusp.order(),
+            2 * top
+        )));
+    }
+    let prec = r6.first().map_or(64, |c| c.prec);
+    let e1 = one_loop_limit(logs).scale(&Rational::from((1, 4)));
+    let mut ln = vec![NumPoly::zero(prec)];
+    let mut orders = Vec::new();
+    for (k, c) in r6.iter().enumerate().skip(1) {
+        let ansatz = NumPoly::from_exact(&(gamma_cusp.coeff(k) * &e1), logs, prec)?;
+        let l = c.add(&ansatz);
+        let (reading, breakdown) = examine(k, &l, logs, digits);
+        ln.push(l);
+        match breakdown {
+            Some(b) => return Ok(NumAnalysis { ln_e: ln, orders, broken: Some(b) }),
+            None => orders.extend(reading),
+        }
+    }
+    Ok(NumAnalysis { ln_e: ln, orders, broken: None })
+}
+
+const PERMS: [[usize; 3]; 6] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
+
+fn permuted(e: Exponents, perm: [usize; 3]) -> Exponents {
+    [e[perm[0]], e[perm[1]], e[perm[2]]]
+}
+
+/// The mean of the coefficients over the orbit of `e` under permutations of
+/// the logs (three distinct monomials for the shapes read here).
+fn orbit_mean(c: &NumPoly, e: Exponents) -> Approx {
+    let orbit: BTreeSet<Exponents> = PERMS.iter().map(|&p| permuted(e, p)).collect();
+    let n = Float::with_val(c.prec, orbit.len() as u32);
+    let total = orbit.iter().fold(zero(c.prec), |acc, &m| sum(&acc, &c.coefficient(m)));
+    Approx { value: Float::with_val(c.prec, &total.value / &n), uncertainty: Float::with_val(c.prec, &total.uncertainty / &n), ..total }
+}
+
+/// The exponentiation check and the readings of one order of ln E.
+fn examine(k: usize, c: &NumPoly, logs: &OriginLogs, digits: u32) -> (Option<NumReading>, Option<NumBreakdown>) {
+    let nought = Float::with_val(c.prec, 0);
+    let nonzero = |a: &Approx| judge_numbers(a, &nought, None, digits).differs();
+    let high_degree: Vec<NumTerm> = c
+        .terms
+        .iter()
+        .filter(|(e, a)| e.iter().sum::<u32>() > 2 && nonzero(a))
+        .map(|(e, a)| NumTerm { exponents: *e, coefficient: a.clone() })
+        .collect();
+    let asymmetric = match logs {
+        OriginLogs::Three(_) => asymmetric_part(c).into_iter().filter(|t| nonzero(&t.coefficient)).collect(),
+        OriginLogs::Line(_) => Vec::new(),
+    };
+    if !high_degree.is_empty() || !asymmetric.is_empty() {
+        return (None, Some(NumBreakdown { order: k, high_degree, asymmetric }));
+    }
+    let constant = c.coefficient([0, 0, 0]);
+    let third = Float::with_val(c.prec, Rational::from((1, 3)));
+    let reading = match logs {
+        OriginLogs::Three(_) => {
+            // alpha = (A + B)/3 and beta = (2A - B)/6, as in
+            // crate::origin::quadratic_to_alpha_beta, from the symmetric means.
+            let a = orbit_mean(c, [2, 0, 0]);
+            let b = orbit_mean(c, [1, 1, 0]);
+            let sixth = Float::with_val(c.prec, Rational::from((1, 6)));
+            let two = Float::with_val(c.prec, 2);
+            NumReading {
+                order: k,
+                octagon: scaled(&sum(&a, &b), &third),
+                hexagon: Some(scaled(&sum(&scaled(&a, &two), &negated(&b)), &sixth)),
+                linear: orbit_mean(c, [1, 0, 0]),
+                constant,
+            }
+        }
+        // On the line (sum l)^2 = 9 l^2 and l1 + l2 + l3 = 3 l.
+        OriginLogs::Line(_) => NumReading {
+            order: k,
+            octagon: scaled(&c.coefficient([2, 0, 0]), &Float::with_val(c.prec, Rational::from((1, 9)))),
+            hexagon: None,
+            linear: scaled(&c.coefficient([1, 0, 0]), &third),
+            constant,
+        },
+    };
+    (Some(reading), None)
+}
+
+/// p - (1/6) sum over the six permutations, on the part of degree <= 2:
+/// at e this is (1/6) sum over the permutations that move e of (c_e - c_(sigma e)),
+/// whose worst-case uncertainty is (1/6) sum of (u_e + u_(sigma e)).
+fn asymmetric_part(c: &NumPoly) -> Vec<NumTerm> {
+    let support: BTreeSet<Exponents> = c
+        .terms
+        .keys()
+        .filter(|e| e.iter().sum::<u32>() <= 2)
+        .flat_map(|&e| PERMS.iter().map(move |&p| permuted(e, p)))
+        .collect();
+    let sixth = Float::with_val(c.prec, Rational::from((1, 6)));
+    let mut out = Vec::new();
+    for e in support {
+        let ce = c.coefficient(e);
+        let mut acc = zero(c.prec);
+        for perm in PERMS {
+            let moved = permuted(e, perm);
+            if moved != e {
+                acc = sum(&acc, &sum(&ce, &negated(&c.coefficient(moved))));
+            }
+        }
+        let part = scaled(&acc, &sixth);
+        if !(part.value.is_zero() && part.uncertainty.is_zero()) {
+            out.push(NumTerm { exponents: e, coefficient: part });
+        }
+    }
+    out
+}
+
+/// A monomial in the logs as text: `l1^2*l2`, `1` for the constant.
+pub fn monomial_text(e: Exponents, logs: &OriginLogs) -> String {
+    let names = logs.names();
+    let parts: Vec<String> = e
+        .iter()
+        .zip(&names)
+        .filter(|(p, _)| **p > 0)
+        .map(|(p, n)| if *p == 1 { n.to_string() } else { format!("{n}^{p}") })
+        .collect();
+    if parts.is_empty() {
+        "1".to_string()
+    } else {
+        parts.join("*")
+    }
+}
+
+/// A number with its uncertainty as the coefficient language writes it:
+/// the value rounded at the second significant digit of the uncertainty,
+/// that uncertainty (rounded up) in brackets in units of the last digit,
+/// `20.834722249(13)` or `-1.23(4)e-9`; a number without an uncertainty at
+/// `digits` significant digits.
+pub fn written(a: &Approx, digits: u32) -> String {
+    if a.uncertainty.is_zero() {
+        return crate::report::decimal(&a.value, digits);
+    }
+    let (Some(value), Some(u)) = (a.value.to_rational(), a.uncertainty.to_rational()) else {
+        return format!("{} ± {}", a.value, a.uncertainty);
+    };
+    let u = Rational::from(u.abs_ref());
+    let leading = |x: &Rational| -> i64 {
+        let f = Float::with_val(64, x);
+        Float::with_val(64, f.log10_ref()).floor().to_f64() as i64
+    };
+    let mut last = leading(&u) - 1;
+    let (n, ud) = loop {
+        let unit = power_of_ten(last);
+        let n = Rational::from(&value / &unit).round().into_numer_denom().0;
+        // Rounded up, less a relative 10^-12 so that the binary image of a
+        // written `(13)` does not come out as 14.
+        let slack = Rational::from((999_999_999_999u64, 1_000_000_000_000u64));
+        let ud = (Rational::from(&u / &unit) * slack).ceil().into_numer_denom().0;
+        if ud < 100 {
+            break (n, ud);
+        }
+        last += 1;
+    };
+    let negative = n < 0;
+    let digits_n = Integer::from(n.abs_ref()).to_string();
+    let sign = if negative { "-" } else { "" };
+    let width = digits_n.len().max(ud.to_string().len()) as i64;
+    let exponent = last + width - 1;
+    if (-5..21).contains(&exponent) {
+        if last >= 0 {
+            let zeros = "0".repeat(last as usize);
+            return format!("{sign}{digits_n}{zeros}({ud}{zeros})");
+        }
+        let places = (-last) as usize;
+        let padded = format!("{:0>w$}", digits_n, w = places + 1);
+        let (int, frac) = padded.split_at(padded.len() - places);
+        return format!("{sign}{int}.{frac}({ud})");
+    }
+    let padded = format!("{:0>w$}", digits_n, w = width as usize);
+    let (first, rest) = padded.split_at(1);
+    let point = if rest.is_empty() { String::new() } else { format!(".{rest}") };
+    format!("{sign}{first}{point}({ud})e{exponent}")
+}
+
+fn power_of_ten(e: i64) -> Rational {
+    let p = Integer::from(Integer::u_pow_u(10, e.unsigned_abs() as u32));
+    if e >= 0 {
+        Rational::from(p)
+    } else {
+        Rational::from((Integer::from(1), p))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::expr::parse;
+
+    const PREC: u32 = 200;
+
+    fn num(text: &str) -> Approx {
+        numeric::evaluate(&parse(text, "<test>", None).unwrap(), &mut Context::new(PREC)).unwrap()
+    }
+
+    fn located(text: &str) -> Located {
+        Located { text: text.to_string(), expr: parse(text, "<test>", None).unwrap(), line: 1, column: 1 }
+    }
+
+    fn close(x: &Float, y: f64, tol: f64) -> bool {
+        (x.to_f64() - y).abs() <= tol
+    }
+
+    #[test]
+    fn uncertainties_are_written_in_brackets() {
+        assert_eq!(written(&num("20.834722249(13)"), 20), "20.834722249(13)");
+        assert_eq!(written(&num("-0.16667(1)"), 20), "-0.166670(10)");
+        assert_eq!(written(&num("-1.234e-9 ± 4e-11"), 20), "-1.234(40)e-9");
+        assert_eq!(written(&num("123456 ± 3400"), 20), "123500(3400)");
+        assert_eq!(written(&num("0.0001(3)"), 20), "0.00010(30)");
+        assert_eq!(written(&num("0.5"), 20), "0.500(50)");
+        assert_eq!(written(&num("2"), 6), "2.00000");
+        // What is written reads back as the same interval (rounded outwards).
+        let back = num(&written(&num("1.23456(27)"), 20));
+        assert!(close(&back.value, 1.23456, 1e-12) && close(&back.uncertainty, 0.00027, 1e-12));
+    }
+
+    /// (1.5(1) l1 + 2) * (l1 - 0.5(2)): l1^2 1.5(1); l1 2 - 0.75 with
+    /// uncertainty 0.1*0.5 + 1.5*0.2 + 0.1*0.2 = 0.37 (by hand); constant
+    /// -1 with 2*0.2 = 0.4.
+    #[test]
+    fn polynomials_propagate_first_order_worst_case() {
+        let logs = OriginLogs::three();
+        let p = read_polynomial(&located("(1.5(1)*l1 + 2)*(l1 - 0.5(2))"), "<test>", &logs, PREC).unwrap();
+        let c = p.coefficient([1, 0, 0]);
+        assert!(close(&c.value, 1.25, 1e-15) && close(&c.uncertainty, 0.37, 1e-15), "{c:?}");
+        let c = p.coefficient([0, 0, 0]);
+        assert!(close(&c.value, -1.0, 1e-15) && close(&c.uncertainty, 0.4, 1e-15) && c.stated);
+        let c = p.coefficient([2, 0, 0]);
+        assert!(close(&c.value, 1.5, 1e-15) && close(&c.uncertainty, 0.1, 1e-15));
+        assert!(read_polynomial(&located("1.5/l1"), "<test>", &logs, PREC).is_err());
+        assert!(read_polynomial(&located("l1^0.5"), "<test>", &logs, PREC).is_err());
+        assert!(read_polynomial(&located("log(l1)*1.0"), "<test>", &logs, PREC).is_err());
+        assert!(read_polynomial(&located("x*1.0"), "<test>", &logs, PREC).unwrap_err().message().contains("`x`"));
+    }
+
+    /// The numerical logarithm of an exact series agrees with the ring's
+    /// exact logarithm evaluated afterwards (two independent routes).
+    #[test]
+    fn numerical_ln_matches_the_exact_one() {
+        let logs = OriginLogs::three();
+        let l = |i: usize| Exact::symbol(&format!("l{i}"));
+        let z = |n: u32| Exact::zeta(n).unwrap();
+        let e1 = &(&l(1) * &l(2)).scale(&Rational::from((3, 5))) - &z(2);
+        let e2 = &(&l(1).pow(3) * &z(3)) + &l(3).pow(2);
+        let e3 = &(&l(2) * &z(5)) + &Exact::from(Rational::from((7, 2)));
+        let e = Series::new(vec![Exact::one(), e1, e2, e3]);
+        let nums: Vec<NumPoly> = e.coeffs().iter().map(|c| NumPoly::from_exact(c, &logs, PREC).unwrap()).collect();
+        let a = analyse_e(&nums, &logs, 30).unwrap();
+        let b = a.broken.expect("the asymmetric l1 l2 term breaks at order 1");
+        assert_eq!(b.order, 1);
+        let exact_ln = e.ln().unwrap();
+        let k = 1;
+        let want = NumPoly::from_exact(exact_ln.coeff(k), &logs, PREC).unwrap();
+        for (m, c) in want.terms() {
+            let got = a.ln_e[k].coefficient(*m);
+            assert!(Float::with_val(PREC, &got.value - &c.value).abs() < 1e-50, "{m:?}");
+        }
+        // Order 3 through the recursion on the line, where nothing is asymmetric.
+        let line = OriginLogs::line();
+        let on_line = |x: &Exact| x.substitute("l1", &Exact::symbol("l")).substitute("l2", &Exact::symbol("l")).substitute("l3", &Exact::symbol("l"));
+        let e = e.map(on_line);
+        let nums: Vec<NumPoly> = e.coeffs().iter().map(|c| NumPoly::from_exact(c, &line, PREC).unwrap()).collect();
+        let mut ln = vec![NumPoly::zero(PREC)];
+        for k in 1..=3 {
+            ln.push(ln_order(&ln, &nums, k).unwrap());
+        }
+        let exact_ln = e.ln().unwrap();
+        for (k, computed) in ln.iter().enumerate().skip(1) {
+            let want = NumPoly::from_exact(exact_ln.coeff(k), &line, PREC).unwrap();
+            for (m, c) in want.terms() {
+                let got = computed.coefficient(*m);
+                assert!(Float::with_val(PREC, &got.value - &c.value).abs() < 1e-50, "order {k} {m:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn asymmetric_part_within_uncertainty_is_not_a_break() {
+        let logs = OriginLogs::three();
+        let p = read_polynomial(&located("1.00(1)*l1^2 + 1.01(1)*l2^2 + 1.00(1)*l3^2"), "<test>", &logs, PREC).unwrap();
+        assert!(examine(1, &p, &logs, 30).1.is_none());
+        let p = read_polynomial(&located("1.00(1)*l1^2 + 1.10(1)*l2^2 + 1.00(1)*l3^2"), "<test>", &logs, PREC).unwrap();
+        let b = examine(1, &p, &logs, 30).1.unwrap();
+        assert!(b.high_degree.is_empty());
+        // At l2^2: (1/6)(4 (1.10 - 1.00)) = 0.0667 with (1/6)(4 * 0.02) = 0.0133.
+        let t = b.asymmetric.iter().find(|t| t.exponents == [0, 2, 0]).unwrap();
+        assert!(close(&t.coefficient.value, 0.4 / 6.0, 1e-12) && close(&t.coefficient.uncertainty, 0.08 / 6.0, 1e-12));
+    }
+}
