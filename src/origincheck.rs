@@ -83,6 +83,13 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
     let mut coeffs = vec![Exact::zero(); highest(&file) as usize + 1];
     let mut numeric = Vec::new();
     for entry in &file.orders {
+        if entry.exact.is_some() && entry.value.is_some() {
+            return Err(Error::input(format!(
+                "{origin}: the entry at line {} (loop {}) gives both `exact` and `value`; an origin file takes one \
+                 of them per order (the checks would otherwise read one and ignore the other)",
+                entry.line, entry.loop_order
+            )));
+        }
         match numeric_source(entry) {
             Some(_) => numeric.push(entry.loop_order),
             None => coeffs[entry.loop_order as usize] = exact_coefficient(&file, entry)?,
@@ -106,8 +113,7 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
 }
 
 /// The text of an entry to be read numerically: an `exact` coefficient with
-/// numbers outside the exact ring, or a `value` given alone. An entry with
-/// an exact `exact` is read exactly, whatever its `value` says.
+/// numbers outside the exact ring, or a `value` (entries never carry both).
 fn numeric_source(entry: &OrderEntry) -> Option<&Located> {
     match (&entry.exact, &entry.value) {
         (Some(x), _) if needs_numbers(&x.expr) => Some(x),

@@ -279,6 +279,11 @@ fn unusable_input_exits_two_naming_file_and_line() {
     bad("numbers.yaml", &origin_file("E", "g2", "[l]", &[(1, "1.5*l^2 + log(l)".into())]), &["numbers.yaml:6:", "polynomial in the logs"]);
     bad("gap.yaml", &origin_file("E", "g2", "[l]", &[(2, "l^2".into())]), &["loop order 1 is missing"]);
     bad("not-one.yaml", "normalisation: R6\ncoupling: g2\nsymbols: [l]\norders:\n  - loop: 1\n    exact: \"1\"\n  - loop: 0\n    exact: \"1\"\n", &["outside"]);
+    bad(
+        "both.yaml",
+        "normalisation: E\ncoupling: g2\nsymbols: [l]\norders:\n  - loop: 1\n    exact: \"-3/2*l^2\"\n    value: \"-4.9(1)\"\n",
+        &["both.yaml", "line 5", "both `exact` and `value`"],
+    );
     let (code, _, err) = loopwise(&["origin", "/nonexistent/origin.yaml"]);
     assert_eq!(code, 2);
     assert!(err.contains("/nonexistent/origin.yaml"), "{err}");
