@@ -9,10 +9,10 @@ use loopwise::catalogue::Catalogue;
 use loopwise::compare;
 use loopwise::report::{check::render, Format};
 use loopwise::seriesfile::{parse_series_text, read_series_file, SeriesFile};
-use loopwise::{Error, Result};
+use loopwise::Result;
 
 use super::progress::Progress;
-use super::{emit, DataFormatArg, Outcome};
+use super::{emit, DataFormatArg, Outcome, in_range};
 
 /// The most working digits of numerical comparisons.
 pub const MAX_DIGITS: u32 = 2000;
@@ -53,12 +53,6 @@ pub struct DemoArgs {
     pub format: DataFormatArg,
 }
 
-fn check_digits(digits: u32) -> Result<()> {
-    if !(6..=MAX_DIGITS).contains(&digits) {
-        return Err(Error::range(format!("--digits {digits} is out of range: 6 to {MAX_DIGITS}")));
-    }
-    Ok(())
-}
 
 fn run_one(file: &SeriesFile, catalogue: &Catalogue, digits: u32) -> Result<compare::Comparison> {
     let mut progress = Progress::new();
@@ -68,7 +62,7 @@ fn run_one(file: &SeriesFile, catalogue: &Catalogue, digits: u32) -> Result<comp
 }
 
 pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
-    check_digits(args.digits)?;
+    in_range("--digits", args.digits, 6, MAX_DIGITS)?;
     let format: Format = args.format.into();
     let files = args.files.iter().map(|p| read_series_file(p)).collect::<Result<Vec<_>>>()?;
     let comparisons = files.iter().map(|f| run_one(f, catalogue, args.digits)).collect::<Result<Vec<_>>>()?;

@@ -9,9 +9,9 @@ use loopwise::expr::{self};
 use loopwise::report::decimal;
 use rug::ops::Pow;
 use rug::Float;
-use loopwise::{Error, Result};
+use loopwise::Result;
 
-use super::{emit, Outcome};
+use super::{emit, Outcome, in_range};
 
 /// The most digits `eval` prints.
 pub const MAX_DIGITS: u32 = 10_000;
@@ -27,9 +27,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args) -> Result<Outcome> {
-    if args.digits == 0 || args.digits > MAX_DIGITS {
-        return Err(Error::range(format!("--digits {} is out of range: 1 to {MAX_DIGITS}", args.digits)));
-    }
+    in_range("--digits", args.digits, 1, MAX_DIGITS)?;
     let e = expr::parse(&args.expr, "<expression>", None)?;
     let line = stable_value(&e, &args.expr, args.digits)?;
     emit(&format!("{line}\n"))?;

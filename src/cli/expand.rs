@@ -10,7 +10,7 @@ use loopwise::report::expansion::Expansion;
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
-use super::{emit, CouplingArg, EvenArg, FormatArg, Outcome};
+use super::{emit, CouplingArg, EvenArg, FormatArg, Outcome, in_range};
 
 /// The largest number of significant digits `--digits` accepts.
 pub const MAX_DIGITS: u32 = 10_000;
@@ -46,9 +46,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
             args.loops
         )));
     }
-    if args.digits == 0 || args.digits > MAX_DIGITS {
-        return Err(Error::range(format!("--digits {} is out of range: 1 to {MAX_DIGITS}", args.digits)));
-    }
+    in_range("--digits", args.digits, 1, MAX_DIGITS)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
     let series = quantity.expand(args.loops, &mut |what, done, total| progress.update(what, done, total));

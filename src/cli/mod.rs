@@ -190,6 +190,15 @@ fn load_catalogue(cli: &Cli) -> Result<Catalogue> {
     Ok(c)
 }
 
+/// An out-of-range option value as the one error message the user sees.
+pub fn in_range(option: &str, value: u32, lo: u32, hi: u32) -> Result<()> {
+    if (lo..=hi).contains(&value) {
+        Ok(())
+    } else {
+        Err(Error::range(format!("{option} {value} is out of range: {lo} to {hi}")))
+    }
+}
+
 /// Writes a finished report to stdout; a closed pipe is not an error worth a panic.
 pub fn emit(text: &str) -> Result<()> {
     let mut out = std::io::stdout().lock();

@@ -10,10 +10,10 @@ use loopwise::fit::{default_basis, Solution};
 use loopwise::origincheck::{check_origin, fit_file, parse_basis, parse_origin_text, read_origin_file, read_text, OriginData};
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
 use loopwise::seriesfile::parse_series_text;
-use loopwise::{Error, Result};
+use loopwise::Result;
 
 use super::check::MAX_DIGITS;
-use super::{emit, DataFormatArg, EvenArg, Outcome};
+use super::{emit, DataFormatArg, EvenArg, Outcome, in_range};
 
 /// The origin demo's series file, shipped in the binary.
 const DEMO: &str = include_str!("../../series/examples/demo-origin.yaml");
@@ -56,12 +56,6 @@ pub struct FitArgs {
     pub format: DataFormatArg,
 }
 
-fn check_digits(digits: u32) -> Result<()> {
-    if !(6..=MAX_DIGITS).contains(&digits) {
-        return Err(Error::range(format!("--digits {digits} is out of range: 6 to {MAX_DIGITS}")));
-    }
-    Ok(())
-}
 
 fn report(data: &OriginData, catalogue: &Catalogue, format: Format, even: EvenArg, digits: u32) -> Result<(String, bool)> {
     let c = check_origin(data, catalogue, digits)?;
@@ -69,7 +63,7 @@ fn report(data: &OriginData, catalogue: &Catalogue, format: Format, even: EvenAr
 }
 
 pub fn origin(args: &OriginArgs, catalogue: &Catalogue) -> Result<Outcome> {
-    check_digits(args.digits)?;
+    in_range("--digits", args.digits, 6, MAX_DIGITS)?;
     let data = read_origin_file(&args.file)?;
     let (text, agrees) = report(&data, catalogue, args.format.into(), args.even, args.digits)?;
     emit(&text)?;

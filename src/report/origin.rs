@@ -212,12 +212,7 @@ struct JsonReport {
 pub fn render(c: &OriginCheck, format: Format, even: EvenStyle) -> Result<String> {
     match format {
         Format::Text => Ok(text(c, even)),
-        Format::Json => {
-            let mut s = serde_json::to_string_pretty(&json(c, even)).map_err(|e| Error::io(e.to_string()))?;
-            s.push('\n');
-            Ok(s)
-        }
-        Format::Yaml => serde_yaml::to_string(&json(c, even)).map_err(|e| Error::io(e.to_string())),
+        Format::Json | Format::Yaml => super::serialized(&json(c, even), format),
         Format::Latex => Err(Error::input("the origin report comes as text, json or yaml")),
     }
 }
