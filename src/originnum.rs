@@ -20,7 +20,7 @@ use rug::{Float, Integer, Rational};
 
 use crate::compare::judge_numbers;
 use crate::error::{Error, Result};
-use crate::expr::numeric::{self, Approx, Context};
+use crate::expr::numeric::{self, product, Approx, Context};
 use crate::expr::{for_each_symbol, Expr, Node};
 use crate::origin::{one_loop_limit, OriginLogs};
 use crate::ring::Exact;
@@ -65,14 +65,6 @@ fn negated(x: &Approx) -> Approx {
     Approx { value: Float::with_val(x.value.prec(), -&x.value), ..x.clone() }
 }
 
-fn product(x: &Approx, y: &Approx) -> Approx {
-    let p = x.value.prec().max(y.value.prec());
-    let value = Float::with_val(p, &x.value * &y.value);
-    let u = Float::with_val(p, x.value.abs_ref()) * &y.uncertainty
-        + Float::with_val(p, y.value.abs_ref()) * &x.uncertainty
-        + Float::with_val(p, &x.uncertainty * &y.uncertainty);
-    Approx { value, uncertainty: u, stated: x.stated || y.stated }
-}
 
 /// `x` times an exact number.
 pub fn scaled(x: &Approx, factor: &Float) -> Approx {

@@ -156,7 +156,8 @@ pub fn evaluate(e: &Expr, ctx: &mut Context<'_>) -> std::result::Result<Approx, 
     }
 }
 
-fn product(x: &Approx, y: &Approx) -> Approx {
+/// x * y with first-order worst-case propagation: |x| u_y + |y| u_x + u_x u_y.
+pub fn product(x: &Approx, y: &Approx) -> Approx {
     let p = x.value.prec().max(y.value.prec());
     let value = Float::with_val(p, &x.value * &y.value);
     let u = Float::with_val(p, x.value.abs_ref()) * &y.uncertainty
