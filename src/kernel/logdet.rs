@@ -74,7 +74,7 @@ pub fn ln(g: &DenseSeries, bases: &WeightBases, index: &ProductIndex, tilt: &Til
         let pairs: Vec<(Integer, usize, &Dense, usize, &Dense)> = (1..n)
             .filter(|&k| out[k].numerators.iter().any(|x| !x.is_zero()) && g[n - k].numerators.iter().any(|x| !x.is_zero()))
             .map(|k| {
-                let scale = Integer::from(&common / Integer::from(&out[k].denominator * &g[n - k].denominator)) * k as u32;
+                let scale = (&common / Integer::from(&out[k].denominator * &g[n - k].denominator)) * k as u32;
                 (scale, 2 * k, &out[k], 2 * (n - k), &g[n - k])
             })
             .collect();
