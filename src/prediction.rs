@@ -141,8 +141,7 @@ impl Expander<'_> {
                 self.functional(f, tilt)?
             }
             Node::Neg(a) => -&self.series(a)?,
-            Node::Add(a, b) => &self.series(a)? + &self.series(b)?,
-            Node::Sub(a, b) => &self.series(a)? - &self.series(b)?,
+            Node::Add(..) | Node::Sub(..) => self.sum(e)?,
             Node::Mul(a, b) => &self.series(a)? * &self.series(b)?,
             Node::Div(a, b) => {
                 let denominator = self.series(b)?;
@@ -169,6 +168,36 @@ impl Expander<'_> {
                 }
             }
         })
+    }
+
+    /// A chain a + b - c + ... (left-nested), walked down its left spine and
+    /// summed in place: pasted coefficients can have thousands of terms.
+    fn sum(&mut self, e: &Expr) -> Result<Series> {
+        let mut terms: Vec<(bool, &Expr)> = Vec::new();
+        let mut left = e;
+        loop {
+            match &left.node {
+                Node::Add(a, b) => {
+                    terms.push((false, b));
+                    left = a;
+                }
+                Node::Sub(a, b) => {
+                    terms.push((true, b));
+                    left = a;
+                }
+                _ => break,
+            }
+        }
+        let mut total = self.series(left)?;
+        for (negative, term) in terms.into_iter().rev() {
+            let s = self.series(term)?;
+            if negative {
+                total -= &s;
+            } else {
+                total += &s;
+            }
+        }
+        Ok(total)
     }
 
     fn functional(&mut self, f: Functional, tilt: Tilt) -> Result<Series> {

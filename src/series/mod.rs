@@ -5,7 +5,7 @@
 //! the lowest order its operands know, so no order is ever claimed that was
 //! not computed.
 
-use std::ops::{Add, Mul, Neg, Sub};
+use std::ops::{Add, AddAssign, Mul, Neg, Sub, SubAssign};
 
 use rug::Rational;
 
@@ -178,6 +178,25 @@ impl Series {
     }
 }
 
+impl<'a> AddAssign<&'a Series> for Series {
+    /// In place, so that a long sum costs its terms and not their square.
+    fn add_assign(&mut self, rhs: &'a Series) {
+        self.coeffs.truncate(rhs.order().min(self.order()) + 1);
+        for (a, b) in self.coeffs.iter_mut().zip(&rhs.coeffs) {
+            *a += b;
+        }
+    }
+}
+
+impl<'a> SubAssign<&'a Series> for Series {
+    fn sub_assign(&mut self, rhs: &'a Series) {
+        self.coeffs.truncate(rhs.order().min(self.order()) + 1);
+        for (a, b) in self.coeffs.iter_mut().zip(&rhs.coeffs) {
+            *a -= b;
+        }
+    }
+}
+
 impl<'a> Add<&'a Series> for &'a Series {
     type Output = Series;
     fn add(self, rhs: &'a Series) -> Series {
@@ -236,6 +255,19 @@ mod tests {
             &Exact::zeta(3).unwrap() + &Exact::symbol("c2"),
             q(3, 7),
         ])
+    }
+
+    #[test]
+    fn in_place_sums_agree() {
+        let f = sample();
+        let mut g = f.clone();
+        g += &f;
+        assert_eq!(g, &f + &f);
+        g -= &f;
+        assert_eq!(g, f);
+        let mut short = f.truncate(2);
+        short += &f;
+        assert_eq!(short.order(), 2);
     }
 
     #[test]
