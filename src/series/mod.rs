@@ -114,6 +114,14 @@ impl Series {
 
     /// The multiplicative inverse; the constant term must be invertible in the ring.
     pub fn inverse(&self) -> Result<Series> {
+        if self.coeffs[0].is_zero() {
+            let message = if self.coeffs.iter().all(Exact::is_zero) {
+                "division by zero"
+            } else {
+                "division by a series without constant term (it starts at a positive power of g^2): no power series inverts it"
+            };
+            return Err(Error::input(message));
+        }
         let c0_inv = self.coeffs[0]
             .inverse()
             .map_err(|e| e.context("inverting a series"))?;
