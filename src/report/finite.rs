@@ -160,10 +160,15 @@ pub fn scan_rows(couplings: &[Float], values: &[Estimate], digits: u32, json: bo
 
 /// The ratio and root sequences and the estimate, against the expected 1/4.
 pub fn radius_text(quantity: &str, r: &RadiusEstimate) -> String {
-    let mut out = format!(
-        "{quantity}: radius of convergence in g of the weak-coupling series\n\
-         (ratio test sqrt|c_L/c_(L+1)|, root test |c_L|^(-1/(2L)); physics.md expects 1/4 for every tilt)\n\n"
+    let mut out = super::wrap(
+        &format!(
+            "{quantity}: radius of convergence in g of the weak-coupling series (ratio test \
+             sqrt|c_L/c_(L+1)|, root test |c_L|^(-1/(2L))); 1/4 is expected for every tilt, \
+             where the octagon's ln cosh(2 pi g) has its singularities g = +-i/4"
+        ),
+        88,
     );
+    out.push('\n');
     out.push_str(&format!("{:>4}  {:<14}  {:<14}\n", "L", "ratio", "root"));
     for ((l, ratio), (_, root)) in r.ratio.iter().zip(&r.root) {
         out.push_str(&format!("{l:>4}  {:<14}  {:<14}\n", decimal(ratio, 10), decimal(root, 10)));
