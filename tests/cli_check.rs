@@ -237,3 +237,17 @@ fn multiple_zeta_values_check_numerically() {
     let (_, out, _) = loopwise(&["eval", "zeta(5,3)", "--digits", "15"]);
     assert_eq!(out.trim(), "0.0377076729848475");
 }
+
+/// Reference coefficients from `expand` can be pasted back whatever their
+/// length: the 30-loop cusp coefficient has 4,637 terms.
+#[test]
+fn long_pasted_coefficients_check() {
+    let (code, out, _) = loopwise(&["expand", "cusp", "--loops", "30", "--format", "json"]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let thirty = v["orders"][29]["exact"].as_str().unwrap();
+    assert!(thirty.matches(" + ").count() + thirty.matches(" - ").count() > 4000);
+    let (code, v) = check_json("thirty.yaml", &cusp_file("g2", &[(29, "exact", v["orders"][28]["exact"].as_str().unwrap()), (30, "exact", thirty)]));
+    assert_eq!(code, 0, "{v}");
+    assert_eq!(v["orders"][29]["verdict"], "agrees-exactly");
+}

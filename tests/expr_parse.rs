@@ -240,8 +240,8 @@ fn overlong_nesting_is_an_error_not_a_crash() {
     assert!(err(&signs).contains("signs and powers in a row"));
     let powers = format!("2{}", "^2".repeat(100_000));
     assert!(err(&powers).contains("signs and powers in a row"));
-    let long_sum = format!("1{}", "+1".repeat(100_000));
-    assert!(err(&long_sum).contains("operations deep"));
+    let long_product = format!("1{}", "*1".repeat(100_000));
+    assert!(err(&long_product).contains("operations deep"));
     // Within the limits, all of these parse, even on a test thread's small stack.
     p(&format!("{}2{}", "log(".repeat(64), ")".repeat(64)));
     p(&format!("{}x{}", "Delta[c2 = -".repeat(64), "]".repeat(64)));
@@ -298,4 +298,30 @@ fn printing_then_parsing_gives_the_same_tree() {
     assert_eq!(p("2pi^2").to_string(), "2*pi^2");
     assert_eq!(p("-zeta(2)/2*Gamma(pi/4)").to_string(), "-zeta(2)/2*Gamma(pi/4)");
     assert_eq!(p("a - (b - c)").to_string(), "a - (b - c)");
+}
+
+/// A pasted high-loop coefficient is a sum of thousands of terms: it parses,
+/// as a balanced tree whose depth grows like the logarithm of its length, and
+/// keeps its value (100,001 terms of +-1 summing to 1).
+#[test]
+fn long_sums_parse_as_shallow_trees() {
+    let mut text = String::from("1");
+    for k in 0..100_000 {
+        text.push_str(if k % 2 == 0 { " + 1" } else { " - 1" });
+    }
+    let e = p(&text);
+    fn depth(e: &loopwise::expr::Expr) -> usize {
+        use loopwise::expr::Node;
+        match &e.node {
+            Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => 1 + depth(a).max(depth(b)),
+            Node::Neg(a) | Node::Log(a) => 1 + depth(a),
+            _ => 1,
+        }
+    }
+    assert!(depth(&e) < 40, "depth {}", depth(&e));
+    let mut ctx = loopwise::expr::numeric::Context::new(64);
+    let v = loopwise::expr::numeric::evaluate(&e, &mut ctx).unwrap();
+    assert_eq!(v.value, 1);
+    // Below the threshold a sum stays left-nested, as its operators associate.
+    assert_eq!(p("a - b + c"), p("(a - b) + c"));
 }

@@ -258,7 +258,21 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
             _ => {}
         }
     }
-    ctx.pratt
+    // `+` and `-` bind loosest, so the sequence splits at them into terms,
+    // each parsed on its own. Up to LONG_SUM terms they are joined to the
+    // left, as the operators associate; a longer sum (a pasted high-loop
+    // coefficient has thousands of terms) is joined as a balanced tree, so
+    // its depth grows like log2 of its length rather than the length.
+    let mut terms: Vec<(bool, Vec<Pair<'_, Rule>>)> = vec![(false, Vec::new())];
+    for p in expr.into_inner() {
+        match p.as_rule() {
+            Rule::add => terms.push((false, Vec::new())),
+            Rule::sub => terms.push((true, Vec::new())),
+            _ => terms.last_mut().map_or((), |t| t.1.push(p)),
+        }
+    }
+    let mut pratt = ctx
+        .pratt
         .map_primary(|p| primary(ctx, p))
         .map_prefix(|op, rhs| {
             let (rhs, depth) = rhs?;
@@ -275,15 +289,46 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
             let span = join(&lhs, &rhs);
             let (a, b) = (Box::new(lhs), Box::new(rhs));
             let n = match op.as_rule() {
-                Rule::add => Node::Add(a, b),
-                Rule::sub => Node::Sub(a, b),
                 Rule::div => Node::Div(a, b),
                 Rule::pow => Node::Pow(a, b),
                 _ => Node::Mul(a, b),
             };
             node(n, span, dl.max(dr) + 1, ctx)
-        })
-        .parse(expr.into_inner())
+        });
+    let built: Vec<(bool, Built)> =
+        terms.into_iter().map(|(negative, pairs)| Ok((negative, pratt.parse(pairs.into_iter())?))).collect::<Fallible<_>>()?;
+    if built.len() <= LONG_SUM {
+        let mut items = built.into_iter();
+        let Some((_, first)) = items.next() else { return Err(ctx.error(Span::default(), "empty expression")) };
+        return items.try_fold(first, |acc, (negative, term)| combine(ctx, acc, negative, term));
+    }
+    balanced(ctx, built)
+}
+
+/// Sums of more terms than this are joined as a balanced tree.
+const LONG_SUM: usize = 1000;
+
+fn combine(ctx: &Ctx<'_>, (a, da): Built, negative: bool, (b, db): Built) -> Fallible<Built> {
+    let span = join(&a, &b);
+    let (a, b) = (Box::new(a), Box::new(b));
+    let n = if negative { Node::Sub(a, b) } else { Node::Add(a, b) };
+    node(n, span, da.max(db) + 1, ctx)
+}
+
+/// t1 s2 t2 s3 t3 ... (the first sign is always +) as a balanced tree:
+/// left half s_m (right half with its signs multiplied by s_m).
+fn balanced(ctx: &Ctx<'_>, mut items: Vec<(bool, Built)>) -> Fallible<Built> {
+    if items.len() == 1 {
+        return Ok(items.remove(0).1);
+    }
+    let mut right = items.split_off(items.len() / 2);
+    let negative = right[0].0;
+    for item in right.iter_mut() {
+        item.0 ^= negative;
+    }
+    let left = balanced(ctx, items)?;
+    let right = balanced(ctx, right)?;
+    combine(ctx, left, negative, right)
 }
 
 fn primary(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {

@@ -102,22 +102,8 @@ fn main() {
 /// The whole `origin` command on a ten-loop file, then `fit` on its constants.
 fn pipeline(e: &Series, constants: &[(u32, Exact)]) {
     let mut text = "normalisation: E\ncoupling: g2\nsymbols: [l1, l2, l3]\norders:\n".to_string();
-    // The expression reader refuses nesting deeper than 2000 operations, and
-    // a flat sum of n terms nests n deep: the 2388 terms at g^20 are written
-    // in parenthesised groups, as a user with such a file has to.
     for k in 1..=e.order() {
-        let terms: Vec<(loopwise::ring::Monomial, rug::Rational)> = e.coeff(k).terms().map(|(m, c)| (m.clone(), c.clone())).collect();
-        let groups: Vec<String> = terms
-            .chunks(400)
-            .map(|chunk| {
-                let mut g = Exact::zero();
-                for (m, c) in chunk {
-                    g.add_term(m.clone(), c.clone());
-                }
-                format!("({})", g.format(EvenStyle::Zeta, Notation::Text))
-            })
-            .collect();
-        text.push_str(&format!("  - loop: {k}\n    exact: \"{}\"\n", groups.join(" + ")));
+        text.push_str(&format!("  - loop: {k}\n    exact: \"{}\"\n", e.coeff(k).format(EvenStyle::Zeta, Notation::Text)));
     }
     let mut fit_text = "coupling: g2\norders:\n".to_string();
     for (k, c) in constants {
