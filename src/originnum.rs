@@ -20,6 +20,7 @@ use rug::{Float, Integer, Rational};
 
 use crate::compare::judge_numbers;
 use crate::error::{Error, Result};
+pub use crate::expr::numeric::needs_numbers;
 use crate::expr::numeric::{self, product, Approx, Context};
 use crate::expr::{for_each_symbol, Expr, Node};
 use crate::origin::{one_loop_limit, OriginLogs};
@@ -33,20 +34,6 @@ pub type Exponents = [u32; 3];
 /// The highest power of a log a numerical coefficient may reach; far beyond
 /// any bootstrap output (degree 2L), and it keeps products from overflowing.
 const MAX_POWER: u32 = 1 << 16;
-
-/// Whether a coefficient needs numbers outside the exact ring: decimals,
-/// Catalan's constant, logarithms of numbers, multiple zeta values.
-pub fn needs_numbers(e: &Expr) -> bool {
-    match &e.node {
-        Node::Decimal { .. } | Node::Catalan | Node::Log(_) => true,
-        Node::Zeta(args) => args.len() > 1,
-        Node::Integer(_) | Node::Pi | Node::Symbol(_) | Node::Functional { .. } => false,
-        Node::Neg(a) => needs_numbers(a),
-        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
-            needs_numbers(a) || needs_numbers(b)
-        }
-    }
-}
 
 fn zero(prec: u32) -> Approx {
     Approx::exact(Float::with_val(prec, 0))

@@ -6,8 +6,8 @@
 use std::collections::HashMap;
 
 use crate::error::{Error, Result};
-use crate::expr::numeric::{self, written_digits, Approx, Context};
-use crate::expr::{Expr, Node};
+use crate::expr::numeric::{self, needs_numbers, written_digits, Approx, Context};
+use crate::expr::Node;
 use crate::prediction::Expander;
 use crate::ring::Exact;
 use crate::seriesfile::Located;
@@ -28,7 +28,7 @@ pub enum Supplied {
 
 /// Reads a located coefficient: exact if possible, numerical otherwise.
 pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
-    if !has_inexact_part(&located.expr) {
+    if !needs_numbers(&located.expr) {
         let mut expander = Expander {
             source: &located.text,
             origin,
@@ -57,19 +57,6 @@ pub fn read_number(located: &Located, origin: &str, prec: u32) -> Result<Supplie
         _ => None,
     };
     Ok(Supplied::Number { approx, written, text: located.text.trim().to_string() })
-}
-
-/// Whether the expression needs numbers outside the exact ring.
-fn has_inexact_part(e: &Expr) -> bool {
-    match &e.node {
-        Node::Decimal { .. } | Node::Catalan | Node::Log(_) => true,
-        Node::Zeta(args) => args.len() > 1,
-        Node::Integer(_) | Node::Pi | Node::Symbol(_) | Node::Functional { .. } => false,
-        Node::Neg(a) => has_inexact_part(a),
-        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
-            has_inexact_part(a) || has_inexact_part(b)
-        }
-    }
 }
 
 impl Supplied {

@@ -166,6 +166,20 @@ pub fn product(x: &Approx, y: &Approx) -> Approx {
     Approx { value, uncertainty: u, stated: x.stated || y.stated }
 }
 
+/// Whether an expression needs numbers outside the exact ring: decimals,
+/// Catalan's constant, logarithms, multiple zeta values.
+pub fn needs_numbers(e: &Expr) -> bool {
+    match &e.node {
+        Node::Decimal { .. } | Node::Catalan | Node::Log(_) => true,
+        Node::Zeta(args) => args.len() > 1,
+        Node::Integer(_) | Node::Pi | Node::Symbol(_) | Node::Functional { .. } => false,
+        Node::Neg(a) => needs_numbers(a),
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+            needs_numbers(a) || needs_numbers(b)
+        }
+    }
+}
+
 /// Half a unit in the last written digit of a decimal literal: "-1240.9"
 /// gives 0.05, "1.20e-3" gives 5e-6, "7e2" gives 50.
 pub fn half_last_digit(text: &str) -> Rational {

@@ -6,7 +6,7 @@ use rug::Float;
 use serde::Serialize;
 
 use super::expansion::status_line;
-use super::{decimal, serialized, Format};
+use super::{decimal, serialized, Format, JsonVerdict};
 use crate::compare::{Comparison, OrderResult, Verdict};
 use crate::error::{Error, Result};
 
@@ -14,20 +14,12 @@ use crate::error::{Error, Result};
 struct JsonOrder {
     #[serde(rename = "loop")]
     loop_order: u32,
-    verdict: &'static str,
+    #[serde(flatten)]
+    verdict: JsonVerdict,
     #[serde(skip_serializing_if = "Option::is_none")]
     label: Option<String>,
     supplied: Option<String>,
     predicted: Option<String>,
-    /// supplied - predicted: exact text for exact verdicts, a decimal otherwise.
-    #[serde(skip_serializing_if = "Option::is_none")]
-    difference: Option<String>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    difference_value: Option<String>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    digits_agreeing: Option<u32>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    sigmas: Option<String>,
     #[serde(skip_serializing_if = "Option::is_none")]
     inconsistent_value: Option<&'static str>,
 }
@@ -49,40 +41,15 @@ fn short(x: &Float) -> String {
     decimal(x, 6)
 }
 
-fn sigmas_text(s: &Option<Float>) -> Option<String> {
-    s.as_ref().map(|s| decimal(s, 4))
-}
-
 fn json_order(o: &OrderResult) -> JsonOrder {
-    let mut j = JsonOrder {
+    JsonOrder {
         loop_order: o.loop_order,
-        verdict: o.verdict.name(),
+        verdict: JsonVerdict::of(&o.verdict, ToString::to_string),
         label: o.label.clone(),
         supplied: o.supplied.as_ref().map(|s| s.text()),
         predicted: o.predicted.as_ref().map(|p| p.to_string()),
-        difference: None,
-        difference_value: None,
-        digits_agreeing: None,
-        sigmas: None,
         inconsistent_value: o.inconsistent.as_ref().map(Verdict::name),
-    };
-    match &o.verdict {
-        Verdict::DiffersExactly { difference, size } => {
-            j.difference = Some(difference.to_string());
-            j.difference_value = Some(decimal(size, 20));
-        }
-        Verdict::AgreesNumerically { digits, sigmas } => {
-            j.digits_agreeing = Some(*digits);
-            j.sigmas = sigmas_text(sigmas);
-        }
-        Verdict::DiffersNumerically { difference, sigmas, digits } => {
-            j.difference_value = Some(decimal(difference, 20));
-            j.digits_agreeing = Some(*digits);
-            j.sigmas = sigmas_text(sigmas);
-        }
-        _ => {}
     }
-    j
 }
 
 /// (mark, verdict words, detail) for the text table.

@@ -50,6 +50,55 @@ impl fmt::Display for Format {
     }
 }
 
+/// The machine form of one verdict, shared by every report that judges
+/// coefficients (`check`, `origin`): its name and, where they apply, the
+/// difference (exact text and decimal), the agreeing digits and the sigmas.
+#[derive(serde::Serialize)]
+pub struct JsonVerdict {
+    pub verdict: &'static str,
+    /// supplied - predicted: exact text for exact verdicts.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub difference: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub difference_value: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub digits_agreeing: Option<u32>,
+    /// |supplied - predicted| in units of the uncertainty.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub sigmas: Option<String>,
+}
+
+impl JsonVerdict {
+    /// A verdict that carries no details (not supplied, not testable, ...).
+    pub fn named(verdict: &'static str) -> Self {
+        JsonVerdict { verdict, difference: None, difference_value: None, digits_agreeing: None, sigmas: None }
+    }
+
+    /// `exact` writes an exact difference in the report's style.
+    pub fn of(v: &crate::compare::Verdict, exact: impl Fn(&crate::ring::Exact) -> String) -> Self {
+        use crate::compare::Verdict;
+        let mut out = JsonVerdict::named(v.name());
+        let sigmas = |s: &Option<Float>| s.as_ref().map(|s| decimal(s, 4));
+        match v {
+            Verdict::DiffersExactly { difference, size } => {
+                out.difference = Some(exact(difference));
+                out.difference_value = Some(decimal(size, 20));
+            }
+            Verdict::AgreesNumerically { digits, sigmas: s } => {
+                out.digits_agreeing = Some(*digits);
+                out.sigmas = sigmas(s);
+            }
+            Verdict::DiffersNumerically { difference, sigmas: s, digits } => {
+                out.difference_value = Some(decimal(difference, 20));
+                out.digits_agreeing = Some(*digits);
+                out.sigmas = sigmas(s);
+            }
+            _ => {}
+        }
+        out
+    }
+}
+
 /// A report value as JSON (pretty, with a final newline) or YAML.
 pub fn serialized<T: serde::Serialize>(value: &T, format: Format) -> Result<String> {
     match format {

@@ -8,7 +8,7 @@
 
 use serde::Serialize;
 
-use super::{decimal, Format};
+use super::{decimal, Format, JsonVerdict};
 use crate::catalogue::{Entry, Status};
 use crate::compare::Verdict;
 use crate::error::{Error, Result};
@@ -64,13 +64,10 @@ fn break_parts(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> (
 
 #[derive(Serialize)]
 struct JsonCell {
-    verdict: &'static str,
+    #[serde(flatten)]
+    verdict: JsonVerdict,
     supplied: Option<String>,
     predicted: Option<String>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    difference: Option<String>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    difference_value: Option<String>,
     /// For numerical readings: the value, its uncertainty and whether that
     /// came from uncertainties the file states.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -81,51 +78,18 @@ struct JsonCell {
     uncertainty_stated: Option<bool>,
     #[serde(skip_serializing_if = "Option::is_none")]
     predicted_value: Option<String>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    digits_agreeing: Option<u32>,
-    /// |supplied - predicted| in units of the uncertainty.
-    #[serde(skip_serializing_if = "Option::is_none")]
-    sigmas: Option<String>,
 }
 
 impl JsonCell {
-    fn empty(verdict: &'static str) -> Self {
-        JsonCell {
-            verdict,
-            supplied: None,
-            predicted: None,
-            difference: None,
-            difference_value: None,
-            supplied_value: None,
-            uncertainty: None,
-            uncertainty_stated: None,
-            predicted_value: None,
-            digits_agreeing: None,
-            sigmas: None,
-        }
+    fn empty(verdict: JsonVerdict) -> Self {
+        JsonCell { verdict, supplied: None, predicted: None, supplied_value: None, uncertainty: None, uncertainty_stated: None, predicted_value: None }
     }
 }
 
 fn cell(j: &Judged, even: EvenStyle, digits: u32) -> JsonCell {
-    let mut out = JsonCell::empty(j.verdict.name());
+    let mut out = JsonCell::empty(JsonVerdict::of(&j.verdict, |x| show(x, even)));
     out.supplied = Some(show_reading(&j.supplied, even, digits));
     out.predicted = j.predicted.as_ref().map(|p| show(p, even));
-    match &j.verdict {
-        Verdict::DiffersExactly { difference, size } => {
-            out.difference = Some(show(difference, even));
-            out.difference_value = Some(decimal(size, 20));
-        }
-        Verdict::DiffersNumerically { difference, sigmas, digits } => {
-            out.difference_value = Some(decimal(difference, 20));
-            out.sigmas = sigmas.as_ref().map(|s| decimal(s, 4));
-            out.digits_agreeing = Some(*digits);
-        }
-        Verdict::AgreesNumerically { digits, sigmas } => {
-            out.sigmas = sigmas.as_ref().map(|s| decimal(s, 4));
-            out.digits_agreeing = Some(*digits);
-        }
-        _ => {}
-    }
     if let Reading::Number(a) = &j.supplied {
         out.supplied_value = Some(decimal(&a.value, digits.min(SHOWN_DIGITS)));
         out.uncertainty = Some(decimal(&a.uncertainty, 3));
@@ -228,7 +192,7 @@ fn json(c: &OriginCheck, even: EvenStyle) -> JsonReport {
             octagon: Some(cell(&r.octagon, even, d)),
             hexagon: match &r.hexagon {
                 HexagonCell::Judged(j) => Some(cell(j, even, d)),
-                HexagonCell::NotTestableOnLine => Some(JsonCell::empty("not-testable-on-line")),
+                HexagonCell::NotTestableOnLine => Some(JsonCell::empty(JsonVerdict::named("not-testable-on-line"))),
             },
             linear: Some(cell(&r.linear, even, d)),
             constant: Some(cell(&r.constant, even, d)),
