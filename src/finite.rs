@@ -24,7 +24,7 @@ fn bits(digits: u32) -> u32 {
 
 /// cos^2 of a functional's tilt, numerically; any real angle is accepted.
 fn cos2_of(angle: &Angle, q: &Quantity, prec: u32) -> Result<Float> {
-    let fail = |f: (expr::Span, String)| expr::error_at(&q.definition, &q.origin, q.place, f.0, &f.1);
+    let fail = |f: (expr::Span, String)| q.error_at(f.0, &f.1);
     match angle {
         Angle::SymbolicCos2 => Err(Error::input(format!(
             "{}: the symbolic tilt c2 has no value at finite coupling; give an angle or c2=VALUE",
@@ -104,7 +104,7 @@ pub fn values(q: &Quantity, couplings: &[Float], digits: u32, progress: &mut dyn
         };
         let symbols = [(COUPLING, Float::with_val(prec, g))];
         let mut ctx = Context { prec, symbols: &symbols, functional: Some(&mut callback), mzv: None };
-        let v = numeric::evaluate(&q.expr, &mut ctx).map_err(|f| expr::error_at(&q.definition, &q.origin, q.place, f.0, &f.1))?;
+        let v = numeric::evaluate(&q.expr, &mut ctx).map_err(|f| q.error_at(f.0, &f.1))?;
         out.push(Estimate { value: v.value, error: v.uncertainty });
     }
     Ok(out)

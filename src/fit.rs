@@ -27,7 +27,7 @@ use rug::Rational;
 use crate::catalogue::Catalogue;
 use crate::error::{Error, Result};
 use crate::kernel;
-use crate::prediction::{Expander, Quantity};
+use crate::prediction::{Expander, Quantity, Scope};
 use crate::ring::{Exact, Monomial};
 use crate::series::Series;
 
@@ -84,11 +84,17 @@ pub struct ExpandedBasis {
 pub fn expand_basis(elements: &[BasisElement], loops: u32, catalogue: &Catalogue) -> Result<ExpandedBasis> {
     let mut cache = std::collections::HashMap::new();
     let mut out = ExpandedBasis { names: Vec::new(), series: Vec::new(), dropped: Vec::new() };
+    // Earlier named elements may be used in later formulas (`A=Gamma(0); B=2*A`).
+    let mut named: Vec<(String, crate::expr::Expr)> = Vec::new();
     for element in elements {
-        let q = Quantity::resolve(&element.formula, catalogue).map_err(|e| e.context(&element.name))?;
+        let scope = Scope { symbols: &[], local: &named };
+        let q = Quantity::resolve_in(&element.formula, catalogue, scope).map_err(|e| e.context(&element.name))?;
+        if element.name != element.formula {
+            named.push((element.name.clone(), q.expr.clone()));
+        }
         let mut progress = |_: &str, _: usize, _: usize| {};
         let mut ex =
-            Expander { source: &q.definition, origin: &q.origin, place: q.place, loops, cache: std::mem::take(&mut cache), progress: &mut progress };
+            Expander { source: &q.definition, origin: &q.origin, site: q.site.as_ref(), loops, cache: std::mem::take(&mut cache), progress: &mut progress };
         let s = ex.series(&q.expr);
         cache = std::mem::take(&mut ex.cache);
         let s = s.map_err(|e| e.context(&element.name))?;

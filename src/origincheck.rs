@@ -139,7 +139,7 @@ fn exact_coefficient(file: &SeriesFile, entry: &OrderEntry) -> Result<Exact> {
     let mut expander = Expander {
         source: &located.text,
         origin: &file.origin,
-        place: Some((located.line, located.column)),
+        site: Some(&located.site),
         loops: 0,
         cache: std::collections::HashMap::new(),
         progress: &mut |_, _, _| {},
@@ -426,15 +426,9 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
         numeric_readings(data, cusp.as_ref(), digits)?
     };
     let predicted = origin::predicted_log_coefficients(reach)?;
-    let formula = match &file.prediction {
+    let formula = match Quantity::from_file(file, catalogue)? {
         None => None,
-        Some(located) => {
-            let quantity = match file.catalogue_name() {
-                Some(name) => Quantity::from_entry(catalogue.lookup(name).map_err(|e| e.context(&file.origin))?)?,
-                None => Quantity::from_formula(&located.text, located.expr.clone(), &file.origin, (located.line, located.column)),
-            };
-            Some((quantity.definition.trim().to_string(), quantity.expand(reach, &mut |_, _, _| {})?))
-        }
+        Some(quantity) => Some((quantity.definition.trim().to_string(), quantity.expand(reach, &mut |_, _, _| {})?)),
     };
     let c = file.coupling;
     let predicted_at = |s: &Series, k: usize| (k <= s.order()).then(|| in_file(s.coeff(k), k, c));

@@ -527,7 +527,7 @@ mod tests {
     }
 
     fn located(text: &str) -> Located {
-        Located { text: text.to_string(), expr: parse(text, "<test>", None).unwrap(), line: 1, column: 1 }
+        Located::standalone(text, parse(text, "<test>", None).unwrap())
     }
 
     fn close(x: &Float, y: f64, tol: f64) -> bool {

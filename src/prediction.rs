@@ -9,15 +9,23 @@ use std::collections::HashMap;
 
 use rug::Rational;
 
-use crate::catalogue::{Catalogue, Entry};
+use crate::catalogue::{looks_like_name, Catalogue, Entry, Status};
+use crate::coupling::Coupling;
 use crate::error::{Error, Result};
-use crate::expr::{self, Angle, Expr, FunctionalKind, Node, Span};
+use crate::expr::{self, Angle, Expr, FunctionalKind, Node, Site, Span};
+use crate::seriesfile::SeriesFile;
+use crate::suggest::did_you_mean;
 use crate::kernel::{self, Functional, Tilt};
 use crate::ring::{Exact, Monomial};
 use crate::series::Series;
 
 /// The name of the coupling in formulas.
 pub const COUPLING: &str = "g";
+
+/// How many catalogue definitions may stand inside one another (`a` defined
+/// through `b` defined through ...); far above any real catalogue, low
+/// enough to stop a cycle of user entries at once.
+const MAX_NAME_DEPTH: usize = 16;
 
 /// A quantity the user named: the text of its formula and where it came from.
 #[derive(Clone, Debug)]
@@ -26,76 +34,274 @@ pub struct Quantity {
     pub label: String,
     /// The formula in the coefficient language.
     pub definition: String,
-    /// The catalogue entry, when the user named one.
+    /// The catalogue entry, when the user named one; for a formula built
+    /// from catalogue quantities, an entry describing it (its status is a
+    /// conjecture as soon as one ingredient is).
     pub entry: Option<Entry>,
-    /// The parsed formula.
+    /// The parsed formula, with every catalogue name replaced by its definition.
     pub expr: Expr,
     /// The origin used in messages about the formula.
     pub origin: String,
-    /// Line and column of the formula's first character in its file, if any.
-    pub place: Option<(usize, usize)>,
+    /// Where the formula sits in a file, if it came from one.
+    pub site: Option<Site>,
+}
+
+/// The names a formula may use besides the coupling `g` and the catalogue.
+#[derive(Clone, Copy, Default)]
+pub struct Scope<'a> {
+    /// Kinematic symbols declared by a file; they stay symbols.
+    pub symbols: &'a [String],
+    /// Names defined earlier in the same command (basis elements of a fit).
+    pub local: &'a [(String, Expr)],
 }
 
 impl Quantity {
     /// Reads a QUANTITY argument: a catalogue name, or a formula.
     pub fn resolve(text: &str, catalogue: &Catalogue) -> Result<Quantity> {
-        let trimmed = text.trim();
-        let looks_like_name = trimmed.chars().next().is_some_and(|c| c.is_ascii_alphabetic())
-            && trimmed.chars().all(|c| c.is_ascii_alphanumeric() || c == '-' || c == '_');
-        if let Some(entry) = catalogue.get(trimmed) {
-            return Quantity::from_entry(entry);
-        }
-        if looks_like_name && !matches!(trimmed, COUPLING) {
-            catalogue.lookup(trimmed)?;
-        }
-        let expr = expr::parse(trimmed, "<quantity>", None)?;
-        Ok(Quantity {
-            label: trimmed.to_string(),
-            definition: trimmed.to_string(),
-            entry: None,
-            expr,
-            origin: "<quantity>".to_string(),
-            place: None,
-        })
+        Quantity::resolve_in(text, catalogue, Scope::default())
     }
 
-    pub fn from_entry(entry: &Entry) -> Result<Quantity> {
+    /// Reads a catalogue name or a formula that may use the names of `scope`.
+    pub fn resolve_in(text: &str, catalogue: &Catalogue, scope: Scope<'_>) -> Result<Quantity> {
+        let trimmed = text.trim();
+        if let Some(entry) = catalogue.get_in_formula(trimmed) {
+            return Quantity::from_entry(entry, catalogue);
+        }
+        if looks_like_name(trimmed) && trimmed != COUPLING && !scope.local.iter().any(|(n, _)| n == trimmed) {
+            catalogue.lookup(trimmed)?;
+        }
+        let origin = "<quantity>";
+        let masked = catalogue.mask_hyphens(trimmed);
+        let expr = expr::parse(&masked, origin, None)?;
+        let fail = |span: Span, message: &str| expr::error_at(trimmed, origin, None, span, message);
+        Quantity::formula(trimmed, expr, origin, None, catalogue, scope, &fail)
+    }
+
+    pub fn from_entry(entry: &Entry, catalogue: &Catalogue) -> Result<Quantity> {
         let origin = format!("definition of `{}` ({})", entry.name, entry.origin);
-        let expr = expr::parse(&entry.definition, &origin, None)?;
+        let expr = Resolver::new(catalogue, Scope::default()).definition(entry, &mut Vec::new())?;
         Ok(Quantity {
             label: entry.name.clone(),
             definition: entry.definition.clone(),
             entry: Some(entry.clone()),
             expr,
             origin,
-            place: None,
+            site: None,
         })
     }
 
-    /// A formula read from a file, keeping its place for messages.
-    pub fn from_formula(text: &str, expr: Expr, origin: &str, place: (usize, usize)) -> Quantity {
-        Quantity {
-            label: text.trim().to_string(),
-            definition: text.to_string(),
-            entry: None,
-            expr,
-            origin: origin.to_string(),
-            place: Some(place),
+    /// The `prediction` of a series file: a catalogue name, or a formula
+    /// that may use the catalogue and the file's declared symbols. Errors
+    /// point at the file's own line.
+    pub fn from_file(file: &SeriesFile, catalogue: &Catalogue) -> Result<Option<Quantity>> {
+        let Some(located) = &file.prediction else { return Ok(None) };
+        if let Some(name) = file.catalogue_name() {
+            if !file.symbols.iter().any(|s| s == name) {
+                let entry = match catalogue.get_in_formula(name) {
+                    Some(entry) => entry,
+                    None => {
+                        let lead = located.text.len() - located.text.trim_start().len();
+                        let span = Span { start: lead, end: lead + name.len() };
+                        let message = catalogue.lookup(name).err().map(|e| e.message().to_string()).unwrap_or_default();
+                        return Err(located.error_at(&file.origin, span, &message));
+                    }
+                };
+                return Quantity::from_entry(entry, catalogue).map(Some);
+            }
         }
+        let masked = catalogue.mask_hyphens(&located.text);
+        let expr = expr::parse_unrendered(&masked).map_err(|f| located.error_at(&file.origin, f.span, &f.message))?;
+        let fail = |span: Span, message: &str| located.error_at(&file.origin, span, message);
+        let scope = Scope { symbols: &file.symbols, local: &[] };
+        Quantity::formula(&located.text, expr, &file.origin, Some(located.site.clone()), catalogue, scope, &fail).map(Some)
+    }
+
+    fn formula(
+        text: &str,
+        expr: Expr,
+        origin: &str,
+        site: Option<Site>,
+        catalogue: &Catalogue,
+        scope: Scope<'_>,
+        fail: &dyn Fn(Span, &str) -> Error,
+    ) -> Result<Quantity> {
+        let mut resolver = Resolver::new(catalogue, scope);
+        let expr = resolver.walk(expr, &mut Vec::new(), fail)?;
+        let label = text.trim().to_string();
+        let entry = composite_entry(&label, &resolver.used);
+        Ok(Quantity { label, definition: text.to_string(), entry, expr, origin: origin.to_string(), site })
     }
 
     /// The exact series through g^(2 loops).
     pub fn expand(&self, loops: u32, progress: &mut dyn FnMut(&str, usize, usize)) -> Result<Series> {
-        let mut ev = Expander { source: &self.definition, origin: &self.origin, place: self.place, loops, cache: HashMap::new(), progress };
+        let mut ev = Expander { source: &self.definition, origin: &self.origin, site: self.site.as_ref(), loops, cache: HashMap::new(), progress };
         ev.series(&self.expr)
     }
+
+    /// Renders an evaluation failure at its span in the formula.
+    pub fn error_at(&self, span: Span, message: &str) -> Error {
+        expr::error_at(&self.definition, &self.origin, self.site.as_ref(), span, message)
+    }
+}
+
+/// An entry that describes a formula built from catalogue quantities, so
+/// that reports carry their status (a conjecture as soon as one ingredient
+/// is one) and their references. None when the formula uses no entry.
+fn composite_entry(label: &str, used: &[Entry]) -> Option<Entry> {
+    let first = used.first()?;
+    let conjectures: Vec<&str> = used.iter().filter(|e| e.status == Status::Conjecture).map(|e| e.name.as_str()).collect();
+    let names: Vec<&str> = used.iter().map(|e| e.name.as_str()).collect();
+    let mut references: Vec<String> = Vec::new();
+    for r in used.iter().flat_map(|e| e.references.iter()) {
+        if !references.contains(r) {
+            references.push(r.clone());
+        }
+    }
+    let note = if conjectures.is_empty() {
+        format!("Built from {}.", names.join(", "))
+    } else {
+        format!("Built from {}; {} rests on a conjecture of the literature.", names.join(", "), conjectures.join(", "))
+    };
+    Some(Entry {
+        name: label.to_string(),
+        summary: format!("formula in the catalogue quantities {}", names.join(", ")),
+        definition: label.to_string(),
+        coupling: if used.iter().all(|e| e.coupling == first.coupling) { first.coupling } else { Coupling::G2 },
+        status: if conjectures.is_empty() { Status::Established } else { Status::Conjecture },
+        note: Some(note),
+        references,
+        closed_form: None,
+        strong_coupling: None,
+        origin: "a formula".to_string(),
+    })
+}
+
+/// Replaces the names in a formula by what they stand for, and refuses
+/// every name that stands for nothing.
+struct Resolver<'a> {
+    catalogue: &'a Catalogue,
+    scope: Scope<'a>,
+    /// Catalogue entries the formula uses, each once, in the order met.
+    used: Vec<Entry>,
+}
+
+impl<'a> Resolver<'a> {
+    fn new(catalogue: &'a Catalogue, scope: Scope<'a>) -> Self {
+        Resolver { catalogue, scope, used: Vec::new() }
+    }
+
+    /// The parsed and resolved definition of an entry; `trail` holds the
+    /// entries whose definitions are being resolved, to catch cycles.
+    fn definition(&mut self, entry: &Entry, trail: &mut Vec<String>) -> Result<Expr> {
+        if trail.contains(&entry.name) || trail.len() >= MAX_NAME_DEPTH {
+            trail.push(entry.name.clone());
+            return Err(Error::input(format!(
+                "the catalogue definitions refer to each other in a cycle: {}",
+                trail.join(" -> ")
+            )));
+        }
+        let origin = format!("definition of `{}` ({})", entry.name, entry.origin);
+        let masked = self.catalogue.mask_hyphens(&entry.definition);
+        let parsed = expr::parse(&masked, &origin, None)?;
+        trail.push(entry.name.clone());
+        // Inside a definition only the catalogue and the coupling count.
+        let outer = std::mem::take(&mut self.scope);
+        let fail = |span: Span, message: &str| expr::error_at(&entry.definition, &origin, None, span, message);
+        let resolved = self.walk(parsed, trail, &fail);
+        self.scope = outer;
+        trail.pop();
+        resolved
+    }
+
+    fn walk(&mut self, e: Expr, trail: &mut Vec<String>, fail: &dyn Fn(Span, &str) -> Error) -> Result<Expr> {
+        let span = e.span;
+        let boxed = |r: &mut Self, x: Box<Expr>, t: &mut Vec<String>| r.walk(*x, t, fail).map(Box::new);
+        let node = match e.node {
+            Node::Symbol(name) => return self.name(name, span, trail, fail),
+            Node::Log(a) => Node::Log(boxed(self, a, trail)?),
+            Node::Neg(a) => Node::Neg(boxed(self, a, trail)?),
+            Node::Functional { kind, angle } => Node::Functional {
+                kind,
+                angle: match angle {
+                    Angle::Radians(a) => Angle::Radians(boxed(self, a, trail)?),
+                    Angle::Cos2(a) => Angle::Cos2(boxed(self, a, trail)?),
+                    Angle::SymbolicCos2 => Angle::SymbolicCos2,
+                },
+            },
+            Node::Add(a, b) => Node::Add(boxed(self, a, trail)?, boxed(self, b, trail)?),
+            Node::Sub(a, b) => Node::Sub(boxed(self, a, trail)?, boxed(self, b, trail)?),
+            Node::Mul(a, b) => Node::Mul(boxed(self, a, trail)?, boxed(self, b, trail)?),
+            Node::Div(a, b) => Node::Div(boxed(self, a, trail)?, boxed(self, b, trail)?),
+            Node::Pow(a, b) => Node::Pow(boxed(self, a, trail)?, boxed(self, b, trail)?),
+            leaf => leaf,
+        };
+        Ok(Expr { node, span })
+    }
+
+    fn name(&mut self, name: String, span: Span, trail: &mut Vec<String>, fail: &dyn Fn(Span, &str) -> Error) -> Result<Expr> {
+        if name == COUPLING || self.scope.symbols.contains(&name) {
+            return Ok(Expr { node: Node::Symbol(name), span });
+        }
+        if let Some((_, e)) = self.scope.local.iter().find(|(n, _)| *n == name) {
+            return Ok(respan(e.clone(), span));
+        }
+        if let Some(entry) = self.catalogue.get_in_formula(&name).cloned() {
+            let e = self.definition(&entry, trail)?;
+            if !self.used.iter().any(|u| u.name == entry.name) {
+                self.used.push(entry);
+            }
+            return Ok(respan(e, span));
+        }
+        let known = self
+            .catalogue
+            .names()
+            .chain(self.scope.symbols.iter().map(String::as_str))
+            .chain(self.scope.local.iter().map(|(n, _)| n.as_str()));
+        let declared = if self.scope.symbols.is_empty() {
+            String::new()
+        } else {
+            format!(" nor a declared symbol ({})", self.scope.symbols.join(", "))
+        };
+        Err(fail(
+            span,
+            &format!(
+                "unknown name `{name}`: not a catalogue quantity{declared}{}; `loopwise list` shows the catalogue",
+                did_you_mean(&name, known)
+            ),
+        ))
+    }
+}
+
+/// The tree with every span set to `span`: a name replaced by its
+/// definition is reported where the name was written.
+fn respan(mut e: Expr, span: Span) -> Expr {
+    e.span = span;
+    e.node = match e.node {
+        Node::Log(a) => Node::Log(Box::new(respan(*a, span))),
+        Node::Neg(a) => Node::Neg(Box::new(respan(*a, span))),
+        Node::Functional { kind, angle } => Node::Functional {
+            kind,
+            angle: match angle {
+                Angle::Radians(a) => Angle::Radians(Box::new(respan(*a, span))),
+                Angle::Cos2(a) => Angle::Cos2(Box::new(respan(*a, span))),
+                Angle::SymbolicCos2 => Angle::SymbolicCos2,
+            },
+        },
+        Node::Add(a, b) => Node::Add(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
+        Node::Sub(a, b) => Node::Sub(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
+        Node::Mul(a, b) => Node::Mul(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
+        Node::Div(a, b) => Node::Div(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
+        Node::Pow(a, b) => Node::Pow(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
+        leaf => leaf,
+    };
+    e
 }
 
 /// Walks a formula into a series, remembering kernel expansions.
 pub struct Expander<'a> {
     pub source: &'a str,
     pub origin: &'a str,
-    pub place: Option<(usize, usize)>,
+    pub site: Option<&'a Site>,
     pub loops: u32,
     pub cache: HashMap<(Functional, Tilt), Series>,
     pub progress: &'a mut dyn FnMut(&str, usize, usize),
@@ -103,7 +309,7 @@ pub struct Expander<'a> {
 
 impl Expander<'_> {
     fn fail(&self, span: Span, message: &str) -> Error {
-        expr::error_at(self.source, self.origin, self.place, span, message)
+        expr::error_at(self.source, self.origin, self.site, span, message)
     }
 
     fn constant(&self, c: Exact) -> Series {
@@ -234,7 +440,7 @@ impl Expander<'_> {
         let mut inner = Expander {
             source: self.source,
             origin: self.origin,
-            place: self.place,
+            site: self.site,
             loops: 0,
             cache: HashMap::new(),
             progress: &mut |_, _, _| {},

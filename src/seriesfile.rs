@@ -41,9 +41,12 @@
 //!   and then `value` must be a plain number without an uncertainty of its own.
 //! - Numbers may be written unquoted (`value: 0.1000000000000000000001`):
 //!   the text is taken exactly as written, never through a binary float.
-//! - A coefficient (and a formula in `prediction`) may use the coupling `g`
-//!   and the symbols listed under `symbols`, nothing else. A `prediction`
-//!   that is a single bare name is a catalogue name.
+//! - A coefficient is a number: it may use the symbols listed under
+//!   `symbols` and nothing else, not the coupling `g` (the loop order says
+//!   which power of g it multiplies).
+//! - A `prediction` that is a single name is a catalogue name; a formula may
+//!   use the coupling `g`, the declared symbols and catalogue names
+//!   (`3*octagon - cusp`, `scaling-function/2`); anything else is an error.
 //! - `about` is kept as flattened `key: value` text (nested keys joined with
 //!   dots) for reports; its top-level numbers keep their written form.
 //! - Entries are kept in the order written.
@@ -56,12 +59,13 @@
 
 use std::fmt;
 use std::path::Path;
+use std::sync::Arc;
 
 use serde::de::{self, Deserialize, Deserializer, IgnoredAny, MapAccess, Visitor};
 
 use crate::coupling::Coupling;
 use crate::error::{Error, ErrorKind, Result};
-use crate::expr::{self, line_column, Expr, Node, Span};
+use crate::expr::{self, line_column, Expr, Node, Site, Span};
 
 /// Largest accepted series file, in bytes.
 pub const MAX_FILE_BYTES: usize = 16 << 20;
@@ -87,12 +91,11 @@ pub struct SeriesFile {
 }
 
 impl SeriesFile {
-    /// The catalogue name, when `prediction` is a single bare name.
+    /// The catalogue name, when `prediction` is a single name (letters,
+    /// digits, `-` and `_`, as catalogue names are written), not a formula.
     pub fn catalogue_name(&self) -> Option<&str> {
-        match &self.prediction.as_ref()?.expr.node {
-            Node::Symbol(name) => Some(name),
-            _ => None,
-        }
+        let text = self.prediction.as_ref()?.text.trim();
+        crate::catalogue::looks_like_name(text).then_some(text)
     }
 }
 
@@ -120,12 +123,21 @@ pub struct Located {
     pub expr: Expr,
     pub line: usize,
     pub column: usize,
+    /// The file itself, so that later messages (evaluation errors, names
+    /// the catalogue does not know) are shown on the file's own line.
+    pub site: Site,
 }
 
 impl Located {
-    /// An error at a span of this expression, pointing into the file.
+    /// Wraps a text that stands on its own (an argument, a test), as if it
+    /// were a one-line file.
+    pub fn standalone(text: &str, expr: Expr) -> Located {
+        Located { text: text.to_string(), expr, line: 1, column: 1, site: Site { file: Arc::from(text), start: 0 } }
+    }
+
+    /// An error at a span of this expression, shown on the file's own line.
     pub fn error_at(&self, origin: &str, span: expr::Span, message: &str) -> Error {
-        expr::error_at(&self.text, origin, Some((self.line, self.column)), span, message)
+        self.site.render(ErrorKind::Input, &self.text, origin, span, message)
     }
 }
 
@@ -164,8 +176,63 @@ pub fn parse_series_text(text: &str, origin: &str) -> Result<SeriesFile> {
             "{origin} is empty; a series file needs at least `coupling` and `orders`"
         )));
     }
+    // Editors on some systems start UTF-8 files with a byte-order mark; it
+    // is not part of the YAML, and left in it hides the real content.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    check_depth(text, origin)?;
     let raw: RawFile<'_> = serde_yaml::from_str(text).map_err(|e| Error::input(format!("{origin}: {e}")))?;
-    Reader { text, origin }.check(raw)
+    Reader { text, origin, file: Arc::from(text) }.check(raw)
+}
+
+/// Deepest nesting of YAML collections accepted. A series file needs three
+/// levels (the file, `orders`, an entry); `about` may nest a few more. The
+/// YAML parser's cost grows quadratically with the depth of flow
+/// collections, so a pathological file is refused before it is parsed.
+pub const MAX_YAML_DEPTH: usize = 64;
+
+/// Refuses over-deep nesting in one linear pass: flow brackets (`[`, `{`)
+/// outside quoted text and comments, and compact block nesting (`- - - x`).
+fn check_depth(text: &str, origin: &str) -> Result<()> {
+    let refuse = |line: usize, column: usize| {
+        Err(Error::input(format!(
+            "{origin}:{line}:{column}: collections nested more than {MAX_YAML_DEPTH} deep; \
+             a series file needs three levels (file, `orders`, entry)"
+        )))
+    };
+    let mut flow = 0usize;
+    for (index, line) in text.lines().enumerate() {
+        let mut rest = line.trim_start();
+        let mut compact = 0usize;
+        while let Some(r) = rest.strip_prefix("- ").or_else(|| rest.strip_prefix("? ")) {
+            compact += 1;
+            if compact > MAX_YAML_DEPTH {
+                return refuse(index + 1, line.len() - r.len());
+            }
+            rest = r.trim_start();
+        }
+        let mut quote: Option<char> = None;
+        let mut previous = ' ';
+        for (column, c) in line.chars().enumerate() {
+            match quote {
+                Some(q) if c == q => quote = None,
+                Some(_) => {}
+                // A quote opens a quoted scalar only where a token starts;
+                // elsewhere (`group's`) it is part of plain text.
+                None if (c == '"' || c == '\'') && (previous.is_whitespace() || "[{,:".contains(previous)) => quote = Some(c),
+                None if c == '#' && previous.is_whitespace() => break,
+                None if c == '[' || c == '{' => {
+                    flow += 1;
+                    if flow > MAX_YAML_DEPTH {
+                        return refuse(index + 1, column + 1);
+                    }
+                }
+                None if c == ']' || c == '}' => flow = flow.saturating_sub(1),
+                None => {}
+            }
+            previous = c;
+        }
+    }
+    Ok(())
 }
 
 // ---------------------------------------------------------------------------
@@ -325,6 +392,17 @@ impl<'de> Deserialize<'de> for RawOrder<'de> {
 struct Reader<'a> {
     text: &'a str,
     origin: &'a str,
+    file: Arc<str>,
+}
+
+/// What names an expression of the file may use.
+#[derive(Clone, Copy)]
+enum Names<'s> {
+    /// A loop coefficient: a number, so only the declared kinematic symbols.
+    Coefficient(&'s [String]),
+    /// The prediction: checked later against the catalogue and the declared
+    /// symbols, where the catalogue is known.
+    Later,
 }
 
 fn suggestion(key: &str, known: &[&str]) -> String {
@@ -389,36 +467,44 @@ impl<'a> Reader<'a> {
     }
 
     /// Parses a value as an expression; errors are shown on the file's own
-    /// line, and symbols are checked against `symbols` when given.
-    fn expression(&self, key: &Tok<'_>, value: &Tok<'_>, symbols: Option<&[String]>) -> Result<Located> {
+    /// line, and the names it uses are checked as `names` says.
+    fn expression(&self, key: &Tok<'_>, value: &Tok<'_>, names: Names<'_>) -> Result<Located> {
         let start = self.value_offset(key, value).unwrap_or(0);
         let (line, column) = self.position(Some(start));
         let text = value.text().to_string();
         let expr = expr::parse_unrendered(&text)
             .map_err(|f| self.error_in_file(ErrorKind::Parse, start, &text, f.span, &f.message))?;
-        if let Some(symbols) = symbols {
+        if let Names::Coefficient(symbols) = names {
             self.check_symbols(start, &text, &expr, symbols)?;
         }
-        Ok(Located { text, expr, line, column })
+        Ok(Located { text, expr, line, column, site: Site { file: self.file.clone(), start } })
     }
 
     /// Renders an error at a span of a value's text, shown on the line of
     /// the file where that text sits.
     fn error_in_file(&self, kind: ErrorKind, start: usize, text: &str, span: Span, message: &str) -> Error {
-        let map = align(self.text, start, text);
-        let at = |i: usize| map.get(i).copied().unwrap_or(start);
-        expr::render(kind, self.text, self.origin, None, Span { start: at(span.start), end: at(span.end) }, message)
+        Site { file: self.file.clone(), start }.render(kind, text, self.origin, span, message)
     }
 
+    /// A loop coefficient multiplies a fixed power of the coupling, so it is
+    /// a number: it may use the declared kinematic symbols, not `g`.
     fn check_symbols(&self, start: usize, text: &str, expr: &Expr, symbols: &[String]) -> Result<()> {
         let mut bad = None;
         expr::for_each_symbol(expr, &mut |name, span| {
-            if bad.is_none() && name != "g" && !symbols.iter().any(|s| s == name) {
+            if bad.is_none() && !symbols.iter().any(|s| s == name) {
                 bad = Some((name.to_string(), span));
             }
         });
         match bad {
             None => Ok(()),
+            Some((name, span)) if name == crate::prediction::COUPLING => Err(self.error_in_file(
+                ErrorKind::Input,
+                start,
+                text,
+                span,
+                "a loop coefficient cannot contain the coupling `g`: it is the number that multiplies \
+                 the power of the coupling named by `loop` (write the g^2 and g^4 terms as separate orders)",
+            )),
             Some((name, span)) => {
                 let declared = if symbols.is_empty() {
                     "none are declared".to_string()
@@ -516,11 +602,7 @@ impl<'a> Reader<'a> {
 
         let prediction = match prediction {
             None => None,
-            Some((k, v)) => {
-                // A single bare name is a catalogue name, not a symbol.
-                let bare = matches!(expr::parse_unrendered(v.text()), Ok(Expr { node: Node::Symbol(_), .. }));
-                Some(self.expression(k, v, (!bare).then_some(symbols.as_slice()))?)
-            }
+            Some((k, v)) => Some(self.expression(k, v, Names::Later)?),
         };
 
         let (okey, list) = orders_raw
@@ -605,11 +687,11 @@ impl<'a> Reader<'a> {
             )));
         }
         let exact = match exact {
-            Some((k, v)) => Some(self.expression(k, v, Some(symbols))?),
+            Some((k, v)) => Some(self.expression(k, v, Names::Coefficient(symbols))?),
             None => None,
         };
         let value = match (value, uncertainty) {
-            (Some((k, v)), None) => Some(self.expression(k, v, Some(symbols))?),
+            (Some((k, v)), None) => Some(self.expression(k, v, Names::Coefficient(symbols))?),
             (Some((k, v)), Some((uk, uv))) => Some(self.value_with_uncertainty(k, v, uk, uv)?),
             (None, Some((uk, _))) => {
                 return Err(Error::input(format!(
@@ -625,8 +707,8 @@ impl<'a> Reader<'a> {
     /// `value: -1240.9` with `uncertainty: 0.2` becomes the literal
     /// `-1240.9 ± 0.2`.
     fn value_with_uncertainty(&self, k: &Tok<'_>, v: &Tok<'_>, uk: &Tok<'_>, uv: &Tok<'_>) -> Result<Located> {
-        let mut located = self.expression(k, v, None)?;
-        let u = self.expression(uk, uv, None)?;
+        let mut located = self.expression(k, v, Names::Coefficient(&[]))?;
+        let u = self.expression(uk, uv, Names::Coefficient(&[]))?;
         let (uline, ucolumn) = (u.line, u.column);
         let u = u.expr;
         let u_value = match u.node {
@@ -689,38 +771,6 @@ impl<'a> Reader<'a> {
         let rest = rest.split(" #").next()?.trim();
         (!rest.is_empty()).then(|| rest.to_string())
     }
-}
-
-/// For each byte offset of `text` (and its end), the offset in `file` where
-/// that character was written, for a value whose text starts at `start`.
-/// Exact when the value was copied verbatim; for values folded over lines,
-/// block scalars and escapes it follows the characters that do match, which
-/// keeps errors on the right line.
-fn align(file: &str, start: usize, text: &str) -> Vec<usize> {
-    const LOOKAHEAD: usize = 64;
-    let mut map = vec![start; text.len() + 1];
-    let mut at = start.min(file.len());
-    for (i, c) in text.char_indices() {
-        let mut end = (at + LOOKAHEAD).min(file.len());
-        while !file.is_char_boundary(end) {
-            end -= 1;
-        }
-        let window = file.get(at..end).unwrap_or("");
-        let found = if c.is_whitespace() {
-            window.find(char::is_whitespace)
-        } else {
-            window.find(c)
-        };
-        let here = found.map_or(at, |k| at + k);
-        for slot in &mut map[i..i + c.len_utf8()] {
-            *slot = here;
-        }
-        if found.is_some() {
-            at = here + file[here..].chars().next().map_or(0, char::len_utf8);
-        }
-    }
-    map[text.len()] = at;
-    map
 }
 
 /// The literal text of a negated integer given with a separate uncertainty:

@@ -1,7 +1,9 @@
 //! Series files from the outside: a full valid file, and each kind of
 //! mistake with the file, line and column its message must name.
 
+use loopwise::catalogue::Catalogue;
 use loopwise::coupling::Coupling;
+use loopwise::prediction::Quantity;
 use loopwise::error::ErrorKind;
 use loopwise::expr::{parse, Node};
 use loopwise::seriesfile::{parse_series_text, read_series_file, Normalisation};
@@ -28,7 +30,7 @@ orders:
   - loop: 5
     value: "-1240.9(2)"
   - loop: 6
-    exact: 2 l1 l2 + g*l3
+    exact: 2 l1 l2 + 3*l3
     value: 0.1000000000000000000001
   - loop: 7
     value: -1240.9
@@ -154,9 +156,13 @@ fn expression_errors_point_into_the_file() {
     let text = "coupling: g2\nsymbols: [l1]\norders:\n  - loop: 1\n    exact: 2 l1 x\n";
     let e = err(text);
     assert!(e.message().starts_with("runs/cusp.yaml:5:17: undeclared symbol `x`"), "{e}");
+    // A prediction's names are checked against the catalogue as well, when
+    // the prediction is built; the message still points into the file.
     let text = "coupling: g2\nprediction: 'Gamma(pi/4) + y'\norders: [{loop: 1, exact: 1}]\n";
-    let e = err(text);
-    assert!(e.message().starts_with("runs/cusp.yaml:2:28: undeclared symbol `y`"), "{e}");
+    let file = parse_series_text(text, "runs/cusp.yaml").unwrap();
+    let e = Quantity::from_file(&file, &Catalogue::builtin().unwrap()).unwrap_err();
+    assert!(e.message().starts_with("runs/cusp.yaml:2:28: unknown name `y`"), "{e}");
+    assert!(e.message().contains("2 | prediction: 'Gamma(pi/4) + y'"), "{e}");
 }
 
 /// Values over several lines (block scalars, folded plain scalars, escapes)

@@ -147,6 +147,36 @@ impl Catalogue {
         })
     }
 
+    /// The entry a name written inside a formula stands for. A formula
+    /// cannot hold a hyphen inside a name (`a-b` is a difference), so
+    /// `scaling_function` stands for `scaling-function` too.
+    pub fn get_in_formula(&self, name: &str) -> Option<&Entry> {
+        self.get(name).or_else(|| self.get(&name.replace('_', "-")))
+    }
+
+    /// The formula text with the hyphens of catalogue names turned into
+    /// `_`, so that `2*scaling-function` parses as a product with one name.
+    /// The text keeps its length, so spans and columns still point into
+    /// what the user wrote.
+    pub fn mask_hyphens(&self, text: &str) -> String {
+        let mut out = text.to_string();
+        let mut names: Vec<&str> = self.names().filter(|n| n.contains('-')).collect();
+        names.sort_by_key(|n| std::cmp::Reverse(n.len()));
+        let word = |c: Option<char>| c.is_some_and(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-');
+        for name in names {
+            let mut from = 0;
+            while let Some(k) = out[from..].find(name) {
+                let at = from + k;
+                let end = at + name.len();
+                if !word(out[..at].chars().next_back()) && !word(out[end..].chars().next()) {
+                    out.replace_range(at..end, &name.replace('-', "_"));
+                }
+                from = end;
+            }
+        }
+        out
+    }
+
     pub fn names(&self) -> impl Iterator<Item = &str> {
         self.order.iter().map(String::as_str)
     }
@@ -154,6 +184,13 @@ impl Catalogue {
     pub fn entries(&self) -> impl Iterator<Item = &Entry> {
         self.order.iter().filter_map(|n| self.entries.get(n))
     }
+}
+
+/// Whether a text is written as a catalogue name is (a letter, then letters,
+/// digits, `-` and `_`) rather than as a formula.
+pub fn looks_like_name(text: &str) -> bool {
+    text.chars().next().is_some_and(|c| c.is_ascii_alphabetic())
+        && text.chars().all(|c| c.is_ascii_alphanumeric() || c == '-' || c == '_')
 }
 
 /// Reads one entry; errors name the file, line and column, and suggest keys.

@@ -255,13 +255,9 @@ pub fn check(
     use crate::kernel::MAX_LOOPS;
     use crate::prediction::Quantity;
 
-    let located = file.prediction.as_ref().ok_or_else(|| {
+    let quantity = Quantity::from_file(file, catalogue)?.ok_or_else(|| {
         Error::input(format!("{}: the file names no `prediction` to check against (a catalogue name or a formula)", file.origin))
     })?;
-    let quantity = match file.catalogue_name() {
-        Some(name) => Quantity::from_entry(catalogue.lookup(name).map_err(|e| e.context(&file.origin))?)?,
-        None => Quantity::from_formula(&located.text, located.expr.clone(), &file.origin, (located.line, located.column)),
-    };
     let prec = working_bits(digits);
     let mut supplied = Vec::new();
     for o in &file.orders {

@@ -32,7 +32,7 @@ pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
         let mut expander = Expander {
             source: &located.text,
             origin,
-            place: Some((located.line, located.column)),
+            site: Some(&located.site),
             loops: 0,
             cache: HashMap::new(),
             progress: &mut |_, _, _| {},

@@ -15,10 +15,14 @@
 //! `^` binds tighter than a sign (`-pi^2` is `-(pi^2)`) and groups to the
 //! right (`2^3^2` is `2^(3^2)`).
 //!
-//! Two readings to know about: a number glued to a bracket of digits is a
-//! number with an uncertainty (`1.5(3)` is 1.5 ± 0.3, and so is `15(3)`
-//! 15 ± 3), while `1.5 (3)` with a blank is a product; and `+-` right after a
-//! number literal is ±, so write `2 + -3` for a sum with a negative term.
+//! Readings to know about: a number glued to a bracket of digits is a
+//! number with an uncertainty in units of its last digit (`1.5(3)` is
+//! 1.5 ± 0.3, `15(3)` is 15 ± 3, `1.2e-3(1)` is 0.0012 ± 0.0001); a bracket
+//! with a decimal point holds the uncertainty itself (`4.0(1.5)` is
+//! 4.0 ± 1.5). A number before a bracket that holds only a number, with a
+//! blank or a sign (`3.9 (1)`, `4(-1)`), is refused as ambiguous, and so is
+//! a Fortran exponent (`1.2d3`). `+-` right after a number literal is ±, so
+//! write `2 + -3` for a sum with a negative term.
 
 pub mod numeric;
 mod parse;
@@ -27,7 +31,8 @@ mod report;
 use std::fmt;
 
 pub(crate) use parse::parse_unrendered;
-pub(crate) use report::{line_column, render};
+pub(crate) use report::line_column;
+pub use report::Site;
 pub use parse::{MAX_DEPTH, MAX_DIGITS, MAX_EXPONENT, MAX_NESTING, MAX_SOURCE_BYTES, MAX_ZETA_ARGUMENT, MAX_ZETA_DEPTH};
 
 use crate::error::{Error, ErrorKind, Result};
@@ -107,9 +112,13 @@ pub fn parse(source: &str, origin: &str, place: Option<(usize, usize)>) -> Resul
 
 /// Renders a semantic error (found later by an evaluator) at a span, in the
 /// same style as parse errors: origin:line:column, the line, a caret under
-/// the span, the message. The error's kind is [`ErrorKind::Input`].
-pub fn error_at(source: &str, origin: &str, place: Option<(usize, usize)>, span: Span, message: &str) -> Error {
-    report::render(ErrorKind::Input, source, origin, place, span, message)
+/// the span, the message. With a `site` the line shown is the file's own.
+/// The error's kind is [`ErrorKind::Input`].
+pub fn error_at(source: &str, origin: &str, site: Option<&Site>, span: Span, message: &str) -> Error {
+    match site {
+        Some(site) => site.render(ErrorKind::Input, source, origin, span, message),
+        None => report::render(ErrorKind::Input, source, origin, None, span, message),
+    }
 }
 
 /// Calls `visit` on every symbol in the tree (inside functionals and logs

@@ -211,8 +211,8 @@ pub fn written_digits(text: &str) -> u32 {
 }
 
 /// Renders an evaluation failure at its span in `source`.
-pub fn located(source: &str, origin: &str, place: Option<(usize, usize)>, failure: (super::Span, String)) -> Error {
-    super::error_at(source, origin, place, failure.0, &failure.1)
+pub fn located(source: &str, origin: &str, site: Option<&super::Site>, failure: (super::Span, String)) -> Error {
+    super::error_at(source, origin, site, failure.0, &failure.1)
 }
 
 #[cfg(test)]

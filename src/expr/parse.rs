@@ -222,10 +222,15 @@ fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Failure {
     let found = match ctx.source.get(at..).and_then(|rest| rest.chars().next()) {
         None => "the end of the expression".to_string(),
         Some(c) if c.is_whitespace() => "a blank".to_string(),
+        Some('`') => "a backtick".to_string(),
         Some(c) => format!("`{c}`"),
     };
     let width = ctx.source.get(at..).and_then(|r| r.chars().next()).map_or(0, char::len_utf8);
-    ctx.error(Span { start: at, end: at + width }, &format!("{message}, found {found}"))
+    let hint = match ctx.source.get(at..).and_then(|rest| rest.chars().next()) {
+        Some('`') => "; a Mathematica precision or accuracy mark (`20., ``30) is not part of the number: delete it, the digits written are what count",
+        _ => "",
+    };
+    ctx.error(Span { start: at, end: at + width }, &format!("{message}, found {found}{hint}"))
 }
 
 fn node(node: Node, span: Span, depth: usize, ctx: &Ctx<'_>) -> Fallible<Built> {
@@ -256,6 +261,17 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
             }
             Rule::add | Rule::sub | Rule::mul | Rule::div | Rule::implicit_mul => chain = 0,
             _ => {}
+        }
+    }
+    let tokens: Vec<Pair<'_, Rule>> = expr.clone().into_inner().collect();
+    for (k, p) in tokens.iter().enumerate() {
+        if p.as_rule() == Rule::number_lit {
+            fortran_exponent(ctx, p)?;
+            if let (Some(juxtaposed), Some(group)) = (tokens.get(k + 1), tokens.get(k + 2)) {
+                if juxtaposed.as_rule() == Rule::implicit_mul && group.as_rule() == Rule::group {
+                    bracketed_number(ctx, p, group)?;
+                }
+            }
         }
     }
     // `+` and `-` bind loosest, so the sequence splits at them into terms,
@@ -303,6 +319,56 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
         return items.try_fold(first, |acc, (negative, term)| combine(ctx, acc, negative, term));
     }
     balanced(ctx, built)
+}
+
+/// `1.2d3`, the exponent mark of Fortran output, would otherwise read as
+/// the product of 1.2 and a symbol `d3`.
+fn fortran_exponent(ctx: &Ctx<'_>, number: &Pair<'_, Rule>) -> Fallible<()> {
+    let end = number.as_span().end();
+    let rest = ctx.source[end..].as_bytes();
+    let digit_at = match rest {
+        [b'd' | b'D', b'+' | b'-', ..] => 2,
+        [b'd' | b'D', ..] => 1,
+        _ => return Ok(()),
+    };
+    if !rest.get(digit_at).is_some_and(u8::is_ascii_digit) {
+        return Ok(());
+    }
+    let tail = rest[digit_at..].iter().take_while(|b| b.is_ascii_digit()).count();
+    let span = Span { start: number.as_span().start(), end: end + digit_at + tail };
+    let text = &ctx.source[span.start..span.end];
+    Err(ctx.error(
+        span,
+        &format!(
+            "`{text}` looks like a Fortran exponent: write `{}` (or `{}*{}` for a product with a symbol)",
+            text.replacen(['d', 'D'], "e", 1),
+            number.as_str(),
+            &ctx.source[end..span.end]
+        ),
+    ))
+}
+
+/// A number before a bracket that holds a bare number (`3.9 (1)`,
+/// `4(-1)`, `2 (3)`) reads either as an uncertainty written carelessly or
+/// as a product; neither reading is safe to pick, so both are refused.
+fn bracketed_number(ctx: &Ctx<'_>, number: &Pair<'_, Rule>, group: &Pair<'_, Rule>) -> Fallible<()> {
+    let Some(inner) = group.clone().into_inner().find(|q| q.as_rule() == Rule::expr) else { return Ok(()) };
+    let parts: Vec<Rule> = inner.into_inner().map(|q| q.as_rule()).collect();
+    let Some((last, signs)) = parts.split_last() else { return Ok(()) };
+    if *last != Rule::number_lit || !signs.iter().all(|r| matches!(r, Rule::neg | Rule::pos)) {
+        return Ok(());
+    }
+    let span = Span { start: number.as_span().start(), end: group.as_span().end() };
+    let (n, g) = (number.as_str(), group.as_str());
+    let glued = number.as_span().end() == group.as_span().start();
+    let reading = if !signs.is_empty() && glued {
+        "an uncertainty in brackets cannot be negative".to_string()
+    } else if glued {
+        "a bracket glued to a number holds its uncertainty as plain digits (`3.9(1)`) or a plain decimal (`4.0(1.5)`)".to_string()
+    } else {
+        format!("ambiguous: for an uncertainty write `{n}{}` with no blank", g.replace(' ', ""))
+    };
+    Err(ctx.error(span, &format!("`{}`: {reading}; for a product write `{n}*{g}`", &ctx.source[span.start..span.end])))
 }
 
 /// Sums of more terms than this are joined as a balanced tree.
@@ -539,7 +605,12 @@ fn number_literal(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {
         (Some(_), Some((s, _))) => {
             return Err(ctx.error(s, "this number already has an uncertainty in brackets; give it one way only"));
         }
-        (Some(d), None) => Some(scaled(d, scale, main.exponent)),
+        // A bracket with a point holds the uncertainty itself (4.0(1.5) is
+        // 4.0 ± 1.5); one of bare digits counts units of the last written digit.
+        (Some(d), None) => Some(match d.split_once('.') {
+            Some((whole, fraction)) => scaled(&format!("{whole}{fraction}"), fraction.len(), main.exponent),
+            None => scaled(d, scale, main.exponent),
+        }),
         (None, Some((_, w))) => {
             let all = format!("{}{}", w.whole, w.fraction);
             Some(scaled(&all, w.fraction.len(), w.exponent))

@@ -3,9 +3,63 @@
 //! for the semantic checks done while building the tree, and by evaluators
 //! through `expr::error_at`.
 
+use std::sync::Arc;
+
 use crate::error::{Error, ErrorKind};
 
 use super::Span;
+
+/// Where a piece of text sits inside a larger file: the whole file and the
+/// byte offset at which the text starts. Messages about the text are then
+/// shown on the file's own line, with the file's own line and column, also
+/// when the text was folded over lines, quoted or escaped on its way out of
+/// the file.
+#[derive(Debug, Clone)]
+pub struct Site {
+    pub file: Arc<str>,
+    pub start: usize,
+}
+
+impl Site {
+    /// Renders a message at a span of `text` (which was read from this site).
+    pub fn render(&self, kind: ErrorKind, text: &str, origin: &str, span: Span, message: &str) -> Error {
+        let map = align(&self.file, self.start, text);
+        let at = |i: usize| map.get(i).copied().unwrap_or(self.start);
+        render(kind, &self.file, origin, None, Span { start: at(span.start), end: at(span.end) }, message)
+    }
+}
+
+/// For each byte offset of `text` (and its end), the offset in `file` where
+/// that character was written, for a value whose text starts at `start`.
+/// Exact when the value was copied verbatim; for values folded over lines,
+/// block scalars and escapes it follows the characters that do match, which
+/// keeps errors on the right line.
+fn align(file: &str, start: usize, text: &str) -> Vec<usize> {
+    const LOOKAHEAD: usize = 64;
+    let mut map = vec![start; text.len() + 1];
+    let mut at = start.min(file.len());
+    for (i, c) in text.char_indices() {
+        let mut end = (at + LOOKAHEAD).min(file.len());
+        while !file.is_char_boundary(end) {
+            end -= 1;
+        }
+        let window = file.get(at..end).unwrap_or("");
+        let found = if c.is_whitespace() {
+            window.find(char::is_whitespace)
+        } else {
+            window.find(c)
+        };
+        let here = found.map_or(at, |k| at + k);
+        for slot in &mut map[i..i + c.len_utf8()] {
+            *slot = here;
+        }
+        if found.is_some() {
+            at = here + file[here..].chars().next().map_or(0, char::len_utf8);
+        }
+    }
+    map[text.len()] = at;
+    map
+}
 
 /// Lines longer than this are shown as a window around the culprit, so a
 /// pasted 10,000-character coefficient does not flood the terminal.
