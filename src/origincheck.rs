@@ -27,7 +27,7 @@ use crate::originnum::{self, needs_numbers, NumBreakdown, NumPoly, NumTerm};
 use crate::prediction::{Expander, Quantity};
 use crate::ring::Exact;
 use crate::series::Series;
-use crate::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile, MAX_FILE_BYTES};
+use crate::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile};
 
 /// An origin file, read and checked: the coefficients as one series in g^2.
 #[derive(Clone, Debug)]
@@ -43,22 +43,10 @@ pub struct OriginData {
     pub numeric: Vec<u32>,
 }
 
-/// Reads an origin file from disk.
+/// Reads an origin file from disk, or from standard input when `path` is `-`.
 pub fn read_origin_file(path: &std::path::Path) -> Result<OriginData> {
-    parse_origin_text(&read_text(path)?, &path.display().to_string())
-}
-
-/// Reads a series file's text from disk, with the limits of series files.
-pub fn read_text(path: &std::path::Path) -> Result<String> {
-    let origin = path.display().to_string();
-    let meta = std::fs::metadata(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
-    if meta.len() > MAX_FILE_BYTES as u64 {
-        return Err(Error::input(format!("{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?")));
-    }
-    let bytes = std::fs::read(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
-    String::from_utf8(bytes).map_err(|e| {
-        Error::input(format!("{origin} is not UTF-8 text (bad byte at offset {})", e.utf8_error().valid_up_to()))
-    })
+    let (text, origin) = crate::seriesfile::read_input(path)?;
+    parse_origin_text(&text, &origin)
 }
 
 /// The line (from 1) where a top-level key is written, for messages about

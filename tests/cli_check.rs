@@ -8,7 +8,7 @@
 use std::path::PathBuf;
 mod common;
 
-use common::loopwise;
+use common::{loopwise, loopwise_with_stdin};
 
 
 fn write(name: &str, text: &str) -> PathBuf {
@@ -189,6 +189,62 @@ fn several_files_give_a_json_array_and_the_worst_exit_code() {
     assert_eq!(code, 1);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v.as_array().unwrap().len(), 2);
+}
+
+/// Item 7 of issue 8: an unusable file among several is one entry of the
+/// report (text, JSON and YAML), the others are still checked, and the exit
+/// code is 2 because one input could not be used.
+#[test]
+fn unreadable_file_among_many_is_reported_and_exits_2() {
+    let good = write("many-good.yaml", &cusp_file("g2", &[(1, "exact", "4")]));
+    let bad = write("many-bad.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exat: \"4\"\n");
+    let slip = write("many-slip.yaml", &cusp_file("g2", &[(1, "exact", "2"), (2, "exact", "-2 zeta(2)")]));
+    let paths = [good.to_str().unwrap(), bad.to_str().unwrap(), slip.to_str().unwrap()];
+    let (code, out, err) = loopwise(&["check", paths[0], paths[1], paths[2]]);
+    assert_eq!(code, 2, "{out}");
+    assert!(err.contains("many-bad.yaml") && err.contains("did you mean `exact`"), "{err}");
+    assert!(out.contains("many-good.yaml: checked against") && out.contains("many-slip.yaml: checked against"), "{out}");
+    assert!(out.contains("many-bad.yaml: not checked") && out.contains("line 5 column 5"), "{out}");
+    assert!(out.contains("convention a"), "the file after the bad one is diagnosed: {out}");
+
+    let (code, out, _) = loopwise(&["check", paths[0], paths[1], paths[2], "--format", "json"]);
+    assert_eq!(code, 2);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}"));
+    let entries = v.as_array().unwrap();
+    assert_eq!(entries.len(), 3);
+    assert_eq!(entries[0]["agrees"], true);
+    assert_eq!(entries[1]["agrees"], false);
+    assert!(entries[1]["file"].as_str().unwrap().ends_with("many-bad.yaml"));
+    assert!(entries[1]["error"].as_str().unwrap().contains("unknown key `exat`"), "{v}");
+    assert_eq!(entries[2]["orders"][0]["verdict"], "differs-exactly");
+
+    let (code, out, _) = loopwise(&["check", paths[0], paths[1], "--format", "yaml"]);
+    assert_eq!(code, 2);
+    let docs: Vec<&str> = out.split("---\n").filter(|d| !d.trim().is_empty()).collect();
+    assert_eq!(docs.len(), 2, "{out}");
+    assert!(docs[1].contains("agrees: false") && docs[1].contains("error:"), "{out}");
+    // A missing file among good ones is an entry too.
+    let (code, out, _) = loopwise(&["check", paths[0], "/nonexistent/many.yaml", "--format", "json"]);
+    assert_eq!(code, 2);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v[1]["file"], "/nonexistent/many.yaml");
+}
+
+/// Item 19 of issue 8 (part): `-` reads the series file from standard
+/// input, named `<stdin>` in messages and reports.
+#[test]
+fn dash_reads_the_series_file_from_standard_input() {
+    let (code, out, err) = loopwise_with_stdin(&["check", "-", "--format", "json"], &cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)")]));
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["file"], "<stdin>");
+    assert_eq!(v["summary"], "orders 1-2 agree");
+    let (code, _, err) = loopwise_with_stdin(&["check", "-"], "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4 +\"\n");
+    assert_eq!(code, 2);
+    assert!(err.contains("<stdin>:5:"), "{err}");
+    let (code, _, err) = loopwise_with_stdin(&["check", "-", "-"], "");
+    assert_eq!(code, 2);
+    assert!(err.contains("more than once"), "{err}");
 }
 
 /// The demo finds its planted mistake (five loops) and the numerical order.

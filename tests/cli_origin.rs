@@ -7,7 +7,7 @@
 use std::path::PathBuf;
 mod common;
 
-use common::loopwise;
+use common::{loopwise, loopwise_with_stdin};
 
 use loopwise::ring::{EvenStyle, Exact, Notation};
 use loopwise::series::Series;
@@ -287,6 +287,21 @@ fn unusable_input_exits_two_naming_file_and_line() {
     let (code, _, err) = loopwise(&["origin", "/nonexistent/origin.yaml"]);
     assert_eq!(code, 2);
     assert!(err.contains("/nonexistent/origin.yaml"), "{err}");
+}
+
+/// Item 19 of issue 8 (part): `origin -` reads standard input, named
+/// `<stdin>`; the one-loop E of the inversion formula above agrees.
+#[test]
+fn dash_reads_the_origin_file_from_standard_input() {
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 3*zeta(2)".into())]);
+    let (code, out, err) = loopwise_with_stdin(&["origin", "-", "--format", "json"], &text);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["file"], "<stdin>");
+    assert_eq!(v["orders"][0]["constant"]["verdict"], "agrees-exactly");
+    let (code, _, err) = loopwise_with_stdin(&["origin", "-"], &origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*l1^2 + x".into())]));
+    assert_eq!(code, 2);
+    assert!(err.contains("<stdin>:6:") && err.contains("`x`"), "{err}");
 }
 
 fn c0_file(orders: &[(u32, &str)]) -> String {

@@ -95,6 +95,27 @@ pub fn render(c: &Comparison, format: Format) -> Result<String> {
     }
 }
 
+/// The entry of a file that could not be checked, among the reports on
+/// several files: its name and the message, with `agrees: false` so that a
+/// pipeline reading only that field does not take it for a pass.
+#[derive(Serialize)]
+struct JsonUnusable<'a> {
+    file: &'a str,
+    agrees: bool,
+    error: &'a str,
+}
+
+pub fn render_unusable(file: &str, error: &Error, format: Format) -> Result<String> {
+    match format {
+        Format::Text => {
+            let message: String = error.message().lines().map(|l| format!("  {l}\n")).collect();
+            Ok(format!("{file}: not checked, the input cannot be used:\n{message}"))
+        }
+        Format::Json | Format::Yaml => serialized(&JsonUnusable { file, agrees: false, error: error.message() }, format),
+        Format::Latex => Err(Error::input("the check report comes as text, json or yaml")),
+    }
+}
+
 fn json(c: &Comparison) -> JsonReport {
     JsonReport {
         file: c.file.clone(),
