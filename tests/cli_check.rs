@@ -148,9 +148,39 @@ fn exact_and_value_must_agree_with_each_other() {
 fn formula_predictions_and_not_predicted_orders() {
     let text = "prediction: \"Gamma(pi/4) - 4 g^2\"\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"0\"\n  - loop: 2\n    exact: \"-8 zeta(2)\"\n  - loop: 51\n    value: \"1.0\"\n";
     let (code, v) = check_json("formula.yaml", text);
-    assert_eq!(code, 0, "{v}");
+    // Loop 51 is beyond the engine: not compared, so not a pass (issue 8, item 8).
+    assert_eq!(code, 1, "{v}");
+    assert_eq!(v["agrees"], false);
     assert_eq!(v["orders"][50]["verdict"], "not-predicted");
     assert_eq!(v["orders"][10]["verdict"], "not-supplied");
+    assert_eq!(v["orders"][1]["verdict"], "agrees-exactly");
+}
+
+/// Item 8 of issue 8: a file whose only order is beyond the 50 loops the
+/// engine reaches is not called agreement: exit 1, `agrees: false`, and the
+/// order is listed as not compared in JSON and text.
+#[test]
+fn orders_beyond_the_engine_are_not_compared_and_not_a_pass() {
+    let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 51\n    value: \"1.0\"\n";
+    let (code, v) = check_json("loop51.yaml", text);
+    assert_eq!(code, 1, "{v}");
+    assert_eq!(v["agrees"], false);
+    assert_eq!(v["not_compared"], serde_json::json!([51]));
+    assert_eq!(v["summary"], "orders 1-50 not supplied, order 51 not compared");
+    let path = write("loop51.yaml", text);
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 1);
+    assert!(out.contains("not compared: order 51 is beyond the 50 loops"), "{out}");
+    // Agreeing orders next to uncompared ones: still not a pass, and only the uncompared are listed.
+    let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n  - loop: 52\n    value: \"1.0\"\n  - loop: 53\n    value: \"2.0\"\n";
+    let (code, v) = check_json("loop53.yaml", text);
+    assert_eq!(code, 1, "{v}");
+    assert_eq!(v["not_compared"], serde_json::json!([52, 53]));
+    assert_eq!(v["orders"][0]["verdict"], "agrees-exactly");
+    // Everything compared and agreeing: an empty list and a pass.
+    let (code, v) = check_json("loop1.yaml", &cusp_file("g2", &[(1, "exact", "4")]));
+    assert_eq!(code, 0);
+    assert_eq!(v["not_compared"], serde_json::json!([]));
 }
 
 #[test]

@@ -84,7 +84,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     if let [only] = args.files.as_slice() {
         let c = checked(only)?;
         emit(&render(&c, format)?)?;
-        return Ok(if c.any_differs() { Outcome::Differs } else { Outcome::Done });
+        return Ok(if c.agrees() { Outcome::Done } else { Outcome::Differs });
     }
     let results: Vec<(String, Result<compare::Comparison>)> = args.files.iter().map(|p| (display_name(p), checked(p))).collect();
     let mut parts = Vec::new();
@@ -105,7 +105,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     emit(&text)?;
     Ok(if results.iter().any(|(_, r)| r.is_err()) {
         Outcome::Unusable
-    } else if results.iter().any(|(_, r)| r.as_ref().is_ok_and(compare::Comparison::any_differs)) {
+    } else if results.iter().any(|(_, r)| r.as_ref().is_ok_and(|c| !c.agrees())) {
         Outcome::Differs
     } else {
         Outcome::Done

@@ -1,7 +1,7 @@
 //! Command-line arguments (clap derive) and the one map from outcomes to exit
 //! codes: 0 when results were produced or everything agreed, 1 when a check
-//! finds a difference, 2 when input could not be used. Messages go to stderr, results
-//! alone to stdout.
+//! finds a difference or leaves a supplied order uncompared, 2 when input
+//! could not be used. Messages go to stderr, results alone to stdout.
 
 mod check;
 mod eval;

@@ -96,6 +96,17 @@ impl Comparison {
         self.orders.iter().any(|o| o.verdict.differs() || o.inconsistent.is_some())
     }
 
+    /// The supplied orders that were not compared (beyond the engine's reach).
+    pub fn not_compared(&self) -> Vec<u32> {
+        self.orders.iter().filter(|o| o.supplied.is_some() && matches!(o.verdict, Verdict::NotPredicted)).map(|o| o.loop_order).collect()
+    }
+
+    /// The verdict a pipeline acts on: every supplied order was compared and
+    /// agrees. An order that could not be compared is no evidence of agreement.
+    pub fn agrees(&self) -> bool {
+        !self.any_differs() && self.not_compared().is_empty()
+    }
+
     /// "orders 1-6 agree, order 7 differs".
     pub fn summary(&self) -> String {
         let class = |o: &OrderResult| -> &'static str {
@@ -104,7 +115,7 @@ impl Comparison {
             } else if o.verdict.agrees() {
                 "agree"
             } else if matches!(o.verdict, Verdict::NotPredicted) {
-                "not predicted"
+                "not compared"
             } else {
                 "not supplied"
             }

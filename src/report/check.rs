@@ -32,6 +32,8 @@ struct JsonReport {
     coupling: &'static str,
     status: Option<String>,
     agrees: bool,
+    /// Supplied orders that were not compared; `agrees` is false when there are any.
+    not_compared: Vec<u32>,
     orders: Vec<JsonOrder>,
     diagnoses: Vec<String>,
     summary: String,
@@ -123,7 +125,8 @@ fn json(c: &Comparison) -> JsonReport {
         definition: c.definition.clone(),
         coupling: c.coupling.name(),
         status: c.entry.as_ref().map(|e| e.status.to_string()),
-        agrees: !c.any_differs(),
+        agrees: c.agrees(),
+        not_compared: c.not_compared(),
         orders: c.orders.iter().map(json_order).collect(),
         diagnoses: c.diagnoses.iter().map(ToString::to_string).collect(),
         summary: c.summary(),
@@ -154,6 +157,20 @@ fn text(c: &Comparison) -> String {
         for d in &c.diagnoses {
             out.push_str(&format!("  - {d}\n"));
         }
+    }
+    let skipped = c.not_compared();
+    if !skipped.is_empty() {
+        let list = skipped.iter().map(u32::to_string).collect::<Vec<_>>().join(", ");
+        let (which, are) = if skipped.len() == 1 { ("order", "is") } else { ("orders", "are") };
+        out.push('\n');
+        out.push_str(&super::wrap(
+            &format!(
+                "not compared: {which} {list} {are} beyond the {} loops the prediction is expanded to, so the file \
+                 is not a pass even where every compared order agrees.",
+                crate::kernel::MAX_LOOPS
+            ),
+            88,
+        ));
     }
     out.push_str(&format!("\nsummary: {}\n", c.summary()));
     out
