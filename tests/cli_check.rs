@@ -115,6 +115,60 @@ fn scaling_function_sign_and_shift_slips_are_recognised() {
     assert!(v["diagnoses"][0].as_str().unwrap().contains("shifted by one"), "{v}");
 }
 
+fn diagnoses(v: &serde_json::Value) -> Vec<String> {
+    v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap().to_string()).collect()
+}
+
+/// Item 9 of issue 8: a file with one supplied order still gets the slip
+/// that makes it agree, and the diagnosis says it rests on that one order.
+/// The four-loop cusp coefficient (hep-th/0610251, header) in a = 2 g^2 is
+/// c_4 / 2^4 (README conventions); with its sign flipped it is -c_4.
+#[test]
+fn single_order_slip_is_diagnosed_and_says_it_rests_on_one_order() {
+    let in_a = format!("({FOUR})/16");
+    let (code, v) = check_json("one-order-a.yaml", &cusp_file("g2", &[(4, "exact", &in_a)]));
+    assert_eq!(code, 1);
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("convention a") && d[0].contains("rests on one supplied order"), "{d:?}");
+    let flipped = format!("-({FOUR})");
+    let (code, v) = check_json("one-order-sign.yaml", &cusp_file("g2", &[(4, "exact", &flipped)]));
+    assert_eq!(code, 1);
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("opposite sign") && d[0].contains("rests on one supplied order"), "{d:?}");
+    // A number known to its written digits: -937.43062784825 / 16 = -58.589414240516 (by hand).
+    let (_, v) = check_json("one-order-a-value.yaml", &cusp_file("g2", &[(4, "value", "-58.5894142405(1)")]));
+    assert!(diagnoses(&v).iter().any(|d| d.contains("convention a")), "{v}");
+    // Nothing is claimed when no slip makes the order agree.
+    let (code, v) = check_json("one-order-wrong.yaml", &cusp_file("g2", &[(4, "exact", "-877*zeta(6) - 32*zeta(3)^2")]));
+    assert_eq!(code, 1);
+    assert!(diagnoses(&v).iter().all(|d| !d.contains("convention") && !d.contains("sign")), "{v}");
+    // With two orders the caveat is not printed.
+    let (_, v) = check_json("two-orders-a.yaml", &cusp_file("g2", &[(1, "exact", "2"), (4, "exact", &in_a)]));
+    let d = diagnoses(&v);
+    assert!(d.iter().any(|d| d.contains("convention a")) && d.iter().all(|d| !d.contains("rests on")), "{d:?}");
+}
+
+/// Item 17 of issue 8: coefficients in g^2 declared as lambda are explained
+/// by the convention alone, without one weight line per order; a real weight
+/// slip in a lambda file is counted on the coefficient of g^(2L), where the
+/// cusp has uniform weight 2L - 2 (hep-th/0610251), not as "weight -2".
+#[test]
+fn lambda_convention_diagnosis_has_no_weight_noise() {
+    let g2_orders = [(1, "exact", "4"), (2, "exact", "-8 zeta(2)"), (3, "exact", "88 zeta(4)")];
+    let (code, v) = check_json("g2-declared-lambda.yaml", &cusp_file("lambda", &g2_orders));
+    assert_eq!(code, 1);
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("convention g2") && d[0].contains("`coupling: lambda`"), "{d:?}");
+    let lambda_orders = [(1, "exact", "4/(16 pi^2)"), (2, "exact", "-8 zeta(2)/(16 pi^2)^2"), (3, "exact", "(88 zeta(4) + zeta(3))/(16 pi^2)^3")];
+    let (_, v) = check_json("lambda-weight.yaml", &cusp_file("lambda", &lambda_orders));
+    let d = diagnoses(&v);
+    assert!(d.iter().any(|d| d.contains("order 3 mixes transcendental weights 3, 4; the prediction has weight 4")), "{d:?}");
+    assert!(d.iter().all(|d| !d.contains("weight -2")), "{d:?}");
+}
+
 /// A coefficient of the wrong transcendental weight is named (physics.md
 /// section 1: uniform weight 2L - 2).
 #[test]
