@@ -198,6 +198,52 @@ fn exact_and_value_must_agree_with_each_other() {
     assert_eq!(v["orders"][1]["inconsistent_value"], "differs-numerically");
 }
 
+/// Item 16 of issue 8: the row of an entry whose `value` disagrees with its
+/// own `exact` gives the size of the gap. -8 zeta(2) = -13.159472534785811
+/// (A&S 23.2.24), so -13.5(1) is 0.3405 = 3.41 of its stated 0.1 away.
+#[test]
+fn value_disagreeing_with_its_own_exact_shows_the_size() {
+    let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 2\n    exact: \"-8 zeta(2)\"\n    value: \"-13.5(1)\"\n";
+    let path = write("gap.yaml", text);
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 1);
+    let row = out.lines().find(|l| l.trim_start().starts_with("2 ")).unwrap();
+    assert!(row.contains("DIFF") && row.contains("value -13.5(1) disagrees with its exact"), "{row}");
+    assert!(row.contains("value - exact = -0.340527 = 3.41 sigma"), "{row}");
+    assert!(!row.contains(" ; "), "{row}");
+    let (_, v) = check_json("gap.yaml", text);
+    let gap = &v["orders"][1]["inconsistency"];
+    let d: f64 = gap["difference_value"].as_str().unwrap().parse().unwrap();
+    assert!((d + 0.340527465214).abs() < 1e-9, "{gap}");
+    assert_eq!(gap["sigmas"], "3.405");
+}
+
+/// Item 15 of issue 8: without a stated uncertainty the yardstick is the
+/// rounding bound of the written digits, and the report says so instead of
+/// "sigma"; a stated uncertainty keeps "sigma". -8 zeta(2) =
+/// -13.159472534785811 (A&S 23.2.24): -13.15948 is 7.465e-6 off, 1.49 of
+/// its bound 5e-6 (differs); -13.159 is 0.95 of 5e-4 (agrees).
+#[test]
+fn implied_uncertainty_is_worded_as_a_rounding_bound_not_sigma() {
+    let path = write("bound-differs.yaml", &cusp_file("g2", &[(2, "value", "-13.15948")]));
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 1);
+    let row = out.lines().find(|l| l.trim_start().starts_with("2 ")).unwrap();
+    assert!(row.contains("= 1.49 times the rounding bound of the written digits") && !row.contains("sigma"), "{row}");
+    let (_, v) = check_json("bound-differs.yaml", &cusp_file("g2", &[(2, "value", "-13.15948")]));
+    assert_eq!(v["orders"][1]["rounding_bounds"], "1.493");
+    assert!(v["orders"][1].get("sigmas").is_none(), "{v}");
+    let path = write("bound-agrees.yaml", &cusp_file("g2", &[(2, "value", "-13.159")]));
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 0);
+    assert!(out.contains("supplied -13.159, 0.95 times the rounding bound of the written digits"), "{out}");
+    // A stated uncertainty is a standard deviation: 1.7 sigma agrees and says so.
+    let (code, v) = check_json("stated.yaml", &cusp_file("g2", &[(2, "value", "-13.15949(1)")]));
+    assert_eq!(code, 0);
+    assert_eq!(v["orders"][1]["sigmas"], "1.747");
+    assert!(v["orders"][1].get("rounding_bounds").is_none(), "{v}");
+}
+
 #[test]
 fn formula_predictions_and_not_predicted_orders() {
     let text = "prediction: \"Gamma(pi/4) - 4 g^2\"\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"0\"\n  - loop: 2\n    exact: \"-8 zeta(2)\"\n  - loop: 51\n    value: \"1.0\"\n";

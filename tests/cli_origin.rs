@@ -574,6 +574,26 @@ fn one_loop_in_decimals() {
     assert!((float(&v["orders"][0]["constant"]["sigmas"]).to_f64() - 1000.0).abs() < 1.0, "{v}");
 }
 
+/// Item 15 of issue 8, for origin: C0 = -3 zeta(2) = -4.934802200544679
+/// (A&S 23.2.24) written -4.93481 with no stated uncertainty is 7.80e-6
+/// off, 1.56 of its rounding bound 5e-6, and the report words it so.
+#[test]
+fn origin_implied_uncertainty_is_worded_as_a_rounding_bound() {
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 4.93481".into())]);
+    let (code, v) = run_json("origin", "num-bound.yaml", &text, &[]);
+    assert_eq!(code, 1, "{v}");
+    let cell = &v["orders"][0]["constant"];
+    assert_eq!(cell["verdict"], "differs-numerically");
+    assert_eq!(cell["rounding_bounds"], "1.560");
+    assert!(cell.get("sigmas").is_none(), "{cell}");
+    let path = write("num-bound.yaml", &text);
+    let (_, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    let section = out.split("differences:").nth(1).and_then(|d| d.split("summary:").next()).unwrap_or_else(|| panic!("{out}"));
+    let flat = section.split_whitespace().collect::<Vec<_>>().join(" ");
+    assert!(flat.contains("L=1 C0:") && flat.contains("= 1.56 times the rounding bound propagated from the written digits"), "{out}");
+    assert!(!flat.contains("sigma"), "{out}");
+}
+
 /// The two-loop R6 on the line in decimals, 3 zeta(2) l^2 = 4.934802200545(1) l^2
 /// (A&S 23.2.24): the octagon reads 2/3 zeta(2) = pi^2/9; a `value:` entry
 /// alone is read numerically too.

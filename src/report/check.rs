@@ -6,7 +6,7 @@ use rug::Float;
 use serde::Serialize;
 
 use super::expansion::status_line;
-use super::{decimal, serialized, Format, JsonVerdict};
+use super::{decimal, in_units_text, serialized, Format, JsonVerdict};
 use crate::compare::{Comparison, OrderResult, Verdict};
 use crate::error::{Error, Result};
 
@@ -22,6 +22,9 @@ struct JsonOrder {
     predicted: Option<String>,
     #[serde(skip_serializing_if = "Option::is_none")]
     inconsistent_value: Option<&'static str>,
+    /// The file's `value` judged against its own `exact`, with the size of the gap.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    inconsistency: Option<JsonVerdict>,
 }
 
 #[derive(Serialize)]
@@ -39,6 +42,9 @@ struct JsonReport {
     summary: String,
 }
 
+/// What an implied uncertainty is, in the words of the report.
+const WRITTEN_BOUND: &str = "the rounding bound of the written digits";
+
 fn short(x: &Float) -> String {
     decimal(x, 6)
 }
@@ -51,6 +57,7 @@ fn json_order(o: &OrderResult) -> JsonOrder {
         supplied: o.supplied.as_ref().map(|s| s.text()),
         predicted: o.predicted.as_ref().map(|p| p.to_string()),
         inconsistent_value: o.inconsistent.as_ref().map(Verdict::name),
+        inconsistency: o.inconsistent.as_ref().map(|v| JsonVerdict::of(v, ToString::to_string)),
     }
 }
 
@@ -64,23 +71,30 @@ fn text_row(o: &OrderResult, max_digits: u32) -> (&'static str, String, String) 
             "differs exactly".to_string(),
             format!("supplied - predicted = {difference} = {}", short(size)),
         ),
-        Verdict::AgreesNumerically { digits, sigmas } => {
+        Verdict::AgreesNumerically { digits, in_units } => {
             let d = if *digits >= max_digits { format!("{max_digits}+") } else { digits.to_string() };
-            let s = sigmas.as_ref().map_or(String::new(), |s| format!(", {} sigma", decimal(s, 2)));
+            let s = in_units.as_ref().map_or(String::new(), |u| format!(", {}", in_units_text(u, 2, WRITTEN_BOUND)));
             ("ok", format!("agrees to {d} digits"), format!("supplied {supplied}{s}"))
         }
-        Verdict::DiffersNumerically { difference, sigmas, .. } => {
-            let s = sigmas.as_ref().map_or(String::new(), |s| format!(" = {} sigma", decimal(s, 3)));
+        Verdict::DiffersNumerically { difference, in_units, .. } => {
+            let s = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND)));
             ("DIFF", "differs numerically".to_string(), format!("supplied {supplied}: supplied - predicted = {}{s}", short(difference)))
         }
         Verdict::NotPredicted => ("-", "not predicted".to_string(), "beyond the orders the prediction reaches".to_string()),
         Verdict::NotSupplied => ("-", "not supplied".to_string(), String::new()),
     };
     if let Some(v) = &o.inconsistent {
-        detail.push_str(&format!("; the file's own `value` {} its `exact`", match v {
-            Verdict::DiffersExactly { .. } | Verdict::DiffersNumerically { .. } => "disagrees with",
-            _ => "does not match",
-        }));
+        let size = match v {
+            Verdict::DiffersNumerically { difference, in_units, .. } => {
+                let u = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND)));
+                format!(": value - exact = {}{u}", short(difference))
+            }
+            Verdict::DiffersExactly { difference, size } => format!(": value - exact = {difference} = {}", short(size)),
+            _ => String::new(),
+        };
+        let value = o.value_text.as_deref().unwrap_or("");
+        let gap = format!("the file's own value {value} disagrees with its exact{size}");
+        detail = if detail.is_empty() { format!("but {gap}") } else { format!("{detail}; and {gap}") };
         return ("DIFF", words, detail);
     }
     if let Some(l) = &o.label {
