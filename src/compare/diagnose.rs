@@ -69,14 +69,10 @@ impl Hypothesis {
     fn describe(&self, declared: Coupling) -> String {
         let mut parts = Vec::new();
         if self.coupling != declared {
-            let what = match self.coupling {
-                Coupling::G2 => "g^2 = lambda/(16 pi^2)",
-                Coupling::A => "a = lambda/(8 pi^2) = 2 g^2",
-                Coupling::Lambda => "lambda",
-            };
             parts.push(format!(
-                "the coefficients follow the convention {} ({what}) although the file says `coupling: {}`",
+                "the coefficients follow the convention {} ({}) although the file says `coupling: {}`",
                 self.coupling.name(),
+                self.coupling.meaning(),
                 declared.name()
             ));
         }

@@ -173,6 +173,8 @@ struct JsonReport {
     broken: Option<JsonBreak>,
     agrees: bool,
     orders: Vec<JsonOrder>,
+    /// Slips that would make every order exponentiate and agree.
+    diagnoses: Vec<String>,
     summary: String,
     notes: Vec<String>,
     /// The orders written with numbers; the analysis was numerical when any is.
@@ -230,6 +232,7 @@ fn json(c: &OriginCheck, even: EvenStyle) -> JsonReport {
         broken: c.broken.as_ref().map(|b| json_break(b, &c.logs, even, d)),
         agrees: c.agrees(),
         orders,
+        diagnoses: c.diagnoses.clone(),
         summary: c.summary(),
         notes: notes(c),
         numeric_orders: c.numeric.clone(),
@@ -465,6 +468,16 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
         }
     }
 
+    if !c.diagnoses.is_empty() {
+        out.push_str("\ndiagnosis:\n");
+        for d in &c.diagnoses {
+            for (i, line) in super::wrap(d, 84).lines().enumerate() {
+                out.push_str(if i == 0 { "  - " } else { "    " });
+                out.push_str(line);
+                out.push('\n');
+            }
+        }
+    }
     out.push_str(&format!("\nsummary: {}\n", c.summary()));
     out.push_str("notes:\n");
     for n in notes(c) {
