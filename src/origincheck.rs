@@ -2,7 +2,8 @@
 //! to a report value: reading origin files (polynomials in the logs, E or R6,
 //! any coupling) into exact series in g^2, judging what [`crate::origin`]
 //! reads from them against the predictions with the verdicts of `check`
-//! ([`crate::compare::judge`]), and running [`crate::fit`] on the loop
+//! ([`crate::compare::judge`]), naming the coupling and sign slips that
+//! would make a differing file agree, and running [`crate::fit`] on the loop
 //! coefficients of a file with a basis given on the command line.
 //!
 //! Coefficients are compared in the file's own coupling: the analysis runs

@@ -42,7 +42,8 @@ pub struct OriginArgs {
 
 #[derive(ClapArgs, Debug)]
 pub struct FitArgs {
-    /// A series file whose `orders` hold exact coefficients (no symbols, no decimals).
+    /// A series file whose `orders` hold exact coefficients (no symbols, no decimals);
+    /// `-` reads standard input.
     pub file: PathBuf,
     /// Basis elements separated by `;`, each `NAME=FORMULA` or a bare formula;
     /// default: Gamma, Delta and zeta(2)*Gamma at the tilts 0, pi/6, pi/4, pi/3, pi/2.

@@ -2,7 +2,8 @@
 //! convention (ratios 2^L or (16 pi^2)^L), the scaling function f = 2 Gamma
 //! instead of Gamma, an overall sign, loop orders shifted by one, a single
 //! mistyped order, a coefficient whose transcendental weight is not the
-//! prediction's. A slip is claimed only when it makes every supplied order agree.
+//! prediction's. A slip is claimed only when it makes every supplied order
+//! agree; when only one order is supplied, the claim says it rests on it.
 
 use std::fmt;
 
