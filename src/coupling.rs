@@ -43,6 +43,15 @@ impl Coupling {
         }
     }
 
+    /// What the convention means, for diagnoses: "a = lambda/(8 pi^2) = 2 g^2".
+    pub fn meaning(self) -> &'static str {
+        match self {
+            Coupling::G2 => "g^2 = lambda/(16 pi^2)",
+            Coupling::A => "a = lambda/(8 pi^2) = 2 g^2",
+            Coupling::Lambda => "lambda",
+        }
+    }
+
     /// The expansion parameter as a multiple of g^2: x = ratio * g^2 with
     /// ratio = (numerator, power of pi^2) meaning numerator * pi^(2 * power).
     /// g2: (1, 0); a: (2, 0); lambda: (16, 1).

@@ -2,7 +2,8 @@
 //! to a report value: reading origin files (polynomials in the logs, E or R6,
 //! any coupling) into exact series in g^2, judging what [`crate::origin`]
 //! reads from them against the predictions with the verdicts of `check`
-//! ([`crate::compare::judge`]), and running [`crate::fit`] on the loop
+//! ([`crate::compare::judge`]), naming the coupling and sign slips that
+//! would make a differing file agree, and running [`crate::fit`] on the loop
 //! coefficients of a file with a basis given on the command line.
 //!
 //! Coefficients are compared in the file's own coupling: the analysis runs
@@ -27,7 +28,7 @@ use crate::originnum::{self, needs_numbers, NumBreakdown, NumPoly, NumTerm};
 use crate::prediction::{Expander, Quantity};
 use crate::ring::Exact;
 use crate::series::Series;
-use crate::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile, MAX_FILE_BYTES};
+use crate::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile};
 
 /// An origin file, read and checked: the coefficients as one series in g^2.
 #[derive(Clone, Debug)]
@@ -43,22 +44,10 @@ pub struct OriginData {
     pub numeric: Vec<u32>,
 }
 
-/// Reads an origin file from disk.
+/// Reads an origin file from disk, or from standard input when `path` is `-`.
 pub fn read_origin_file(path: &std::path::Path) -> Result<OriginData> {
-    parse_origin_text(&read_text(path)?, &path.display().to_string())
-}
-
-/// Reads a series file's text from disk, with the limits of series files.
-pub fn read_text(path: &std::path::Path) -> Result<String> {
-    let origin = path.display().to_string();
-    let meta = std::fs::metadata(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
-    if meta.len() > MAX_FILE_BYTES as u64 {
-        return Err(Error::input(format!("{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?")));
-    }
-    let bytes = std::fs::read(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
-    String::from_utf8(bytes).map_err(|e| {
-        Error::input(format!("{origin} is not UTF-8 text (bad byte at offset {})", e.utf8_error().valid_up_to()))
-    })
+    let (text, origin) = crate::seriesfile::read_input(path)?;
+    parse_origin_text(&text, &origin)
 }
 
 /// The line (from 1) where a top-level key is written, for messages about
@@ -156,6 +145,13 @@ pub enum Reading {
 }
 
 impl Reading {
+    fn negated(&self) -> Reading {
+        match self {
+            Reading::Exact(x) => Reading::Exact(-x),
+            Reading::Number(a) => Reading::Number(Approx { value: rug::Float::with_val(a.value.prec(), -&a.value), ..a.clone() }),
+        }
+    }
+
     pub fn is_zero(&self) -> bool {
         match self {
             Reading::Exact(x) => x.is_zero(),
@@ -260,6 +256,8 @@ pub struct OriginCheck {
     pub digits: u32,
     /// The orders written with numbers; non-empty when the file was read numerically.
     pub numeric: Vec<u32>,
+    /// The slips that would make every order exponentiate and agree.
+    pub diagnoses: Vec<String>,
 }
 
 impl OriginCheck {
@@ -325,13 +323,42 @@ struct Readings {
     broken: Option<Broken>,
 }
 
-fn exact_readings(data: &OriginData, cusp: Option<&Series>) -> Result<Readings> {
+/// How the file's numbers are read: in which coupling convention, and
+/// whether with the opposite sign. The file's own reading is its declared
+/// coupling and its sign; the others are the slips `origin` tests.
+#[derive(Clone, Copy, Debug, PartialEq)]
+struct Variant {
+    coupling: Coupling,
+    negated: bool,
+}
+
+impl Variant {
+    /// Whether the sign acts on the file's coefficients (R6, on which ln E
+    /// depends linearly) rather than on the readings (E, where the
+    /// opposite sign of every reading means the file holds 1/E).
+    fn negates_data(&self, normalisation: Normalisation) -> bool {
+        self.negated && normalisation == Normalisation::R6
+    }
+
+    /// The file's coefficients as a series in g^2, read this way.
+    fn series(&self, data: &OriginData) -> Series {
+        let s = data.series.in_coupling(data.file.coupling).from_coupling(self.coupling);
+        if self.negates_data(data.normalisation) {
+            -&s
+        } else {
+            s
+        }
+    }
+}
+
+fn exact_readings(data: &OriginData, v: Variant, cusp: Option<&Series>) -> Result<Readings> {
+    let series = v.series(data);
     let analysis = match cusp {
-        None => origin::analyse_e(&data.series, &data.logs),
-        Some(cusp) => origin::analyse_r6(&data.series, cusp, &data.logs),
+        None => origin::analyse_e(&series, &data.logs),
+        Some(cusp) => origin::analyse_r6(&series, cusp, &data.logs),
     }
     .map_err(|e| e.context(&data.file.origin))?;
-    let c = data.file.coupling;
+    let c = v.coupling;
     let orders = analysis
         .orders
         .iter()
@@ -357,15 +384,17 @@ fn exact_readings(data: &OriginData, cusp: Option<&Series>) -> Result<Readings> 
 
 /// Every order as a numerical polynomial in g^2 at `prec` bits: the numeric
 /// entries read from their text, the exact ones evaluated.
-fn numeric_series(data: &OriginData, prec: u32) -> Result<Vec<NumPoly>> {
+fn numeric_series(data: &OriginData, v: Variant, prec: u32) -> Result<Vec<NumPoly>> {
     let file = &data.file;
-    let mut out = Vec::with_capacity(data.series.order() + 1);
-    for (k, exact) in data.series.coeffs().iter().enumerate() {
+    let series = v.series(data);
+    let sign = if v.negates_data(data.normalisation) { -1 } else { 1 };
+    let mut out = Vec::with_capacity(series.order() + 1);
+    for (k, exact) in series.coeffs().iter().enumerate() {
         let entry = file.orders.iter().find(|o| o.loop_order as usize == k);
         let poly = match entry.and_then(numeric_source) {
             Some(located) => {
                 let p = originnum::read_polynomial(located, &file.origin, &data.logs, prec)?;
-                p.scale(&to_g2(k, file.coupling).evaluate(prec)?)
+                p.scale(&(to_g2(k, v.coupling).evaluate(prec)? * sign))
             }
             None => NumPoly::from_exact(exact, &data.logs, prec).map_err(|e| e.context(&file.origin))?,
         };
@@ -374,15 +403,15 @@ fn numeric_series(data: &OriginData, prec: u32) -> Result<Vec<NumPoly>> {
     Ok(out)
 }
 
-fn numeric_readings(data: &OriginData, cusp: Option<&Series>, digits: u32) -> Result<Readings> {
+fn numeric_readings(data: &OriginData, v: Variant, cusp: Option<&Series>, digits: u32) -> Result<Readings> {
     let prec = working_bits(digits);
-    let series = numeric_series(data, prec)?;
+    let series = numeric_series(data, v, prec)?;
     let analysis = match cusp {
         None => originnum::analyse_e(&series, &data.logs, digits),
         Some(cusp) => originnum::analyse_r6(&series, cusp, &data.logs, digits),
     }
     .map_err(|e| e.context(&data.file.origin))?;
-    let c = data.file.coupling;
+    let c = v.coupling;
     let back = |k: usize| -> Result<rug::Float> { in_file(&Exact::one(), k, c).evaluate(prec) };
     let mut orders = Vec::new();
     for r in &analysis.orders {
@@ -403,7 +432,17 @@ fn numeric_readings(data: &OriginData, cusp: Option<&Series>, digits: u32) -> Re
     Ok(Readings { orders, broken })
 }
 
-/// Runs the exponentiation check and judges every reading.
+/// What every reading is judged against, in g^2.
+struct Predictions {
+    cusp: Option<Series>,
+    octagon: Series,
+    hexagon: Series,
+    /// The file's C0 formula, as written and expanded.
+    formula: Option<(String, Series)>,
+}
+
+/// Runs the exponentiation check and judges every reading; when something
+/// differs, tests the slips of [`diagnose`].
 pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Result<OriginCheck> {
     let file = &data.file;
     let top = data.series.order();
@@ -420,53 +459,121 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
             Some(kernel::gamma(&kernel::Tilt::cos2(rug::Rational::from((1, 2)))?, reach, &mut |_, _| {})?)
         }
     };
-    let readings = if data.numeric.is_empty() {
-        exact_readings(data, cusp.as_ref())?
-    } else {
-        numeric_readings(data, cusp.as_ref(), digits)?
-    };
     let predicted = origin::predicted_log_coefficients(reach)?;
     let formula = match Quantity::from_file(file, catalogue)? {
         None => None,
         Some(quantity) => Some((quantity.definition.trim().to_string(), quantity.expand(reach, &mut |_, _, _| {})?)),
     };
-    let c = file.coupling;
+    let predictions = Predictions { cusp, octagon: predicted.octagon, hexagon: predicted.hexagon, formula };
+    let declared = Variant { coupling: file.coupling, negated: false };
+    let (rows, broken) = judged_rows(data, declared, &predictions, digits)?;
+    let mut check = OriginCheck {
+        file: file.origin.clone(),
+        about: file.about.clone(),
+        coupling: file.coupling,
+        normalisation: data.normalisation,
+        logs: data.logs.clone(),
+        highest: top as u32,
+        rows,
+        broken,
+        formula: predictions.formula.as_ref().map(|(f, _)| f.clone()),
+        octagon_entry: catalogue.get("octagon").cloned(),
+        hexagon_entry: catalogue.get("hexagon").cloned(),
+        digits,
+        numeric: data.numeric.clone(),
+        diagnoses: Vec::new(),
+    };
+    if !check.agrees() {
+        check.diagnoses = diagnose(data, &predictions, digits);
+    }
+    Ok(check)
+}
+
+/// The rows and the break of the file read as `v` says.
+fn judged_rows(data: &OriginData, v: Variant, p: &Predictions, digits: u32) -> Result<(Vec<OriginRow>, Option<Broken>)> {
+    let mut readings = if data.numeric.is_empty() {
+        exact_readings(data, v, p.cusp.as_ref())?
+    } else {
+        numeric_readings(data, v, p.cusp.as_ref(), digits)?
+    };
+    // ln(1/E) = -ln E: the readings change sign, and whether (and where)
+    // exponentiation breaks does not change.
+    if v.negated && !v.negates_data(data.normalisation) {
+        for (_, octagon, hexagon, linear, constant) in &mut readings.orders {
+            for r in [octagon, linear, constant].into_iter().chain(hexagon.as_mut()) {
+                *r = r.negated();
+            }
+        }
+    }
+    let c = v.coupling;
     let predicted_at = |s: &Series, k: usize| (k <= s.order()).then(|| in_file(s.coeff(k), k, c));
     let mut rows = Vec::new();
     for (k, octagon, hexagon, linear, constant) in readings.orders {
         let hexagon = match hexagon {
-            Some(v) => HexagonCell::Judged(Judged::new(v, predicted_at(&predicted.hexagon, k), digits)?),
+            Some(h) => HexagonCell::Judged(Judged::new(h, predicted_at(&p.hexagon, k), digits)?),
             None => HexagonCell::NotTestableOnLine,
         };
         let one_loop = (k == 1).then(|| in_file(&origin::one_loop_constant(), 1, c));
-        let formula_cell = match &formula {
+        let formula_cell = match &p.formula {
             Some((_, s)) => Some(Judged::new(constant.clone(), predicted_at(s, k), digits)?),
             None => None,
         };
         rows.push(OriginRow {
             loop_order: k as u32,
-            octagon: Judged::new(octagon, predicted_at(&predicted.octagon, k), digits)?,
+            octagon: Judged::new(octagon, predicted_at(&p.octagon, k), digits)?,
             hexagon,
             linear: Judged::new(linear, Some(Exact::zero()), digits)?,
             constant: Judged::new(constant, one_loop, digits)?,
             formula: formula_cell,
         });
     }
-    Ok(OriginCheck {
-        file: file.origin.clone(),
-        about: file.about.clone(),
-        coupling: c,
-        normalisation: data.normalisation,
-        logs: data.logs.clone(),
-        highest: top as u32,
-        rows,
-        broken: readings.broken,
-        formula: formula.map(|(f, _)| f),
-        octagon_entry: catalogue.get("octagon").cloned(),
-        hexagon_entry: catalogue.get("hexagon").cloned(),
-        digits,
-        numeric: data.numeric.clone(),
-    })
+    Ok((rows, readings.broken))
+}
+
+/// The slips of `check` that carry over to origin files, each named only when
+/// it makes every order exponentiate and every reading agree: another
+/// coupling convention (ln E rescales order by order with the coupling, and
+/// an R6 file is reread from its coefficients) and the opposite sign (of R6,
+/// or of ln E, i.e. a file that holds 1/E). Shifted loop orders and the
+/// factor 2 of the scaling function do not carry over: the logarithm mixes
+/// orders, and no reading is a multiple of Gamma_cusp.
+fn diagnose(data: &OriginData, p: &Predictions, digits: u32) -> Vec<String> {
+    let declared = data.file.coupling;
+    let mut out = Vec::new();
+    for coupling in Coupling::ALL {
+        for negated in [false, true] {
+            let v = Variant { coupling, negated };
+            if v == (Variant { coupling: declared, negated: false }) {
+                continue;
+            }
+            // A reading that fails under a hypothesis only rules the hypothesis out.
+            let Ok((rows, None)) = judged_rows(data, v, p, digits) else { continue };
+            if rows.is_empty() || rows.iter().any(OriginRow::differs) {
+                continue;
+            }
+            let mut parts = Vec::new();
+            if coupling != declared {
+                parts.push(format!(
+                    "the coefficients follow the convention {} ({}) although the file says `coupling: {}`",
+                    coupling.name(),
+                    coupling.meaning(),
+                    declared.name()
+                ));
+            }
+            if negated {
+                parts.push(match data.normalisation {
+                    Normalisation::R6 => "every coefficient of R6 has the opposite sign: an overall sign slip".to_string(),
+                    Normalisation::E => "every reading of ln E has the opposite sign: does the file hold 1/E rather than E?".to_string(),
+                });
+            }
+            let mut text = parts.join("; and ");
+            if data.file.orders.len() == 1 {
+                text.push_str(" (this rests on one order only; more orders would confirm or rule it out)");
+            }
+            out.push(text);
+        }
+    }
+    out
 }
 
 // ---------------------------------------------------------------------------

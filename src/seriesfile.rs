@@ -154,16 +154,42 @@ pub struct OrderEntry {
 
 /// Reads and checks a series file.
 pub fn read_series_file(path: &Path) -> Result<SeriesFile> {
-    let origin = path.display().to_string();
-    let meta = std::fs::metadata(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
-    if meta.len() > MAX_FILE_BYTES as u64 {
+    let (text, origin) = read_input(path)?;
+    parse_series_text(&text, &origin)
+}
+
+/// The name standard input goes by in messages when a file is given as `-`.
+pub const STDIN_NAME: &str = "<stdin>";
+
+/// The text of a series file and the name messages give it: `-` reads
+/// standard input (named [`STDIN_NAME`]), anything else the file at `path`.
+/// Either way the size limit of series files holds and the text must be UTF-8.
+pub fn read_input(path: &Path) -> Result<(String, String)> {
+    let (bytes, origin) = if path.as_os_str() == "-" {
+        use std::io::Read;
+        let mut bytes = Vec::new();
+        // One byte past the limit is enough to know the input is too large.
+        std::io::stdin()
+            .lock()
+            .take(MAX_FILE_BYTES as u64 + 1)
+            .read_to_end(&mut bytes)
+            .map_err(|e| Error::io(format!("cannot read {STDIN_NAME}: {e}")))?;
+        (bytes, STDIN_NAME.to_string())
+    } else {
+        let origin = path.display().to_string();
+        let meta = std::fs::metadata(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
+        if meta.len() > MAX_FILE_BYTES as u64 {
+            return Err(Error::input(format!("{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?")));
+        }
+        (std::fs::read(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?, origin)
+    };
+    if bytes.len() > MAX_FILE_BYTES {
         return Err(Error::input(format!("{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?")));
     }
-    let bytes = std::fs::read(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
     let text = String::from_utf8(bytes).map_err(|e| {
         Error::input(format!("{origin} is not UTF-8 text (bad byte at offset {})", e.utf8_error().valid_up_to()))
     })?;
-    parse_series_text(&text, &origin)
+    Ok((text, origin))
 }
 
 /// Checks a series file given as text; `origin` names it in messages.

@@ -8,7 +8,7 @@
 use std::path::PathBuf;
 mod common;
 
-use common::loopwise;
+use common::{loopwise, loopwise_with_stdin};
 
 
 fn write(name: &str, text: &str) -> PathBuf {
@@ -115,6 +115,60 @@ fn scaling_function_sign_and_shift_slips_are_recognised() {
     assert!(v["diagnoses"][0].as_str().unwrap().contains("shifted by one"), "{v}");
 }
 
+fn diagnoses(v: &serde_json::Value) -> Vec<String> {
+    v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap().to_string()).collect()
+}
+
+/// Item 9 of issue 8: a file with one supplied order still gets the slip
+/// that makes it agree, and the diagnosis says it rests on that one order.
+/// The four-loop cusp coefficient (hep-th/0610251, header) in a = 2 g^2 is
+/// c_4 / 2^4 (README conventions); with its sign flipped it is -c_4.
+#[test]
+fn single_order_slip_is_diagnosed_and_says_it_rests_on_one_order() {
+    let in_a = format!("({FOUR})/16");
+    let (code, v) = check_json("one-order-a.yaml", &cusp_file("g2", &[(4, "exact", &in_a)]));
+    assert_eq!(code, 1);
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("convention a") && d[0].contains("rests on one supplied order"), "{d:?}");
+    let flipped = format!("-({FOUR})");
+    let (code, v) = check_json("one-order-sign.yaml", &cusp_file("g2", &[(4, "exact", &flipped)]));
+    assert_eq!(code, 1);
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("opposite sign") && d[0].contains("rests on one supplied order"), "{d:?}");
+    // A number known to its written digits: -937.43062784825 / 16 = -58.589414240516 (by hand).
+    let (_, v) = check_json("one-order-a-value.yaml", &cusp_file("g2", &[(4, "value", "-58.5894142405(1)")]));
+    assert!(diagnoses(&v).iter().any(|d| d.contains("convention a")), "{v}");
+    // Nothing is claimed when no slip makes the order agree.
+    let (code, v) = check_json("one-order-wrong.yaml", &cusp_file("g2", &[(4, "exact", "-877*zeta(6) - 32*zeta(3)^2")]));
+    assert_eq!(code, 1);
+    assert!(diagnoses(&v).iter().all(|d| !d.contains("convention") && !d.contains("sign")), "{v}");
+    // With two orders the caveat is not printed.
+    let (_, v) = check_json("two-orders-a.yaml", &cusp_file("g2", &[(1, "exact", "2"), (4, "exact", &in_a)]));
+    let d = diagnoses(&v);
+    assert!(d.iter().any(|d| d.contains("convention a")) && d.iter().all(|d| !d.contains("rests on")), "{d:?}");
+}
+
+/// Item 17 of issue 8: coefficients in g^2 declared as lambda are explained
+/// by the convention alone, without one weight line per order; a real weight
+/// slip in a lambda file is counted on the coefficient of g^(2L), where the
+/// cusp has uniform weight 2L - 2 (hep-th/0610251), not as "weight -2".
+#[test]
+fn lambda_convention_diagnosis_has_no_weight_noise() {
+    let g2_orders = [(1, "exact", "4"), (2, "exact", "-8 zeta(2)"), (3, "exact", "88 zeta(4)")];
+    let (code, v) = check_json("g2-declared-lambda.yaml", &cusp_file("lambda", &g2_orders));
+    assert_eq!(code, 1);
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("convention g2") && d[0].contains("`coupling: lambda`"), "{d:?}");
+    let lambda_orders = [(1, "exact", "4/(16 pi^2)"), (2, "exact", "-8 zeta(2)/(16 pi^2)^2"), (3, "exact", "(88 zeta(4) + zeta(3))/(16 pi^2)^3")];
+    let (_, v) = check_json("lambda-weight.yaml", &cusp_file("lambda", &lambda_orders));
+    let d = diagnoses(&v);
+    assert!(d.iter().any(|d| d.contains("order 3 mixes transcendental weights 3, 4; the prediction has weight 4")), "{d:?}");
+    assert!(d.iter().all(|d| !d.contains("weight -2")), "{d:?}");
+}
+
 /// A coefficient of the wrong transcendental weight is named (physics.md
 /// section 1: uniform weight 2L - 2).
 #[test]
@@ -144,13 +198,89 @@ fn exact_and_value_must_agree_with_each_other() {
     assert_eq!(v["orders"][1]["inconsistent_value"], "differs-numerically");
 }
 
+/// Item 16 of issue 8: the row of an entry whose `value` disagrees with its
+/// own `exact` gives the size of the gap. -8 zeta(2) = -13.159472534785811
+/// (A&S 23.2.24), so -13.5(1) is 0.3405 = 3.41 of its stated 0.1 away.
+#[test]
+fn value_disagreeing_with_its_own_exact_shows_the_size() {
+    let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 2\n    exact: \"-8 zeta(2)\"\n    value: \"-13.5(1)\"\n";
+    let path = write("gap.yaml", text);
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 1);
+    let row = out.lines().find(|l| l.trim_start().starts_with("2 ")).unwrap();
+    assert!(row.contains("DIFF") && row.contains("value -13.5(1) disagrees with its exact"), "{row}");
+    assert!(row.contains("value - exact = -0.340527 = 3.41 sigma"), "{row}");
+    assert!(!row.contains(" ; "), "{row}");
+    let (_, v) = check_json("gap.yaml", text);
+    let gap = &v["orders"][1]["inconsistency"];
+    let d: f64 = gap["difference_value"].as_str().unwrap().parse().unwrap();
+    assert!((d + 0.340527465214).abs() < 1e-9, "{gap}");
+    assert_eq!(gap["sigmas"], "3.405");
+}
+
+/// Item 15 of issue 8: without a stated uncertainty the yardstick is the
+/// rounding bound of the written digits, and the report says so instead of
+/// "sigma"; a stated uncertainty keeps "sigma". -8 zeta(2) =
+/// -13.159472534785811 (A&S 23.2.24): -13.15948 is 7.465e-6 off, 1.49 of
+/// its bound 5e-6 (differs); -13.159 is 0.95 of 5e-4 (agrees).
+#[test]
+fn implied_uncertainty_is_worded_as_a_rounding_bound_not_sigma() {
+    let path = write("bound-differs.yaml", &cusp_file("g2", &[(2, "value", "-13.15948")]));
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 1);
+    let row = out.lines().find(|l| l.trim_start().starts_with("2 ")).unwrap();
+    assert!(row.contains("= 1.49 times the rounding bound of the written digits") && !row.contains("sigma"), "{row}");
+    let (_, v) = check_json("bound-differs.yaml", &cusp_file("g2", &[(2, "value", "-13.15948")]));
+    assert_eq!(v["orders"][1]["rounding_bounds"], "1.493");
+    assert!(v["orders"][1].get("sigmas").is_none(), "{v}");
+    let path = write("bound-agrees.yaml", &cusp_file("g2", &[(2, "value", "-13.159")]));
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 0);
+    assert!(out.contains("supplied -13.159, 0.95 times the rounding bound of the written digits"), "{out}");
+    // A stated uncertainty is a standard deviation: 1.7 sigma agrees and says so.
+    let (code, v) = check_json("stated.yaml", &cusp_file("g2", &[(2, "value", "-13.15949(1)")]));
+    assert_eq!(code, 0);
+    assert_eq!(v["orders"][1]["sigmas"], "1.747");
+    assert!(v["orders"][1].get("rounding_bounds").is_none(), "{v}");
+}
+
 #[test]
 fn formula_predictions_and_not_predicted_orders() {
     let text = "prediction: \"Gamma(pi/4) - 4 g^2\"\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"0\"\n  - loop: 2\n    exact: \"-8 zeta(2)\"\n  - loop: 51\n    value: \"1.0\"\n";
     let (code, v) = check_json("formula.yaml", text);
-    assert_eq!(code, 0, "{v}");
+    // Loop 51 is beyond the engine: not compared, so not a pass (issue 8, item 8).
+    assert_eq!(code, 1, "{v}");
+    assert_eq!(v["agrees"], false);
     assert_eq!(v["orders"][50]["verdict"], "not-predicted");
     assert_eq!(v["orders"][10]["verdict"], "not-supplied");
+    assert_eq!(v["orders"][1]["verdict"], "agrees-exactly");
+}
+
+/// Item 8 of issue 8: a file whose only order is beyond the 50 loops the
+/// engine reaches is not called agreement: exit 1, `agrees: false`, and the
+/// order is listed as not compared in JSON and text.
+#[test]
+fn orders_beyond_the_engine_are_not_compared_and_not_a_pass() {
+    let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 51\n    value: \"1.0\"\n";
+    let (code, v) = check_json("loop51.yaml", text);
+    assert_eq!(code, 1, "{v}");
+    assert_eq!(v["agrees"], false);
+    assert_eq!(v["not_compared"], serde_json::json!([51]));
+    assert_eq!(v["summary"], "orders 1-50 not supplied, order 51 not compared");
+    let path = write("loop51.yaml", text);
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
+    assert_eq!(code, 1);
+    assert!(out.contains("not compared: order 51 is beyond the 50 loops"), "{out}");
+    // Agreeing orders next to uncompared ones: still not a pass, and only the uncompared are listed.
+    let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n  - loop: 52\n    value: \"1.0\"\n  - loop: 53\n    value: \"2.0\"\n";
+    let (code, v) = check_json("loop53.yaml", text);
+    assert_eq!(code, 1, "{v}");
+    assert_eq!(v["not_compared"], serde_json::json!([52, 53]));
+    assert_eq!(v["orders"][0]["verdict"], "agrees-exactly");
+    // Everything compared and agreeing: an empty list and a pass.
+    let (code, v) = check_json("loop1.yaml", &cusp_file("g2", &[(1, "exact", "4")]));
+    assert_eq!(code, 0);
+    assert_eq!(v["not_compared"], serde_json::json!([]));
 }
 
 #[test]
@@ -189,6 +319,62 @@ fn several_files_give_a_json_array_and_the_worst_exit_code() {
     assert_eq!(code, 1);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v.as_array().unwrap().len(), 2);
+}
+
+/// Item 7 of issue 8: an unusable file among several is one entry of the
+/// report (text, JSON and YAML), the others are still checked, and the exit
+/// code is 2 because one input could not be used.
+#[test]
+fn unreadable_file_among_many_is_reported_and_exits_2() {
+    let good = write("many-good.yaml", &cusp_file("g2", &[(1, "exact", "4")]));
+    let bad = write("many-bad.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exat: \"4\"\n");
+    let slip = write("many-slip.yaml", &cusp_file("g2", &[(1, "exact", "2"), (2, "exact", "-2 zeta(2)")]));
+    let paths = [good.to_str().unwrap(), bad.to_str().unwrap(), slip.to_str().unwrap()];
+    let (code, out, err) = loopwise(&["check", paths[0], paths[1], paths[2]]);
+    assert_eq!(code, 2, "{out}");
+    assert!(err.contains("many-bad.yaml") && err.contains("did you mean `exact`"), "{err}");
+    assert!(out.contains("many-good.yaml: checked against") && out.contains("many-slip.yaml: checked against"), "{out}");
+    assert!(out.contains("many-bad.yaml: not checked") && out.contains("line 5 column 5"), "{out}");
+    assert!(out.contains("convention a"), "the file after the bad one is diagnosed: {out}");
+
+    let (code, out, _) = loopwise(&["check", paths[0], paths[1], paths[2], "--format", "json"]);
+    assert_eq!(code, 2);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}"));
+    let entries = v.as_array().unwrap();
+    assert_eq!(entries.len(), 3);
+    assert_eq!(entries[0]["agrees"], true);
+    assert_eq!(entries[1]["agrees"], false);
+    assert!(entries[1]["file"].as_str().unwrap().ends_with("many-bad.yaml"));
+    assert!(entries[1]["error"].as_str().unwrap().contains("unknown key `exat`"), "{v}");
+    assert_eq!(entries[2]["orders"][0]["verdict"], "differs-exactly");
+
+    let (code, out, _) = loopwise(&["check", paths[0], paths[1], "--format", "yaml"]);
+    assert_eq!(code, 2);
+    let docs: Vec<&str> = out.split("---\n").filter(|d| !d.trim().is_empty()).collect();
+    assert_eq!(docs.len(), 2, "{out}");
+    assert!(docs[1].contains("agrees: false") && docs[1].contains("error:"), "{out}");
+    // A missing file among good ones is an entry too.
+    let (code, out, _) = loopwise(&["check", paths[0], "/nonexistent/many.yaml", "--format", "json"]);
+    assert_eq!(code, 2);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v[1]["file"], "/nonexistent/many.yaml");
+}
+
+/// Item 19 of issue 8 (part): `-` reads the series file from standard
+/// input, named `<stdin>` in messages and reports.
+#[test]
+fn dash_reads_the_series_file_from_standard_input() {
+    let (code, out, err) = loopwise_with_stdin(&["check", "-", "--format", "json"], &cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)")]));
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["file"], "<stdin>");
+    assert_eq!(v["summary"], "orders 1-2 agree");
+    let (code, _, err) = loopwise_with_stdin(&["check", "-"], "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4 +\"\n");
+    assert_eq!(code, 2);
+    assert!(err.contains("<stdin>:5:"), "{err}");
+    let (code, _, err) = loopwise_with_stdin(&["check", "-", "-"], "");
+    assert_eq!(code, 2);
+    assert!(err.contains("more than once"), "{err}");
 }
 
 /// The demo finds its planted mistake (five loops) and the numerical order.

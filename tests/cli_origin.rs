@@ -7,7 +7,7 @@
 use std::path::PathBuf;
 mod common;
 
-use common::loopwise;
+use common::{loopwise, loopwise_with_stdin};
 
 use loopwise::ring::{EvenStyle, Exact, Notation};
 use loopwise::series::Series;
@@ -196,6 +196,73 @@ fn exponentiated_prediction_round_trips_and_a_cubic_term_breaks_one_order() {
     assert_eq!(v["summary"], "order 1 agrees, order 2 breaks exponentiation, order 3 not examined");
 }
 
+fn diagnoses(v: &serde_json::Value) -> Vec<String> {
+    v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap().to_string()).collect()
+}
+
+/// Item 10 of issue 8: `origin` names the coupling-convention and sign
+/// slips that make every order agree. E of `predicted_e` (closed forms above)
+/// is in g^2; declared as `a` or `lambda`, every order differs and the
+/// convention is named, once, without the one-order caveat.
+#[test]
+fn origin_data_in_another_convention_is_diagnosed() {
+    let e = predicted_e();
+    for declared in ["a", "lambda"] {
+        let text = e_file(&e).replace("coupling: g2", &format!("coupling: {declared}"));
+        let (code, v) = run_json("origin", &format!("e-as-{declared}.yaml"), &text, &[]);
+        assert_eq!(code, 1, "{v}");
+        assert_eq!(v["orders"][1]["octagon"]["verdict"], "differs-exactly");
+        let d = diagnoses(&v);
+        assert_eq!(d.len(), 1, "{d:?}");
+        assert!(d[0].contains("convention g2") && d[0].contains(&format!("`coupling: {declared}`")), "{d:?}");
+        assert!(!d[0].contains("rests on one order"), "{d:?}");
+    }
+    // The two-loop R6 of arXiv:1006.5703 (g^2) declared as `a`: R6 is reread
+    // from its coefficients, and the one supplied order is said to be all there is.
+    let text = origin_file("R6", "a", "[l1, l2, l3]", &[(2, TWO_LOOP_R6.into())]);
+    let (code, v) = run_json("origin", "r6-as-a.yaml", &text, &[]);
+    assert_eq!(code, 1, "{v}");
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("convention g2") && d[0].contains("rests on one order"), "{d:?}");
+    let path = write("r6-as-a.yaml", &text);
+    let (_, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    assert!(out.contains("diagnosis:\n  - the coefficients follow the convention g2"), "{out}");
+    // The same in decimals (zeta(2) = 1.6449340668..., A&S 23.2.24; C0 as above), read numerically.
+    let text = origin_file("R6", "a", "[l1, l2, l3]", &[(2, format!("{ZETA2_DECIMAL}*(l1*l2 + l2*l3 + l3*l1) + {R6_CONSTANT_DECIMAL}"))]);
+    let (code, v) = run_json("origin", "r6-as-a-decimal.yaml", &text, &[]);
+    assert_eq!(code, 1, "{v}");
+    assert!(diagnoses(&v).iter().any(|d| d.contains("convention g2")), "{v}");
+}
+
+/// Item 10 of issue 8: the sign slips of origin files. R6 with every
+/// coefficient negated is an overall sign slip; E replaced by 1/E (the
+/// ring's own exp(-ln E)) negates every reading of ln E.
+#[test]
+fn origin_sign_slips_are_diagnosed() {
+    let text = origin_file("R6", "g2", "[l1, l2, l3]", &[(2, format!("-({TWO_LOOP_R6})"))]);
+    let (code, v) = run_json("origin", "r6-negated.yaml", &text, &[]);
+    assert_eq!(code, 1, "{v}");
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("R6 has the opposite sign"), "{d:?}");
+    let inverse = (-&predicted_e().ln().unwrap()).exp().unwrap();
+    let (code, v) = run_json("origin", "e-inverse.yaml", &e_file(&inverse), &[]);
+    assert_eq!(code, 1, "{v}");
+    let d = diagnoses(&v);
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(d[0].contains("1/E"), "{d:?}");
+    // A genuine mistake (C0 = -2 zeta(2) at one loop) is not explained away,
+    // and an agreeing file has nothing to diagnose.
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 2*zeta(2)".into())]);
+    let (code, v) = run_json("origin", "e-wrong-constant.yaml", &text, &[]);
+    assert_eq!(code, 1);
+    assert!(diagnoses(&v).is_empty(), "{v}");
+    let (code, v) = run_json("origin", "e-right.yaml", &e_file(&predicted_e()), &[]);
+    assert_eq!(code, 0);
+    assert!(diagnoses(&v).is_empty(), "{v}");
+}
+
 /// The two-loop R6 above on the line l1 = l2 = l3 = l: only the octagon is
 /// tested: (l1+l2+l3)^2 = 9 l^2 and R6 -> 3 zeta(2) l^2 + ...
 #[test]
@@ -287,6 +354,21 @@ fn unusable_input_exits_two_naming_file_and_line() {
     let (code, _, err) = loopwise(&["origin", "/nonexistent/origin.yaml"]);
     assert_eq!(code, 2);
     assert!(err.contains("/nonexistent/origin.yaml"), "{err}");
+}
+
+/// Item 19 of issue 8 (part): `origin -` reads standard input, named
+/// `<stdin>`; the one-loop E of the inversion formula above agrees.
+#[test]
+fn dash_reads_the_origin_file_from_standard_input() {
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 3*zeta(2)".into())]);
+    let (code, out, err) = loopwise_with_stdin(&["origin", "-", "--format", "json"], &text);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["file"], "<stdin>");
+    assert_eq!(v["orders"][0]["constant"]["verdict"], "agrees-exactly");
+    let (code, _, err) = loopwise_with_stdin(&["origin", "-"], &origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*l1^2 + x".into())]));
+    assert_eq!(code, 2);
+    assert!(err.contains("<stdin>:6:") && err.contains("`x`"), "{err}");
 }
 
 fn c0_file(orders: &[(u32, &str)]) -> String {
@@ -557,6 +639,26 @@ fn one_loop_in_decimals() {
     assert_eq!(code, 1, "{v}");
     assert_eq!(v["orders"][0]["constant"]["verdict"], "differs-numerically");
     assert!((float(&v["orders"][0]["constant"]["sigmas"]).to_f64() - 1000.0).abs() < 1.0, "{v}");
+}
+
+/// Item 15 of issue 8, for origin: C0 = -3 zeta(2) = -4.934802200544679
+/// (A&S 23.2.24) written -4.93481 with no stated uncertainty is 7.80e-6
+/// off, 1.56 of its rounding bound 5e-6, and the report words it so.
+#[test]
+fn origin_implied_uncertainty_is_worded_as_a_rounding_bound() {
+    let text = origin_file("E", "g2", "[l1, l2, l3]", &[(1, "-1/2*(l1^2 + l2^2 + l3^2) - 4.93481".into())]);
+    let (code, v) = run_json("origin", "num-bound.yaml", &text, &[]);
+    assert_eq!(code, 1, "{v}");
+    let cell = &v["orders"][0]["constant"];
+    assert_eq!(cell["verdict"], "differs-numerically");
+    assert_eq!(cell["rounding_bounds"], "1.560");
+    assert!(cell.get("sigmas").is_none(), "{cell}");
+    let path = write("num-bound.yaml", &text);
+    let (_, out, _) = loopwise(&["origin", path.to_str().unwrap()]);
+    let section = out.split("differences:").nth(1).and_then(|d| d.split("summary:").next()).unwrap_or_else(|| panic!("{out}"));
+    let flat = section.split_whitespace().collect::<Vec<_>>().join(" ");
+    assert!(flat.contains("L=1 C0:") && flat.contains("= 1.56 times the rounding bound propagated from the written digits"), "{out}");
+    assert!(!flat.contains("sigma"), "{out}");
 }
 
 /// The two-loop R6 on the line in decimals, 3 zeta(2) l^2 = 4.934802200545(1) l^2

@@ -1,15 +1,16 @@
 //! `loopwise check FILE...` and `loopwise demo [cusp]`: compare series files with
 //! their predictions and print the verdicts.
 
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 use clap::{Args as ClapArgs, ValueEnum};
 
 use loopwise::catalogue::Catalogue;
 use loopwise::compare;
-use loopwise::report::{check::render, Format};
-use loopwise::seriesfile::{parse_series_text, read_series_file, SeriesFile};
-use loopwise::Result;
+use loopwise::report::check::{render, render_unusable};
+use loopwise::report::Format;
+use loopwise::seriesfile::{parse_series_text, read_series_file, SeriesFile, STDIN_NAME};
+use loopwise::{Error, Result};
 
 use super::progress::Progress;
 use super::{emit, DataFormatArg, Outcome, in_range};
@@ -23,10 +24,11 @@ const DEMO_NAME: &str = "series/examples/demo-cusp.yaml";
 
 #[derive(ClapArgs, Debug)]
 pub struct Args {
-    /// Series files (YAML) to check; see the README for the format.
+    /// Series files (YAML) to check, `-` for standard input; see the README for the format.
     #[arg(required = true)]
     pub files: Vec<PathBuf>,
-    /// Output format; JSON gives one object per file, an array for several.
+    /// Output format; JSON gives one object per file, an array for several
+    /// (a file that cannot be used is an object with `error`).
     #[arg(long, value_enum, default_value = "text")]
     pub format: DataFormatArg,
     /// Working decimal digits of numerical comparisons.
@@ -61,21 +63,53 @@ fn run_one(file: &SeriesFile, catalogue: &Catalogue, digits: u32) -> Result<comp
     c
 }
 
+/// The name a file goes by in reports, as the reader names it.
+fn display_name(path: &Path) -> String {
+    if path.as_os_str() == "-" {
+        STDIN_NAME.to_string()
+    } else {
+        path.display().to_string()
+    }
+}
+
 pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     in_range("--digits", args.digits, 6, MAX_DIGITS)?;
     let format: Format = args.format.into();
-    let files = args.files.iter().map(|p| read_series_file(p)).collect::<Result<Vec<_>>>()?;
-    let comparisons = files.iter().map(|f| run_one(f, catalogue, args.digits)).collect::<Result<Vec<_>>>()?;
-    let differs = comparisons.iter().any(compare::Comparison::any_differs);
-    let text = match (format, comparisons.len()) {
-        (Format::Json, n) if n > 1 => {
-            let parts = comparisons.iter().map(|c| render(c, format)).collect::<Result<Vec<_>>>()?;
-            format!("[\n{}]\n", parts.iter().map(|p| p.trim_end().to_string()).collect::<Vec<_>>().join(",\n"))
-        }
-        _ => comparisons.iter().map(|c| render(c, format)).collect::<Result<Vec<_>>>()?.join("\n"),
+    if args.files.iter().filter(|p| p.as_os_str() == "-").count() > 1 {
+        return Err(Error::input("`-` (standard input) is given more than once; it can be read only once"));
+    }
+    let checked = |p: &PathBuf| read_series_file(p).and_then(|f| run_one(&f, catalogue, args.digits));
+    // One file that cannot be used is the whole answer; among several, it is
+    // one entry of the report and the others are still checked.
+    if let [only] = args.files.as_slice() {
+        let c = checked(only)?;
+        emit(&render(&c, format)?)?;
+        return Ok(if c.agrees() { Outcome::Done } else { Outcome::Differs });
+    }
+    let results: Vec<(String, Result<compare::Comparison>)> = args.files.iter().map(|p| (display_name(p), checked(p))).collect();
+    let mut parts = Vec::new();
+    for (name, r) in &results {
+        parts.push(match r {
+            Ok(c) => render(c, format)?,
+            Err(e) => {
+                eprintln!("loopwise: {e}");
+                render_unusable(name, e, format)?
+            }
+        });
+    }
+    let text = match format {
+        Format::Json => format!("[\n{}]\n", parts.iter().map(|p| p.trim_end().to_string()).collect::<Vec<_>>().join(",\n")),
+        Format::Yaml => parts.iter().map(|p| format!("---\n{p}")).collect(),
+        _ => parts.join("\n"),
     };
     emit(&text)?;
-    Ok(if differs { Outcome::Differs } else { Outcome::Done })
+    Ok(if results.iter().any(|(_, r)| r.is_err()) {
+        Outcome::Unusable
+    } else if results.iter().any(|(_, r)| r.as_ref().is_ok_and(|c| !c.agrees())) {
+        Outcome::Differs
+    } else {
+        Outcome::Done
+    })
 }
 
 /// Runs the check on the built-in fictional scenario. It always exits 0:

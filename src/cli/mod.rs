@@ -1,7 +1,7 @@
 //! Command-line arguments (clap derive) and the one map from outcomes to exit
 //! codes: 0 when results were produced or everything agreed, 1 when a check
-//! finds a difference, 2 when input could not be used. Messages go to stderr, results
-//! alone to stdout.
+//! finds a difference or leaves a supplied order uncompared, 2 when input
+//! could not be used. Messages go to stderr, results alone to stdout.
 
 mod check;
 mod eval;
@@ -144,8 +144,11 @@ impl From<CouplingArg> for Coupling {
 pub enum Outcome {
     /// Results were produced (or everything agreed).
     Done,
-    /// A comparison found a difference.
+    /// A comparison found a difference, or could not compare every supplied order.
     Differs,
+    /// Some input could not be used, but the report on the rest was printed
+    /// (its messages are already on stderr).
+    Unusable,
 }
 
 /// Parses the arguments, runs the command, prints and returns the exit code.
@@ -154,6 +157,7 @@ pub fn run() -> i32 {
     match dispatch(&cli) {
         Ok(Outcome::Done) => 0,
         Ok(Outcome::Differs) => 1,
+        Ok(Outcome::Unusable) => 2,
         Err(e) => {
             eprintln!("loopwise: {e}");
             2

@@ -7,9 +7,9 @@ use clap::Args as ClapArgs;
 
 use loopwise::catalogue::Catalogue;
 use loopwise::fit::{default_basis, Solution};
-use loopwise::origincheck::{check_origin, fit_file, parse_basis, parse_origin_text, read_origin_file, read_text, OriginData};
+use loopwise::origincheck::{check_origin, fit_file, parse_basis, parse_origin_text, read_origin_file, OriginData};
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
-use loopwise::seriesfile::parse_series_text;
+use loopwise::seriesfile::{parse_series_text, read_input};
 use loopwise::Result;
 
 use super::check::MAX_DIGITS;
@@ -25,7 +25,8 @@ const DEFAULT_CEILING: u32 = 12;
 #[derive(ClapArgs, Debug)]
 pub struct OriginArgs {
     /// A series file with `normalisation: E` or `R6` and `symbols: [l1, l2, l3]` or `[l]`;
-    /// coefficients exact, or with decimals (then the whole file is read numerically).
+    /// coefficients exact, or with decimals (then the whole file is read numerically);
+    /// `-` reads standard input.
     pub file: PathBuf,
     /// Output format.
     #[arg(long, value_enum, default_value = "text")]
@@ -41,7 +42,8 @@ pub struct OriginArgs {
 
 #[derive(ClapArgs, Debug)]
 pub struct FitArgs {
-    /// A series file whose `orders` hold exact coefficients (no symbols, no decimals).
+    /// A series file whose `orders` hold exact coefficients (no symbols, no decimals);
+    /// `-` reads standard input.
     pub file: PathBuf,
     /// Basis elements separated by `;`, each `NAME=FORMULA` or a bare formula;
     /// default: Gamma, Delta and zeta(2)*Gamma at the tilts 0, pi/6, pi/4, pi/3, pi/2.
@@ -75,7 +77,8 @@ pub fn fit(args: &FitArgs, _catalogue: &Catalogue) -> Result<Outcome> {
         Some(text) => parse_basis(text)?,
         None => default_basis(),
     };
-    let file = parse_series_text(&read_text(&args.file)?, &args.file.display().to_string())?;
+    let (text, origin) = read_input(&args.file)?;
+    let file = parse_series_text(&text, &origin)?;
     let r = fit_file(&file, elements, args.ceiling)?;
     emit(&fit_report::render(&r, args.format.into())?)?;
     Ok(match r.fit.solution {

@@ -2,7 +2,8 @@
 //! convention (ratios 2^L or (16 pi^2)^L), the scaling function f = 2 Gamma
 //! instead of Gamma, an overall sign, loop orders shifted by one, a single
 //! mistyped order, a coefficient whose transcendental weight is not the
-//! prediction's. A slip is claimed only when it makes every supplied order agree.
+//! prediction's. A slip is claimed only when it makes every supplied order
+//! agree; when only one order is supplied, the claim says it rests on it.
 
 use std::fmt;
 
@@ -17,29 +18,41 @@ use crate::series::Series;
 /// What the diagnosis found.
 #[derive(Clone, Debug, PartialEq)]
 pub enum Diagnosis {
-    /// One hypothesis makes every supplied order agree.
-    Explained(String),
+    /// One hypothesis makes every supplied order agree; `orders` is how many
+    /// supplied orders it was tested on.
+    Explained { text: String, orders: usize },
     /// All orders but this one agree.
     Typo { loop_order: u32, agreeing: usize },
     /// An exact coefficient whose weights are not the prediction's.
-    Weight { loop_order: u32, found: Vec<i64>, expected: Vec<i64> },
+    /// Weights are those of the coefficient of g^(2L); `declared` says
+    /// whether that needs saying (only lambda rescales by powers of pi).
+    Weight { loop_order: u32, found: Vec<i64>, expected: Vec<i64>, declared: Coupling },
 }
 
 impl fmt::Display for Diagnosis {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
-            Diagnosis::Explained(s) => f.write_str(s),
+            Diagnosis::Explained { text, orders: 1 } => write!(
+                f,
+                "{text} (this rests on one supplied order only: a single number cannot tell a slip from a \
+                 coincidence; more orders would confirm or rule it out)"
+            ),
+            Diagnosis::Explained { text, .. } => f.write_str(text),
             Diagnosis::Typo { loop_order, agreeing } => write!(
                 f,
                 "order {loop_order} looks like a slip in that order alone: the other {agreeing} orders agree"
             ),
-            Diagnosis::Weight { loop_order, found, expected } => {
+            Diagnosis::Weight { loop_order, found, expected, declared } => {
                 let list = |w: &[i64]| w.iter().map(i64::to_string).collect::<Vec<_>>().join(", ");
                 if found.len() > 1 {
                     write!(f, "order {loop_order} mixes transcendental weights {}; the prediction has weight {}", list(found), list(expected))
                 } else {
                     write!(f, "order {loop_order} has transcendental weight {}; the prediction has weight {}", list(found), list(expected))
+                }?;
+                if *declared == Coupling::Lambda {
+                    f.write_str(" (counted on the coefficient of g^(2L), without the pi^(-2L) of lambda)")?;
                 }
+                Ok(())
             }
         }
     }
@@ -57,14 +70,10 @@ impl Hypothesis {
     fn describe(&self, declared: Coupling) -> String {
         let mut parts = Vec::new();
         if self.coupling != declared {
-            let what = match self.coupling {
-                Coupling::G2 => "g^2 = lambda/(16 pi^2)",
-                Coupling::A => "a = lambda/(8 pi^2) = 2 g^2",
-                Coupling::Lambda => "lambda",
-            };
             parts.push(format!(
-                "the coefficients follow the convention {} ({what}) although the file says `coupling: {}`",
+                "the coefficients follow the convention {} ({}) although the file says `coupling: {}`",
                 self.coupling.name(),
+                self.coupling.meaning(),
                 declared.name()
             ));
         }
@@ -100,12 +109,13 @@ pub fn diagnose(
     if !verdicts.iter().any(|v| v.as_ref().is_some_and(Verdict::differs)) {
         return Ok(out);
     }
-    if supplied.len() >= 2 {
-        for h in hypotheses(declared) {
-            let v = verdicts_under(&h, supplied, prediction_g2, digits)?;
-            if v.iter().all(|v| v.as_ref().is_some_and(Verdict::agrees)) {
-                out.push(Diagnosis::Explained(h.describe(declared)));
-            }
+    // A single order is tested too: the usual slips are few, so one that
+    // turns the only order into agreement is worth naming, with the caveat
+    // that it rests on that order.
+    for h in hypotheses(declared) {
+        let v = verdicts_under(&h, supplied, prediction_g2, digits)?;
+        if v.iter().all(|v| v.as_ref().is_some_and(Verdict::agrees)) {
+            out.push(Diagnosis::Explained { text: h.describe(declared), orders: supplied.len() });
         }
     }
     let differing: Vec<usize> = (0..verdicts.len()).filter(|&k| verdicts[k].as_ref().is_some_and(Verdict::differs)).collect();
@@ -113,18 +123,31 @@ pub fn diagnose(
     if out.is_empty() && differing.len() == 1 && agreeing >= 2 {
         out.push(Diagnosis::Typo { loop_order: supplied[differing[0]].0, agreeing });
     }
-    let converted = prediction_g2.in_coupling(declared);
+    // A slip that explains every order explains their weights too. Weights
+    // are compared in g^2, where the predictions have uniform weight: in
+    // lambda every coefficient carries pi^(-2L), which says nothing about
+    // the order itself.
+    if out.iter().any(|d| matches!(d, Diagnosis::Explained { .. })) {
+        return Ok(out);
+    }
     for &k in &differing {
         let (l, s) = &supplied[k];
-        if let (Supplied::Exact(x), true) = (s, (*l as usize) <= converted.order()) {
-            let found = x.weights();
-            let expected = converted.coeff(*l as usize).weights();
+        if let (Supplied::Exact(x), true) = (s, (*l as usize) <= prediction_g2.order()) {
+            let found = in_g2(x, *l as usize, declared).weights();
+            let expected = prediction_g2.coeff(*l as usize).weights();
             if !found.is_empty() && expected.len() == 1 && found != expected {
-                out.push(Diagnosis::Weight { loop_order: *l, found, expected });
+                out.push(Diagnosis::Weight { loop_order: *l, found, expected, declared });
             }
         }
     }
     Ok(out)
+}
+
+/// The coefficient of order `l` written in `coupling`, as the coefficient of g^(2l).
+fn in_g2(x: &Exact, l: usize, coupling: Coupling) -> Exact {
+    let mut coeffs = vec![Exact::zero(); l + 1];
+    coeffs[l] = x.clone();
+    Series::new(coeffs).from_coupling(coupling).coeff(l).clone()
 }
 
 fn hypotheses(declared: Coupling) -> Vec<Hypothesis> {

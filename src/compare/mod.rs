@@ -33,13 +33,33 @@ pub enum Verdict {
     /// supplied - predicted, and its numerical value.
     DiffersExactly { difference: Exact, size: Float },
     /// How many significant digits agree.
-    AgreesNumerically { digits: u32, sigmas: Option<Float> },
+    AgreesNumerically { digits: u32, in_units: Option<InUnits> },
     /// supplied - predicted numerically, in units of the uncertainty when one is known.
-    DiffersNumerically { difference: Float, sigmas: Option<Float>, digits: u32 },
+    DiffersNumerically { difference: Float, in_units: Option<InUnits>, digits: u32 },
     /// The prediction does not reach this order.
     NotPredicted,
     /// The file gives no coefficient for this order.
     NotSupplied,
+}
+
+/// |supplied - predicted| in units of the supplied uncertainty. The two
+/// kinds are kept apart because they are judged differently: 2 sigma of a
+/// stated uncertainty agrees (within 3), twice the rounding bound of the
+/// written digits differs (beyond 1).
+#[derive(Clone, Debug)]
+pub enum InUnits {
+    /// Of an uncertainty the file states, read as one standard deviation.
+    Sigmas(Float),
+    /// Of the rounding bound implied by the written digits (half a unit of the last).
+    RoundingBounds(Float),
+}
+
+impl InUnits {
+    pub fn ratio(&self) -> &Float {
+        match self {
+            InUnits::Sigmas(x) | InUnits::RoundingBounds(x) => x,
+        }
+    }
 }
 
 impl Verdict {
@@ -75,6 +95,8 @@ pub struct OrderResult {
     /// When the file gives both `exact` and `value`: the verdict of the value
     /// against the file's own exact coefficient, if they disagree.
     pub inconsistent: Option<Verdict>,
+    /// The `value` as written, when the file gives both.
+    pub value_text: Option<String>,
 }
 
 /// The whole comparison of one file.
@@ -96,6 +118,17 @@ impl Comparison {
         self.orders.iter().any(|o| o.verdict.differs() || o.inconsistent.is_some())
     }
 
+    /// The supplied orders that were not compared (beyond the engine's reach).
+    pub fn not_compared(&self) -> Vec<u32> {
+        self.orders.iter().filter(|o| o.supplied.is_some() && matches!(o.verdict, Verdict::NotPredicted)).map(|o| o.loop_order).collect()
+    }
+
+    /// The verdict a pipeline acts on: every supplied order was compared and
+    /// agrees. An order that could not be compared is no evidence of agreement.
+    pub fn agrees(&self) -> bool {
+        !self.any_differs() && self.not_compared().is_empty()
+    }
+
     /// "orders 1-6 agree, order 7 differs".
     pub fn summary(&self) -> String {
         let class = |o: &OrderResult| -> &'static str {
@@ -104,7 +137,7 @@ impl Comparison {
             } else if o.verdict.agrees() {
                 "agree"
             } else if matches!(o.verdict, Verdict::NotPredicted) {
-                "not predicted"
+                "not compared"
             } else {
                 "not supplied"
             }
@@ -163,7 +196,14 @@ pub fn judge_numbers(x: &Approx, p: &Float, written: Option<u32>, digits: u32) -
     let difference = Float::with_val(prec, &x.value - p);
     let abs = Float::with_val(prec, difference.abs_ref());
     let agreeing = agreeing_digits(&abs, p).min(written.unwrap_or(digits)).min(digits);
-    let sigmas = (!x.uncertainty.is_zero()).then(|| Float::with_val(prec, &abs / &x.uncertainty));
+    let in_units = (!x.uncertainty.is_zero()).then(|| {
+        let ratio = Float::with_val(prec, &abs / &x.uncertainty);
+        if x.stated {
+            InUnits::Sigmas(ratio)
+        } else {
+            InUnits::RoundingBounds(ratio)
+        }
+    });
     let agrees = if x.uncertainty.is_zero() {
         let scale = if p.is_zero() { Float::with_val(prec, 1) } else { Float::with_val(prec, p.abs_ref()) };
         let tolerance = Float::with_val(prec, 10u32).pow(digits.saturating_sub(3));
@@ -176,9 +216,9 @@ pub fn judge_numbers(x: &Approx, p: &Float, written: Option<u32>, digits: u32) -
         abs <= Float::with_val(prec, &x.uncertainty * 1.000001f64)
     };
     if agrees {
-        Verdict::AgreesNumerically { digits: agreeing, sigmas }
+        Verdict::AgreesNumerically { digits: agreeing, in_units }
     } else {
-        Verdict::DiffersNumerically { difference, sigmas, digits: agreeing }
+        Verdict::DiffersNumerically { difference, in_units, digits: agreeing }
     }
 }
 
@@ -218,6 +258,7 @@ pub fn compare_orders(
                 predicted,
                 verdict: Verdict::NotSupplied,
                 inconsistent: None,
+                value_text: None,
             });
             continue;
         };
@@ -239,6 +280,7 @@ pub fn compare_orders(
             predicted,
             verdict,
             inconsistent,
+            value_text: extra.as_ref().map(Supplied::text),
         });
     }
     Ok(out)

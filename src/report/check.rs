@@ -6,7 +6,7 @@ use rug::Float;
 use serde::Serialize;
 
 use super::expansion::status_line;
-use super::{decimal, serialized, Format, JsonVerdict};
+use super::{decimal, in_units_text, serialized, Format, JsonVerdict};
 use crate::compare::{Comparison, OrderResult, Verdict};
 use crate::error::{Error, Result};
 
@@ -22,6 +22,9 @@ struct JsonOrder {
     predicted: Option<String>,
     #[serde(skip_serializing_if = "Option::is_none")]
     inconsistent_value: Option<&'static str>,
+    /// The file's `value` judged against its own `exact`, with the size of the gap.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    inconsistency: Option<JsonVerdict>,
 }
 
 #[derive(Serialize)]
@@ -32,10 +35,15 @@ struct JsonReport {
     coupling: &'static str,
     status: Option<String>,
     agrees: bool,
+    /// Supplied orders that were not compared; `agrees` is false when there are any.
+    not_compared: Vec<u32>,
     orders: Vec<JsonOrder>,
     diagnoses: Vec<String>,
     summary: String,
 }
+
+/// What an implied uncertainty is, in the words of the report.
+const WRITTEN_BOUND: &str = "the rounding bound of the written digits";
 
 fn short(x: &Float) -> String {
     decimal(x, 6)
@@ -49,6 +57,7 @@ fn json_order(o: &OrderResult) -> JsonOrder {
         supplied: o.supplied.as_ref().map(|s| s.text()),
         predicted: o.predicted.as_ref().map(|p| p.to_string()),
         inconsistent_value: o.inconsistent.as_ref().map(Verdict::name),
+        inconsistency: o.inconsistent.as_ref().map(|v| JsonVerdict::of(v, ToString::to_string)),
     }
 }
 
@@ -62,23 +71,30 @@ fn text_row(o: &OrderResult, max_digits: u32) -> (&'static str, String, String) 
             "differs exactly".to_string(),
             format!("supplied - predicted = {difference} = {}", short(size)),
         ),
-        Verdict::AgreesNumerically { digits, sigmas } => {
+        Verdict::AgreesNumerically { digits, in_units } => {
             let d = if *digits >= max_digits { format!("{max_digits}+") } else { digits.to_string() };
-            let s = sigmas.as_ref().map_or(String::new(), |s| format!(", {} sigma", decimal(s, 2)));
+            let s = in_units.as_ref().map_or(String::new(), |u| format!(", {}", in_units_text(u, 2, WRITTEN_BOUND)));
             ("ok", format!("agrees to {d} digits"), format!("supplied {supplied}{s}"))
         }
-        Verdict::DiffersNumerically { difference, sigmas, .. } => {
-            let s = sigmas.as_ref().map_or(String::new(), |s| format!(" = {} sigma", decimal(s, 3)));
+        Verdict::DiffersNumerically { difference, in_units, .. } => {
+            let s = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND)));
             ("DIFF", "differs numerically".to_string(), format!("supplied {supplied}: supplied - predicted = {}{s}", short(difference)))
         }
         Verdict::NotPredicted => ("-", "not predicted".to_string(), "beyond the orders the prediction reaches".to_string()),
         Verdict::NotSupplied => ("-", "not supplied".to_string(), String::new()),
     };
     if let Some(v) = &o.inconsistent {
-        detail.push_str(&format!("; the file's own `value` {} its `exact`", match v {
-            Verdict::DiffersExactly { .. } | Verdict::DiffersNumerically { .. } => "disagrees with",
-            _ => "does not match",
-        }));
+        let size = match v {
+            Verdict::DiffersNumerically { difference, in_units, .. } => {
+                let u = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND)));
+                format!(": value - exact = {}{u}", short(difference))
+            }
+            Verdict::DiffersExactly { difference, size } => format!(": value - exact = {difference} = {}", short(size)),
+            _ => String::new(),
+        };
+        let value = o.value_text.as_deref().unwrap_or("");
+        let gap = format!("the file's own value {value} disagrees with its exact{size}");
+        detail = if detail.is_empty() { format!("but {gap}") } else { format!("{detail}; and {gap}") };
         return ("DIFF", words, detail);
     }
     if let Some(l) = &o.label {
@@ -95,6 +111,27 @@ pub fn render(c: &Comparison, format: Format) -> Result<String> {
     }
 }
 
+/// The entry of a file that could not be checked, among the reports on
+/// several files: its name and the message, with `agrees: false` so that a
+/// pipeline reading only that field does not take it for a pass.
+#[derive(Serialize)]
+struct JsonUnusable<'a> {
+    file: &'a str,
+    agrees: bool,
+    error: &'a str,
+}
+
+pub fn render_unusable(file: &str, error: &Error, format: Format) -> Result<String> {
+    match format {
+        Format::Text => {
+            let message: String = error.message().lines().map(|l| format!("  {l}\n")).collect();
+            Ok(format!("{file}: not checked, the input cannot be used:\n{message}"))
+        }
+        Format::Json | Format::Yaml => serialized(&JsonUnusable { file, agrees: false, error: error.message() }, format),
+        Format::Latex => Err(Error::input("the check report comes as text, json or yaml")),
+    }
+}
+
 fn json(c: &Comparison) -> JsonReport {
     JsonReport {
         file: c.file.clone(),
@@ -102,7 +139,8 @@ fn json(c: &Comparison) -> JsonReport {
         definition: c.definition.clone(),
         coupling: c.coupling.name(),
         status: c.entry.as_ref().map(|e| e.status.to_string()),
-        agrees: !c.any_differs(),
+        agrees: c.agrees(),
+        not_compared: c.not_compared(),
         orders: c.orders.iter().map(json_order).collect(),
         diagnoses: c.diagnoses.iter().map(ToString::to_string).collect(),
         summary: c.summary(),
@@ -133,6 +171,20 @@ fn text(c: &Comparison) -> String {
         for d in &c.diagnoses {
             out.push_str(&format!("  - {d}\n"));
         }
+    }
+    let skipped = c.not_compared();
+    if !skipped.is_empty() {
+        let list = skipped.iter().map(u32::to_string).collect::<Vec<_>>().join(", ");
+        let (which, are) = if skipped.len() == 1 { ("order", "is") } else { ("orders", "are") };
+        out.push('\n');
+        out.push_str(&super::wrap(
+            &format!(
+                "not compared: {which} {list} {are} beyond the {} loops the prediction is expanded to, so the file \
+                 is not a pass even where every compared order agrees.",
+                crate::kernel::MAX_LOOPS
+            ),
+            88,
+        ));
     }
     out.push_str(&format!("\nsummary: {}\n", c.summary()));
     out

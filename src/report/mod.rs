@@ -63,37 +63,55 @@ pub struct JsonVerdict {
     pub difference_value: Option<String>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub digits_agreeing: Option<u32>,
-    /// |supplied - predicted| in units of the uncertainty.
+    /// |supplied - predicted| in units of a stated uncertainty.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub sigmas: Option<String>,
+    /// |supplied - predicted| in units of the rounding bound of the written
+    /// digits, when no uncertainty is stated.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub rounding_bounds: Option<String>,
+}
+
+/// A difference in units of its uncertainty, as the text reports say it;
+/// `bound` names the rounding bound where no uncertainty was stated.
+pub fn in_units_text(u: &crate::compare::InUnits, digits: u32, bound: &str) -> String {
+    match u {
+        crate::compare::InUnits::Sigmas(x) => format!("{} sigma", decimal(x, digits)),
+        crate::compare::InUnits::RoundingBounds(x) => format!("{} times {bound}", decimal(x, digits)),
+    }
 }
 
 impl JsonVerdict {
     /// A verdict that carries no details (not supplied, not testable, ...).
     pub fn named(verdict: &'static str) -> Self {
-        JsonVerdict { verdict, difference: None, difference_value: None, digits_agreeing: None, sigmas: None }
+        JsonVerdict { verdict, difference: None, difference_value: None, digits_agreeing: None, sigmas: None, rounding_bounds: None }
     }
 
     /// `exact` writes an exact difference in the report's style.
     pub fn of(v: &crate::compare::Verdict, exact: impl Fn(&crate::ring::Exact) -> String) -> Self {
         use crate::compare::Verdict;
         let mut out = JsonVerdict::named(v.name());
-        let sigmas = |s: &Option<Float>| s.as_ref().map(|s| decimal(s, 4));
-        match v {
+        let in_units = match v {
             Verdict::DiffersExactly { difference, size } => {
                 out.difference = Some(exact(difference));
                 out.difference_value = Some(decimal(size, 20));
+                None
             }
-            Verdict::AgreesNumerically { digits, sigmas: s } => {
+            Verdict::AgreesNumerically { digits, in_units } => {
                 out.digits_agreeing = Some(*digits);
-                out.sigmas = sigmas(s);
+                in_units.as_ref()
             }
-            Verdict::DiffersNumerically { difference, sigmas: s, digits } => {
+            Verdict::DiffersNumerically { difference, in_units, digits } => {
                 out.difference_value = Some(decimal(difference, 20));
                 out.digits_agreeing = Some(*digits);
-                out.sigmas = sigmas(s);
+                in_units.as_ref()
             }
-            _ => {}
+            _ => None,
+        };
+        match in_units {
+            Some(crate::compare::InUnits::Sigmas(x)) => out.sigmas = Some(decimal(x, 4)),
+            Some(crate::compare::InUnits::RoundingBounds(x)) => out.rounding_bounds = Some(decimal(x, 4)),
+            None => {}
         }
         out
     }

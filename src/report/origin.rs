@@ -8,7 +8,7 @@
 
 use serde::Serialize;
 
-use super::{decimal, Format, JsonVerdict};
+use super::{decimal, in_units_text, Format, JsonVerdict};
 use crate::catalogue::{Entry, Status};
 use crate::compare::Verdict;
 use crate::error::{Error, Result};
@@ -32,6 +32,9 @@ fn show_reading(r: &Reading, even: EvenStyle, digits: u32) -> String {
     }
 }
 
+/// What an uncertainty propagated from implied ones is, in the words of the report.
+const PROPAGATED_BOUND: &str = "the rounding bound propagated from the written digits";
+
 /// |value| / uncertainty, when there is an uncertainty.
 fn sigmas_of(a: &Approx) -> Option<rug::Float> {
     (!a.uncertainty.is_zero()).then(|| rug::Float::with_val(a.value.prec(), a.value.abs_ref()) / &a.uncertainty)
@@ -41,7 +44,7 @@ fn sigmas_of(a: &Approx) -> Option<rug::Float> {
 fn term_text(t: &NumTerm, logs: &OriginLogs, digits: u32) -> String {
     let size = match sigmas_of(&t.coefficient) {
         Some(s) if t.coefficient.stated => format!("{} sigma", decimal(&s, 3)),
-        Some(s) => format!("{} times its rounding bound", decimal(&s, 3)),
+        Some(s) => format!("{} times {PROPAGATED_BOUND}", decimal(&s, 3)),
         None => "beyond the working precision".to_string(),
     };
     format!("{}*{} ({size})", written(&t.coefficient, digits.min(SHOWN_DIGITS)), monomial_text(t.exponents, logs))
@@ -132,8 +135,11 @@ struct JsonTerm {
     value: String,
     uncertainty: String,
     uncertainty_stated: bool,
+    /// |value| in units of a stated uncertainty, or of a rounding bound when none is stated.
     #[serde(skip_serializing_if = "Option::is_none")]
     sigmas: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    rounding_bounds: Option<String>,
 }
 
 fn json_break(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> JsonBreak {
@@ -147,7 +153,8 @@ fn json_break(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> Js
                 value: decimal(&t.coefficient.value, digits.min(SHOWN_DIGITS)),
                 uncertainty: decimal(&t.coefficient.uncertainty, 3),
                 uncertainty_stated: t.coefficient.stated,
-                sigmas: sigmas_of(&t.coefficient).map(|s| decimal(&s, 4)),
+                sigmas: sigmas_of(&t.coefficient).filter(|_| t.coefficient.stated).map(|s| decimal(&s, 4)),
+                rounding_bounds: sigmas_of(&t.coefficient).filter(|_| !t.coefficient.stated).map(|s| decimal(&s, 4)),
             }));
         }
     }
@@ -166,6 +173,8 @@ struct JsonReport {
     broken: Option<JsonBreak>,
     agrees: bool,
     orders: Vec<JsonOrder>,
+    /// Slips that would make every order exponentiate and agree.
+    diagnoses: Vec<String>,
     summary: String,
     notes: Vec<String>,
     /// The orders written with numbers; the analysis was numerical when any is.
@@ -223,6 +232,7 @@ fn json(c: &OriginCheck, even: EvenStyle) -> JsonReport {
         broken: c.broken.as_ref().map(|b| json_break(b, &c.logs, even, d)),
         agrees: c.agrees(),
         orders,
+        diagnoses: c.diagnoses.clone(),
         summary: c.summary(),
         notes: notes(c),
         numeric_orders: c.numeric.clone(),
@@ -413,13 +423,13 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
                     show(difference, even),
                     decimal(size, 6)
                 )),
-                Verdict::DiffersNumerically { difference, sigmas, .. } => {
+                Verdict::DiffersNumerically { difference, in_units, .. } => {
                     let value = j
                         .predicted
                         .as_ref()
                         .and_then(|p| p.evaluate(crate::compare::working_bits(c.digits)).ok())
                         .map_or(String::new(), |v| format!(" = {}", decimal(&v, 12)));
-                    let s = sigmas.as_ref().map_or(String::new(), |s| format!(" = {} sigma", decimal(s, 3)));
+                    let s = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, PROPAGATED_BOUND)));
                     differences.push(format!(
                         "L={} {name}: supplied {supplied}, predicted {predicted}{value}; supplied - predicted = {}{s}",
                         r.loop_order,
@@ -458,6 +468,16 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
         }
     }
 
+    if !c.diagnoses.is_empty() {
+        out.push_str("\ndiagnosis:\n");
+        for d in &c.diagnoses {
+            for (i, line) in super::wrap(d, 84).lines().enumerate() {
+                out.push_str(if i == 0 { "  - " } else { "    " });
+                out.push_str(line);
+                out.push('\n');
+            }
+        }
+    }
     out.push_str(&format!("\nsummary: {}\n", c.summary()));
     out.push_str("notes:\n");
     for n in notes(c) {
