@@ -102,7 +102,7 @@ impl Estimate {
 pub const MAX_DIGITS: u32 = 200;
 
 /// Coupling beyond which the truncation and node counts become impractical.
-const MAX_COUPLING: f64 = 200.0;
+pub const MAX_COUPLING: f64 = 200.0;
 
 /// Largest truncation the engine will try.
 const MAX_SIZE: usize = 3000;
