@@ -256,3 +256,27 @@ fn grid_is_validated_before_any_work() {
     assert_eq!(gs.len(), 4, "{out}");
     assert_eq!((gs[0], gs[3]), ("0", "1"), "{out}");
 }
+
+/// `scan` and `at` print no digit below the error estimate: a formula that
+/// cancels to zero prints a number (once `0 +- 4.9e-24`, text in a CSV
+/// column) no larger than its error, and no digit finer than the error's
+/// leading one.
+#[test]
+fn scan_and_at_print_only_digits_the_error_supports() {
+    let (code, out, err) = loopwise(&["scan", "Gamma(pi/4) - Gamma(c2=1/2)", "--g", "0.5:1", "--points", "2", "--digits", "10"]);
+    assert_eq!(code, 0, "{err}");
+    for line in out.lines().skip(1) {
+        let cols: Vec<&str> = line.split(',').collect();
+        assert_eq!(cols.len(), 3, "{line}");
+        let value = f(cols[1]);
+        let error = f(cols[2]);
+        assert!(Float::with_val(PREC, value.abs_ref()) <= error, "{line}");
+        if let Some((_, decimals)) = cols[1].split_once('.') {
+            let unit = Float::with_val(PREC, Float::with_val(PREC, 10u32).pow_ref_i(-(decimals.len() as i32)));
+            assert!(unit * 10u32 > error, "{line}: digits below the error");
+        }
+    }
+    let v = at_json(&["Gamma(pi/4) - Gamma(c2=1/2)", "--g", "1", "--digits", "10"]);
+    assert_eq!(v["values"][0]["digits"], 0);
+    assert!(Float::parse(v["values"][0]["value"].as_str().unwrap()).is_ok(), "{v}");
+}
