@@ -280,3 +280,35 @@ fn scan_and_at_print_only_digits_the_error_supports() {
     assert_eq!(v["values"][0]["digits"], 0);
     assert!(Float::parse(v["values"][0]["value"].as_str().unwrap()).is_ok(), "{v}");
 }
+
+/// A plot needs two points of its range at least: a STEP beyond the range
+/// is refused (it drew empty axes) and no file is written.
+#[test]
+fn one_point_plot_is_refused() {
+    let path = std::env::temp_dir().join(format!("loopwise-one-point-{}.svg", std::process::id()));
+    let (code, _, err) = loopwise(&["plot", "cusp", "--g", "0:3:5", "--out", path.to_str().unwrap()]);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("single point"), "{err}");
+    assert!(!path.exists());
+    let (code, _, err) = loopwise(&["plot", "cusp", "--g", "1", "--out", path.to_str().unwrap()]);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("range"), "{err}");
+    assert!(!path.exists());
+}
+
+/// An angle the exact engine cannot treat still has a finite-coupling curve:
+/// the plot draws it, draws the other quantity's weak-coupling curves, and
+/// says on stderr what it left out.
+#[test]
+fn plot_skips_the_weak_coupling_series_it_cannot_expand() {
+    let path = std::env::temp_dir().join(format!("loopwise-skip-{}.svg", std::process::id()));
+    let (code, _, err) = loopwise(&["plot", "Gamma(0.3)", "cusp", "--g", "0:1", "--points", "11", "--loops", "2,4", "--out", path.to_str().unwrap()]);
+    let svg = std::fs::read_to_string(&path).unwrap_or_default();
+    std::fs::remove_file(&path).ok();
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("Gamma(0.3): weak-coupling curves left out"), "{err}");
+    for name in ["Gamma(0.3) (finite coupling)", "cusp (finite coupling)", "cusp weak coupling, 2 loops"] {
+        assert!(svg.contains(name), "missing {name}");
+    }
+    assert!(!svg.contains("Gamma(0.3) weak coupling"), "a curve that cannot exist was drawn");
+}

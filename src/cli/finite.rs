@@ -200,19 +200,33 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let mut extra = Vec::new();
     for q in &quantities {
         let top = loops.iter().copied().max().unwrap_or(0).max(args.pade.map_or(0, |n| 2 * n as u32));
-        let coeffs = if top > 0 { finite::weak_coefficients(&q.expand(top, &mut |_, _, _| {})?, prec)? } else { Vec::new() };
-        for &l in &loops {
-            let points = xs.iter().zip(&couplings).map(|(x, g)| (*x, finite::weak_sum(&coeffs, l as usize, g).to_f64())).collect();
-            extra.push(plot::Curve { name: format!("{} weak coupling, {l} loops", q.label), points, dashed: true });
-        }
-        if let Some(n) = args.pade {
-            let pade = finite::pade_in_g2(&coeffs[..=2 * n], n, n)?;
-            let points = xs
-                .iter()
-                .zip(&couplings)
-                .map(|(x, g)| (*x, pade.eval(&Float::with_val(prec, g.square_ref())).to_f64()))
-                .collect();
-            extra.push(plot::Curve { name: format!("{} Padé [{n}/{n}] in g^2", q.label), points, dashed: true });
+        let coeffs = if top == 0 {
+            None
+        } else {
+            match q.expand(top, &mut |_, _, _| {}) {
+                Ok(series) => Some(finite::weak_coefficients(&series, prec)?),
+                // The finite-coupling engine takes any real tilt, the exact
+                // one only some: what it cannot expand is left out, not the figure.
+                Err(e) => {
+                    eprintln!("loopwise: {}: weak-coupling curves left out (the finite-coupling curve is drawn): {e}", q.label);
+                    None
+                }
+            }
+        };
+        if let Some(coeffs) = &coeffs {
+            for &l in &loops {
+                let points = xs.iter().zip(&couplings).map(|(x, g)| (*x, finite::weak_sum(coeffs, l as usize, g).to_f64())).collect();
+                extra.push(plot::Curve { name: format!("{} weak coupling, {l} loops", q.label), points, dashed: true });
+            }
+            if let Some(n) = args.pade {
+                let pade = finite::pade_in_g2(&coeffs[..=2 * n], n, n)?;
+                let points = xs
+                    .iter()
+                    .zip(&couplings)
+                    .map(|(x, g)| (*x, pade.eval(&Float::with_val(prec, g.square_ref())).to_f64()))
+                    .collect();
+                extra.push(plot::Curve { name: format!("{} Padé [{n}/{n}] in g^2", q.label), points, dashed: true });
+            }
         }
         if !args.no_strong {
             if let Some(sc) = q.entry.as_ref().and_then(|e| e.strong_coupling.as_ref()) {
@@ -236,6 +250,8 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
         if keep.len() >= 2 {
             c.points = keep;
             curves.push(c);
+        } else {
+            eprintln!("loopwise: {}: left out, fewer than two of its points lie near the finite-coupling curves", c.name);
         }
     }
     let names: Vec<&str> = quantities.iter().map(|q| q.label.as_str()).collect();
