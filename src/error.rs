@@ -4,7 +4,7 @@
 
 use std::fmt;
 
-/// What went wrong, coarsely; the binary turns every kind into exit code 2.
+/// What went wrong, coarsely; the binary turns every kind but `Closed` into exit code 2.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[non_exhaustive]
 pub enum ErrorKind {
@@ -19,6 +19,9 @@ pub enum ErrorKind {
     Io,
     /// A numerical computation could not reach the requested accuracy.
     Numeric,
+    /// Whoever read the output stopped reading (a closed pipe, as under
+    /// `| head`): the end of a run, not a failure.
+    Closed,
 }
 
 /// An error with a message meant for the person at the terminal.
@@ -46,6 +49,9 @@ impl Error {
     }
     pub fn numeric(message: impl Into<String>) -> Self {
         Self::new(ErrorKind::Numeric, message)
+    }
+    pub fn closed(message: impl Into<String>) -> Self {
+        Self::new(ErrorKind::Closed, message)
     }
     pub fn kind(&self) -> ErrorKind {
         self.kind

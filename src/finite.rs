@@ -148,9 +148,24 @@ pub fn radius(coeffs: &[Float]) -> Result<RadiusEstimate> {
     convergence::radius_in_g(&coeffs[1.min(coeffs.len())..])
 }
 
+/// How many points a grid START:STOP (without a STEP) has.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum GridPoints {
+    /// The user asked for this many (`--points`): a STEP beside it is a conflict.
+    Given(usize),
+    /// The command's default, used when the grid has no STEP.
+    Default(usize),
+    /// The command has no `--points`: a grid needs its STEP.
+    NoCount,
+}
+
 /// Parses a list of couplings "0.1,0.5,1" or a grid "START:STOP:STEP" /
-/// "START:STOP" (then `points` values). Couplings must be non-negative.
-pub fn parse_couplings(text: &str, points: usize, prec: u32) -> Result<Vec<Float>> {
+/// "START:STOP" (then `points` values), and checks the whole of it before
+/// any work starts: every coupling within the engine's 0 <= g <= MAX_COUPLING,
+/// a grid with at least two and at most `max_points` points, and no `--points`
+/// beside a STEP or a list, which would otherwise be ignored.
+pub fn parse_couplings(text: &str, points: GridPoints, max_points: usize, prec: u32) -> Result<Vec<Float>> {
+    let limit = engine::MAX_COUPLING;
     let number = |t: &str| -> Result<Float> {
         let t = t.trim();
         let parsed = Float::parse(t).map_err(|_| Error::input(format!("`{t}` is not a number (couplings are written like 0.5 or 2)")))?;
@@ -160,38 +175,83 @@ pub fn parse_couplings(text: &str, points: usize, prec: u32) -> Result<Vec<Float
         }
         Ok(v)
     };
-    if text.contains(':') {
-        let parts: Vec<&str> = text.split(':').collect();
-        if parts.len() > 3 {
-            return Err(Error::input(format!("grid `{text}`: expected START:STOP or START:STOP:STEP")));
+    let reach = |g: &Float, t: &str| -> Result<()> {
+        if *g > limit {
+            return Err(Error::range(format!(
+                "{t} is beyond the finite-coupling engine: it takes couplings 0 <= g <= {limit}"
+            )));
         }
-        let start = number(parts[0])?;
-        let stop = number(parts[1])?;
-        if stop <= start {
-            return Err(Error::range(format!("grid `{text}` is empty or reversed: STOP must exceed START")));
+        Ok(())
+    };
+    if !text.contains(':') {
+        if let GridPoints::Given(n) = points {
+            return Err(Error::input(format!("--points {n} applies to a grid START:STOP, not to the list `{text}`")));
         }
-        let span = Float::with_val(prec, &stop - &start);
-        let step = match parts.get(2) {
-            Some(t) => {
-                let step = number(t)?;
-                if step.is_zero() {
-                    return Err(Error::range(format!("grid `{text}`: the step must be positive")));
-                }
-                step
+        let mut list = Vec::new();
+        for t in text.split(',').filter(|t| !t.trim().is_empty()) {
+            let g = number(t)?;
+            reach(&g, &format!("coupling {}", t.trim()))?;
+            list.push(g);
+        }
+        if list.is_empty() {
+            return Err(Error::input("no couplings given: write a list like 0.1,0.5,1 or a grid like 0:3:0.05"));
+        }
+        if list.len() > max_points {
+            return Err(Error::range(format!("the list has {} couplings: at most {max_points}", list.len())));
+        }
+        return Ok(list);
+    }
+    let parts: Vec<&str> = text.split(':').collect();
+    if parts.len() > 3 {
+        return Err(Error::input(format!("grid `{text}`: expected START:STOP or START:STOP:STEP")));
+    }
+    let start = number(parts[0])?;
+    let stop = number(parts[1])?;
+    if stop <= start {
+        return Err(Error::range(format!("grid `{text}` is empty or reversed: STOP must exceed START")));
+    }
+    let span = Float::with_val(prec, &stop - &start);
+    let (step, count) = match (parts.get(2), points) {
+        (Some(_), GridPoints::Given(n)) => {
+            return Err(Error::input(format!(
+                "grid `{text}` has a STEP and --points {n} asks for a count: give one of them (START:STOP with --points, or START:STOP:STEP)"
+            )))
+        }
+        (Some(t), _) => {
+            let step = number(t)?;
+            if step.is_zero() {
+                return Err(Error::range(format!("grid `{text}`: the step must be positive")));
             }
-            None => Float::with_val(prec, &span / (points.max(2) - 1) as u32),
-        };
-        let n = Float::with_val(prec, &span / &step).to_f64();
-        if n > 100_000.0 {
-            return Err(Error::range(format!("grid `{text}` has more than 100000 points")));
+            let n = Float::with_val(prec, &span / &step).to_f64();
+            if n + 1.0 > max_points as f64 {
+                return Err(Error::range(format!("grid `{text}` has {:.0} points: at most {max_points}", (n + 1.0).floor())));
+            }
+            // A small tolerance keeps STOP when the step divides the span up to rounding.
+            let count = (n + 1e-9).floor() as usize + 1;
+            if count < 2 {
+                return Err(Error::range(format!(
+                    "grid `{text}` has a single point: the step exceeds STOP - START; a grid needs at least two"
+                )));
+            }
+            (step, count)
         }
-        // A small tolerance keeps STOP when the step divides the span up to rounding.
-        let count = (n + 1e-9).floor() as usize + 1;
-        return Ok((0..count).map(|k| Float::with_val(prec, &start + Float::with_val(prec, &step * k as u32))).collect());
+        (None, GridPoints::Given(n) | GridPoints::Default(n)) => {
+            if !(2..=max_points).contains(&n) {
+                return Err(Error::range(format!(
+                    "--points {n} is out of range: a grid START:STOP has 2 (its ends) to {max_points} points"
+                )));
+            }
+            (Float::with_val(prec, &span / (n - 1) as u32), n)
+        }
+        (None, GridPoints::NoCount) => {
+            return Err(Error::input(format!(
+                "grid `{text}` has no STEP, and this command takes no --points: write START:STOP:STEP, or a list 0.1,0.5,1"
+            )))
+        }
+    };
+    let grid: Vec<Float> = (0..count).map(|k| Float::with_val(prec, &start + Float::with_val(prec, &step * k as u32))).collect();
+    if let Some(last) = grid.last() {
+        reach(last, &format!("grid `{text}` reaches g = {}, which", last.to_f64()))?;
     }
-    let list: Vec<Float> = text.split(',').filter(|t| !t.trim().is_empty()).map(number).collect::<Result<_>>()?;
-    if list.is_empty() {
-        return Err(Error::input("no couplings given: write a list like 0.1,0.5,1 or a grid like 0:3:0.05"));
-    }
-    Ok(list)
+    Ok(grid)
 }

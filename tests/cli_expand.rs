@@ -136,3 +136,26 @@ fn broken_catalogue_file_names_file_and_line() {
     assert_eq!(v["coupling"], "a");
     assert_eq!(v["orders"][1]["exact"], "-3/2*pi^2");
 }
+
+/// `loopwise expand cusp --loops 30 | head -1`: the report (about 1.4 MB, far
+/// more than a pipe holds) is still being written when the reader closes the
+/// pipe. That is a normal end: exit 0, and nothing on stderr.
+#[test]
+fn closed_stdout_pipe_is_a_normal_end() {
+    use std::io::{BufRead, BufReader};
+    use std::process::{Command, Stdio};
+    let mut child = Command::new(env!("CARGO_BIN_EXE_loopwise"))
+        .args(["expand", "cusp", "--loops", "30"])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .expect("the binary runs");
+    let mut reader = BufReader::new(child.stdout.take().unwrap());
+    let mut first = String::new();
+    reader.read_line(&mut first).unwrap();
+    drop(reader);
+    let out = child.wait_with_output().unwrap();
+    assert!(first.starts_with("cusp = Gamma(pi/4)"), "{first}");
+    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(out.stderr.is_empty(), "{}", String::from_utf8_lossy(&out.stderr));
+}

@@ -191,3 +191,124 @@ fn bad_input_is_one_message_and_exit_code_two() {
         assert!(err.contains(needle), "{args:?}: {err}");
     }
 }
+
+/// Runs the binary and gives up after `seconds`: a grid refused only after
+/// computing its first points would take minutes (g = 200 alone does).
+fn loopwise_within(args: &[&str], seconds: u64) -> (i32, String, String) {
+    use std::io::Read;
+    use std::process::{Command, Stdio};
+    use std::time::{Duration, Instant};
+    let mut child = Command::new(env!("CARGO_BIN_EXE_loopwise"))
+        .args(args)
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .expect("the binary runs");
+    let start = Instant::now();
+    let status = loop {
+        if let Some(status) = child.try_wait().unwrap() {
+            break status;
+        }
+        if start.elapsed() > Duration::from_secs(seconds) {
+            child.kill().ok();
+            child.wait().ok();
+            panic!("{args:?} still running after {seconds} s: the grid was not checked before the work");
+        }
+        std::thread::sleep(Duration::from_millis(20));
+    };
+    let (mut out, mut err) = (String::new(), String::new());
+    child.stdout.take().unwrap().read_to_string(&mut out).unwrap();
+    child.stderr.take().unwrap().read_to_string(&mut err).unwrap();
+    (status.code().unwrap_or(-1), out, err)
+}
+
+/// The whole grid is checked before any value is computed: couplings beyond
+/// the engine's g <= 200, grids of fewer than two points, --points beside a
+/// STEP (it used to be ignored) and --points 0 or 1 (they used to give 2).
+#[test]
+fn grid_is_validated_before_any_work() {
+    for (args, needle) in [
+        (vec!["scan", "cusp", "--g", "0:300:10"], "g <= 200"),
+        (vec!["scan", "cusp", "--g", "190:201", "--points", "3"], "g <= 200"),
+        (vec!["at", "cusp", "--g", "0.5,250"], "g <= 200"),
+        (vec!["at", "cusp", "--g", "0:1"], "STEP"),
+        (vec!["scan", "cusp", "--g", "0:1", "--points", "0"], "--points 0"),
+        (vec!["scan", "cusp", "--g", "0:1", "--points", "1"], "--points 1"),
+        (vec!["scan", "cusp", "--g", "0:1:0.25", "--points", "7"], "--points 7"),
+        (vec!["scan", "cusp", "--g", "0:3:5"], "single point"),
+        (vec!["scan", "cusp", "--g", "0:1:0.000001"], "points"),
+        (vec!["scan", "cusp", "--g", "0:1", "--points", "3", "--digits", "0"], "--digits 0"),
+        (vec!["plot", "cusp", "--g", "0:300", "--out", "never.svg"], "g <= 200"),
+        (vec!["plot", "cusp", "--g", "0:1", "--points", "1", "--out", "never.svg"], "--points 1"),
+        (vec!["plot", "cusp", "--g", "0:1:0.5", "--points", "9", "--out", "never.svg"], "--points 9"),
+        (vec!["plot", "cusp", "--g", "0:1:0.0001", "--out", "never.svg"], "2000"),
+    ] {
+        let (code, out, err) = loopwise_within(&args, 20);
+        assert_eq!(code, 2, "{args:?}: {err}");
+        assert!(out.is_empty(), "{args:?}: {out}");
+        assert!(err.contains(needle), "{args:?}: {err}");
+    }
+    assert!(!std::path::Path::new("never.svg").exists());
+    // The count asked for is the count delivered, both ends included.
+    let (code, out, err) = loopwise(&["scan", "octagon", "--g", "0:1", "--points", "4", "--digits", "5"]);
+    assert_eq!(code, 0, "{err}");
+    let gs: Vec<&str> = out.lines().skip(1).map(|l| l.split(',').next().unwrap()).collect();
+    assert_eq!(gs.len(), 4, "{out}");
+    assert_eq!((gs[0], gs[3]), ("0", "1"), "{out}");
+}
+
+/// `scan` and `at` print no digit below the error estimate: a formula that
+/// cancels to zero prints a number (once `0 +- 4.9e-24`, text in a CSV
+/// column) no larger than its error, and no digit finer than the error's
+/// leading one.
+#[test]
+fn scan_and_at_print_only_digits_the_error_supports() {
+    let (code, out, err) = loopwise(&["scan", "Gamma(pi/4) - Gamma(c2=1/2)", "--g", "0.5:1", "--points", "2", "--digits", "10"]);
+    assert_eq!(code, 0, "{err}");
+    for line in out.lines().skip(1) {
+        let cols: Vec<&str> = line.split(',').collect();
+        assert_eq!(cols.len(), 3, "{line}");
+        let value = f(cols[1]);
+        let error = f(cols[2]);
+        assert!(Float::with_val(PREC, value.abs_ref()) <= error, "{line}");
+        if let Some((_, decimals)) = cols[1].split_once('.') {
+            let unit = Float::with_val(PREC, Float::with_val(PREC, 10u32).pow_ref_i(-(decimals.len() as i32)));
+            assert!(unit * 10u32 > error, "{line}: digits below the error");
+        }
+    }
+    let v = at_json(&["Gamma(pi/4) - Gamma(c2=1/2)", "--g", "1", "--digits", "10"]);
+    assert_eq!(v["values"][0]["digits"], 0);
+    assert!(Float::parse(v["values"][0]["value"].as_str().unwrap()).is_ok(), "{v}");
+}
+
+/// A plot needs two points of its range at least: a STEP beyond the range
+/// is refused (it drew empty axes) and no file is written.
+#[test]
+fn one_point_plot_is_refused() {
+    let path = std::env::temp_dir().join(format!("loopwise-one-point-{}.svg", std::process::id()));
+    let (code, _, err) = loopwise(&["plot", "cusp", "--g", "0:3:5", "--out", path.to_str().unwrap()]);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("single point"), "{err}");
+    assert!(!path.exists());
+    let (code, _, err) = loopwise(&["plot", "cusp", "--g", "1", "--out", path.to_str().unwrap()]);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("range"), "{err}");
+    assert!(!path.exists());
+}
+
+/// An angle the exact engine cannot treat still has a finite-coupling curve:
+/// the plot draws it, draws the other quantity's weak-coupling curves, and
+/// says on stderr what it left out.
+#[test]
+fn plot_skips_the_weak_coupling_series_it_cannot_expand() {
+    let path = std::env::temp_dir().join(format!("loopwise-skip-{}.svg", std::process::id()));
+    let (code, _, err) = loopwise(&["plot", "Gamma(0.3)", "cusp", "--g", "0:1", "--points", "11", "--loops", "2,4", "--out", path.to_str().unwrap()]);
+    let svg = std::fs::read_to_string(&path).unwrap_or_default();
+    std::fs::remove_file(&path).ok();
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("Gamma(0.3): weak-coupling curves left out"), "{err}");
+    for name in ["Gamma(0.3) (finite coupling)", "cusp (finite coupling)", "cusp weak coupling, 2 loops"] {
+        assert!(svg.contains(name), "missing {name}");
+    }
+    assert!(!svg.contains("Gamma(0.3) weak coupling"), "a curve that cannot exist was drawn");
+}

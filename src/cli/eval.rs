@@ -6,7 +6,7 @@ use clap::Args as ClapArgs;
 use loopwise::compare::working_bits;
 use loopwise::expr::numeric::{self, Context};
 use loopwise::expr::{self};
-use loopwise::report::decimal;
+use loopwise::report::{decimal, digit_place, rounded_at};
 use rug::ops::Pow;
 use rug::Float;
 use loopwise::Result;
@@ -35,9 +35,9 @@ pub fn run(args: &Args) -> Result<Outcome> {
 }
 
 /// Evaluates at two precisions and raises both until they agree to the
-/// requested digits, so that cancellation never shows digits that are only
-/// rounding noise; a value that stays below the noise is printed as zero
-/// with its bound.
+/// digits that will be printed, so that cancellation never shows digits that
+/// are only rounding noise; an exact value that stays below the noise is
+/// printed as zero with its bound.
 fn stable_value(e: &expr::Expr, source: &str, digits: u32) -> Result<String> {
     let mzv = |s: &[u32], p: u32| loopwise::mzv::mzv(s, p);
     let mut bits = working_bits(digits);
@@ -53,12 +53,14 @@ fn stable_value(e: &expr::Expr, source: &str, digits: u32) -> Result<String> {
         let noise = Float::with_val(bits, &high.value - &low.value).abs();
         let scale = Float::with_val(bits, high.value.abs_ref());
         let tolerance = Float::with_val(bits, &scale / Float::with_val(bits, 10u32).pow(digits + 1));
-        if !high.value.is_zero() && noise <= tolerance {
-            return Ok(if high.is_exact() {
-                decimal(&high.value, digits)
-            } else {
-                format!("{} ± {}", decimal(&high.value, digits), decimal(&high.uncertainty, 2))
-            });
+        if !high.is_exact() {
+            // At most the uncertainty's second digit is printed: noise a
+            // thousand times below it cannot reach a printed digit.
+            if noise <= Float::with_val(bits, &high.uncertainty / 1000u32).max(&tolerance) {
+                return Ok(uncertain_text(&high.value, &high.uncertainty, digits));
+            }
+        } else if !high.value.is_zero() && noise <= tolerance {
+            return Ok(decimal(&high.value, digits));
         }
         last = Some((decimal(&noise.max(&scale), 2), bits + 64));
         bits *= 2;
@@ -67,3 +69,14 @@ fn stable_value(e: &expr::Expr, source: &str, digits: u32) -> Result<String> {
     Ok(format!("0 (zero to within {bound} at {used} bits)"))
 }
 
+/// An uncertain value as `VALUE ± UNCERTAINTY`, the uncertainty to two
+/// significant digits and the value rounded to the place of its second digit
+/// (common practice), or to `digits` significant digits if that is coarser.
+fn uncertain_text(value: &Float, uncertainty: &Float, digits: u32) -> String {
+    let place = digit_place(uncertainty, 2).unwrap_or(0);
+    let shown = match digit_place(value, digits) {
+        Some(cap) if cap > place => decimal(value, digits),
+        _ => rounded_at(value, place),
+    };
+    format!("{shown} ± {}", decimal(uncertainty, 2))
+}

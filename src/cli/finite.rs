@@ -8,7 +8,7 @@ use rug::ops::Pow;
 use rug::Float;
 
 use loopwise::catalogue::{Catalogue, Status};
-use loopwise::finite::{self, parse_couplings};
+use loopwise::finite::{self, parse_couplings, GridPoints};
 use loopwise::kernel::{Functional, Tilt, MAX_LOOPS};
 use loopwise::numeric::{self, plot, MAX_DIGITS};
 use loopwise::prediction::Quantity;
@@ -19,6 +19,19 @@ use rug::Rational;
 
 use super::progress::Progress;
 use super::{emit, DataFormatArg, Outcome};
+
+/// The most couplings `at` and `scan` take in one run.
+const MAX_POINTS: usize = 100_000;
+
+/// The most points along a plot's range: more add nothing a figure can show.
+const MAX_PLOT_POINTS: usize = 2_000;
+
+/// Points of a START:STOP grid when `--points` is not given.
+const DEFAULT_POINTS: usize = 61;
+
+fn grid_points(points: Option<usize>) -> GridPoints {
+    points.map_or(GridPoints::Default(DEFAULT_POINTS), GridPoints::Given)
+}
 
 fn check_digits(digits: u32) -> Result<()> {
     if digits == 0 || digits > MAX_DIGITS {
@@ -34,7 +47,7 @@ pub struct AtArgs {
     /// A catalogue name or a formula in the functionals (any real tilt: Gamma(0.3), Delta(c2=0.2)).
     #[arg(allow_hyphen_values = true)]
     pub quantity: String,
-    /// Couplings g (g^2 = lambda/(16 pi^2)): a list 0.1,0.5,1,2 or a grid START:STOP:STEP.
+    /// Couplings g (g^2 = lambda/(16 pi^2)), 0 to 200: a list 0.1,0.5,1,2 or a grid START:STOP:STEP.
     #[arg(long, default_value = "0.1,0.5,1,2", allow_hyphen_values = true)]
     pub g: String,
     /// Significant digits wanted; only digits the error estimate supports are printed.
@@ -48,7 +61,7 @@ pub struct AtArgs {
 pub fn at(args: &AtArgs, catalogue: &Catalogue) -> Result<Outcome> {
     check_digits(args.digits)?;
     let prec = bits_for_digits(args.digits) + 64;
-    let couplings = parse_couplings(&args.g, 2, prec)?;
+    let couplings = parse_couplings(&args.g, GridPoints::NoCount, MAX_POINTS, prec)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
     let values = finite::values(&quantity, &couplings, args.digits, &mut |d, t| progress.update("finite coupling", d, t));
@@ -84,12 +97,13 @@ pub struct ScanArgs {
     /// A catalogue name or a formula in the functionals.
     #[arg(allow_hyphen_values = true)]
     pub quantity: String,
-    /// The grid: START:STOP:STEP, or START:STOP with --points values.
+    /// The grid, 0 <= g <= 200: START:STOP:STEP, or START:STOP with --points values.
     #[arg(long, default_value = "0:4:0.05", allow_hyphen_values = true)]
     pub g: String,
-    /// Number of points of a START:STOP grid.
-    #[arg(long, default_value_t = 61)]
-    pub points: usize,
+    /// Number of points of a START:STOP grid, ends included (2 to 100000) [default: 61];
+    /// not with a STEP.
+    #[arg(long)]
+    pub points: Option<usize>,
     /// Significant digits wanted.
     #[arg(long, default_value_t = 15)]
     pub digits: u32,
@@ -104,7 +118,7 @@ pub fn scan(args: &ScanArgs, catalogue: &Catalogue) -> Result<Outcome> {
         return Err(Error::input(format!("--g {}: a scan takes a grid START:STOP:STEP or START:STOP", args.g)));
     }
     let prec = bits_for_digits(args.digits) + 64;
-    let couplings = parse_couplings(&args.g, args.points, prec)?;
+    let couplings = parse_couplings(&args.g, grid_points(args.points), MAX_POINTS, prec)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
     let values = finite::values(&quantity, &couplings, args.digits, &mut |d, t| progress.update("scan", d, t));
@@ -118,12 +132,12 @@ pub struct PlotArgs {
     /// One or more catalogue names or formulas.
     #[arg(required = true)]
     pub quantities: Vec<String>,
-    /// The range of g: START:STOP.
+    /// The range of g, 0 <= g <= 200: START:STOP, or START:STOP:STEP.
     #[arg(long, default_value = "0:3", allow_hyphen_values = true)]
     pub g: String,
-    /// Points along the range.
-    #[arg(long, default_value_t = 61)]
-    pub points: usize,
+    /// Points along a START:STOP range, ends included (2 to 2000) [default: 61]; not with a STEP.
+    #[arg(long)]
+    pub points: Option<usize>,
     /// Weak-coupling truncations to draw, as loop orders (e.g. 2,4,8); `none` for none.
     #[arg(long, default_value = "2,4,8")]
     pub loops: String,
@@ -141,10 +155,10 @@ pub struct PlotArgs {
 pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let digits = 10;
     let prec = bits_for_digits(digits) + 64;
-    if args.points < 2 || args.points > 2000 {
-        return Err(Error::range(format!("--points {} is out of range: 2 to 2000", args.points)));
+    if !args.g.contains(':') {
+        return Err(Error::input(format!("--g {}: a plot takes a range START:STOP or START:STOP:STEP", args.g)));
     }
-    let couplings = parse_couplings(&args.g, args.points, prec)?;
+    let couplings = parse_couplings(&args.g, grid_points(args.points), MAX_PLOT_POINTS, prec)?;
     let loops: Vec<u32> = if args.loops == "none" {
         Vec::new()
     } else {
@@ -186,19 +200,33 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let mut extra = Vec::new();
     for q in &quantities {
         let top = loops.iter().copied().max().unwrap_or(0).max(args.pade.map_or(0, |n| 2 * n as u32));
-        let coeffs = if top > 0 { finite::weak_coefficients(&q.expand(top, &mut |_, _, _| {})?, prec)? } else { Vec::new() };
-        for &l in &loops {
-            let points = xs.iter().zip(&couplings).map(|(x, g)| (*x, finite::weak_sum(&coeffs, l as usize, g).to_f64())).collect();
-            extra.push(plot::Curve { name: format!("{} weak coupling, {l} loops", q.label), points, dashed: true });
-        }
-        if let Some(n) = args.pade {
-            let pade = finite::pade_in_g2(&coeffs[..=2 * n], n, n)?;
-            let points = xs
-                .iter()
-                .zip(&couplings)
-                .map(|(x, g)| (*x, pade.eval(&Float::with_val(prec, g.square_ref())).to_f64()))
-                .collect();
-            extra.push(plot::Curve { name: format!("{} Padé [{n}/{n}] in g^2", q.label), points, dashed: true });
+        let coeffs = if top == 0 {
+            None
+        } else {
+            match q.expand(top, &mut |_, _, _| {}) {
+                Ok(series) => Some(finite::weak_coefficients(&series, prec)?),
+                // The finite-coupling engine takes any real tilt, the exact
+                // one only some: what it cannot expand is left out, not the figure.
+                Err(e) => {
+                    eprintln!("loopwise: {}: weak-coupling curves left out (the finite-coupling curve is drawn): {e}", q.label);
+                    None
+                }
+            }
+        };
+        if let Some(coeffs) = &coeffs {
+            for &l in &loops {
+                let points = xs.iter().zip(&couplings).map(|(x, g)| (*x, finite::weak_sum(coeffs, l as usize, g).to_f64())).collect();
+                extra.push(plot::Curve { name: format!("{} weak coupling, {l} loops", q.label), points, dashed: true });
+            }
+            if let Some(n) = args.pade {
+                let pade = finite::pade_in_g2(&coeffs[..=2 * n], n, n)?;
+                let points = xs
+                    .iter()
+                    .zip(&couplings)
+                    .map(|(x, g)| (*x, pade.eval(&Float::with_val(prec, g.square_ref())).to_f64()))
+                    .collect();
+                extra.push(plot::Curve { name: format!("{} Padé [{n}/{n}] in g^2", q.label), points, dashed: true });
+            }
         }
         if !args.no_strong {
             if let Some(sc) = q.entry.as_ref().and_then(|e| e.strong_coupling.as_ref()) {
@@ -222,6 +250,8 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
         if keep.len() >= 2 {
             c.points = keep;
             curves.push(c);
+        } else {
+            eprintln!("loopwise: {}: left out, fewer than two of its points lie near the finite-coupling curves", c.name);
         }
     }
     let names: Vec<&str> = quantities.iter().map(|q| q.label.as_str()).collect();

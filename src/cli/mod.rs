@@ -1,7 +1,8 @@
 //! Command-line arguments (clap derive) and the one map from outcomes to exit
 //! codes: 0 when results were produced or everything agreed, 1 when a check
 //! finds a difference or leaves a supplied order uncompared, 2 when input
-//! could not be used. Messages go to stderr, results alone to stdout.
+//! could not be used; a closed standard output ends a run with 0. Messages
+//! go to stderr, results alone to stdout.
 
 mod check;
 mod eval;
@@ -19,7 +20,7 @@ use loopwise::catalogue::Catalogue;
 use loopwise::coupling::Coupling;
 use loopwise::report::Format;
 use loopwise::ring::EvenStyle;
-use loopwise::{Error, Result};
+use loopwise::{Error, ErrorKind, Result};
 
 /// Exact and finite-coupling predictions for planar N=4 super-Yang-Mills loop
 /// coefficients, and order-by-order checks of your own results against them.
@@ -158,6 +159,7 @@ pub fn run() -> i32 {
         Ok(Outcome::Done) => 0,
         Ok(Outcome::Differs) => 1,
         Ok(Outcome::Unusable) => 2,
+        Err(e) if e.kind() == ErrorKind::Closed => 0,
         Err(e) => {
             eprintln!("loopwise: {e}");
             2
@@ -203,12 +205,17 @@ pub fn in_range(option: &str, value: u32, lo: u32, hi: u32) -> Result<()> {
     }
 }
 
-/// Writes a finished report to stdout; a closed pipe is not an error worth a panic.
+/// Writes a finished report to stdout. A reader that closed the pipe (`| head`)
+/// ends the run quietly and with success: it has read all it wanted.
 pub fn emit(text: &str) -> Result<()> {
     let mut out = std::io::stdout().lock();
-    out.write_all(text.as_bytes())
-        .and_then(|_| out.flush())
-        .map_err(|e| Error::io(format!("cannot write to standard output: {e}")))
+    out.write_all(text.as_bytes()).and_then(|_| out.flush()).map_err(|e| {
+        if e.kind() == std::io::ErrorKind::BrokenPipe {
+            Error::closed("standard output was closed")
+        } else {
+            Error::io(format!("cannot write to standard output: {e}"))
+        }
+    })
 }
 
 fn list(catalogue: &Catalogue) -> Result<Outcome> {

@@ -63,12 +63,15 @@ impl Estimate {
     /// significant digits (trailing zeros included, since they are supported
     /// digits too), in plain decimal when that needs no padding zeros and as
     /// mantissa`e`exponent otherwise. Only digits the error supports are
-    /// printed; when none are, the result is `"0 +- <error>"`.
+    /// printed; when none are (the error reaches the value's size), the value
+    /// is rounded at the error's leading digit (common practice), so that the
+    /// text stays one number whose every digit the error vouches for.
     pub fn to_decimal(&self, max_digits: u32) -> String {
         let k = self.digits_supported().min(max_digits);
         if k == 0 {
-            let e = self.error.to_f64();
-            return format!("0 +- {e:.1e}");
+            return crate::report::digit_place(&self.error, 1)
+                .filter(|_| self.value.is_finite())
+                .map_or_else(|| "nan".to_string(), |place| crate::report::rounded_at(&self.value, place));
         }
         // Scientific text with k significant digits (rug counts the
         // precision in significant digits), rounded to nearest:
@@ -102,7 +105,7 @@ impl Estimate {
 pub const MAX_DIGITS: u32 = 200;
 
 /// Coupling beyond which the truncation and node counts become impractical.
-const MAX_COUPLING: f64 = 200.0;
+pub const MAX_COUPLING: f64 = 200.0;
 
 /// Largest truncation the engine will try.
 const MAX_SIZE: usize = 3000;

@@ -207,7 +207,13 @@ fn decimal_text_keeps_only_supported_digits() {
     assert_eq!(big.to_decimal(40), "-12345.68");
     let tiny = Estimate { value: fl("1e-30"), error: fl("1e-20") };
     assert_eq!(tiny.digits_supported(), 0);
-    assert!(tiny.to_decimal(10).starts_with("0 +-"));
+    assert_eq!(tiny.to_decimal(10), "0");
+    // An error as large as the value: rounded at the error's leading digit.
+    let rough = Estimate { value: fl("1.04"), error: fl("0.6") };
+    assert_eq!(rough.digits_supported(), 0);
+    assert_eq!(rough.to_decimal(10), "1.0");
+    let cancelled = Estimate { value: fl("2e-25"), error: fl("3e-3") };
+    assert_eq!(cancelled.to_decimal(10), "0.000");
     let half = Estimate { value: fl("0.5"), error: fl("1e-10") };
     assert_eq!(half.to_decimal(40), "0.500000000");
     let whole = Estimate { value: fl("1234567.4"), error: fl("2000") };

@@ -12,6 +12,7 @@ pub mod fit;
 use std::fmt;
 use std::str::FromStr;
 
+use rug::ops::Pow;
 use rug::Float;
 
 use crate::error::{Error, Result};
@@ -160,6 +161,31 @@ pub fn decimal(x: &Float, digits: u32) -> String {
     format!("{sign}{plain}")
 }
 
+/// The decimal place (the power of ten) of the `nth` significant digit of
+/// `x`, after rounding `x` to n digits, so that 0.000996 to two digits (0.0010)
+/// has its second digit at 10^-4. None for zero and non-finite values.
+pub fn digit_place(x: &Float, nth: u32) -> Option<i32> {
+    if x.is_zero() || !x.is_finite() {
+        return None;
+    }
+    let (_, _, exp) = x.to_sign_string_exp(10, Some(nth.max(1) as usize));
+    // x = 0.d1d2... * 10^exp: the first digit stands at 10^(exp-1).
+    exp.map(|e| e - nth as i32)
+}
+
+/// `x` rounded to a multiple of 10^place and written down to that place,
+/// trailing zeros included: they are digits the rounding vouches for.
+pub fn rounded_at(x: &Float, place: i32) -> String {
+    let prec = x.prec().max(64) + 64;
+    let unit = Float::with_val(prec, Float::with_val(prec, 10u32).pow(place));
+    let m = Float::with_val(prec, x / &unit).round().to_integer().unwrap_or_default();
+    if m.is_zero() {
+        return if (-6..0).contains(&place) { format!("0.{}", "0".repeat(place.unsigned_abs() as usize)) } else { "0".to_string() };
+    }
+    let digits = m.to_string_radix(10).trim_start_matches('-').len() as u32;
+    decimal(&(Float::with_val(prec, &m) * &unit), digits)
+}
+
 /// Greedy word wrap at `width` columns; every line ends with a newline.
 pub fn wrap(text: &str, width: usize) -> String {
     let mut out = String::new();
@@ -195,6 +221,20 @@ mod tests {
         assert_eq!(decimal(&f(1.5e30), 3), "1.50e30");
         assert_eq!(decimal(&f(-2.5e-9), 2), "-2.5e-9");
         assert_eq!(decimal(&f(0.0), 2), "0");
+    }
+
+    #[test]
+    fn rounding_at_a_decimal_place() {
+        let f = |v: &str| Float::with_val(128, Float::parse(v).unwrap());
+        assert_eq!(digit_place(&f("0.000314"), 2), Some(-5));
+        assert_eq!(digit_place(&f("0.000996"), 2), Some(-4));
+        assert_eq!(digit_place(&f("7000"), 1), Some(3));
+        assert_eq!(digit_place(&f("0"), 2), None);
+        assert_eq!(rounded_at(&f("0.0037699"), -5), "0.00377");
+        assert_eq!(rounded_at(&f("-1240.9"), -2), "-1240.90");
+        assert_eq!(rounded_at(&f("123456"), 2), "1.235e5");
+        assert_eq!(rounded_at(&f("0.004"), -2), "0.00");
+        assert_eq!(rounded_at(&f("3e-40"), -31), "0");
     }
 
     #[test]
