@@ -1,4 +1,4 @@
-//! Coupling conventions users bring (physics.md section 1) and the factor
+//! Coupling conventions users bring (docs/conventions.md section 1) and the factor
 //! that converts a loop coefficient from one to another.
 //!
 //! The project's own convention is g^2 = lambda / (16 pi^2); loop order L

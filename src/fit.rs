@@ -49,7 +49,7 @@ pub const DEFAULT_TILTS: [&str; 5] = ["0", "pi/6", "pi/4", "pi/3", "pi/2"];
 
 /// Gamma and Delta at the tilts 0, pi/6, pi/4, pi/3, pi/2, and zeta(2) times
 /// each Gamma: fifteen elements, of which Delta(pi/2) vanishes identically
-/// (K(pi/2) is nilpotent, physics.md section 3) and is dropped at expansion.
+/// (K(pi/2) is nilpotent, docs/conventions.md section 3) and is dropped at expansion.
 pub fn default_basis() -> Vec<BasisElement> {
     let mut out: Vec<BasisElement> = Vec::new();
     for t in DEFAULT_TILTS {
@@ -424,7 +424,7 @@ mod tests {
         assert_eq!(b.names.len(), 14);
         assert_eq!(b.dropped.len(), 1);
         assert_eq!(b.dropped[0].name, "Delta(pi/2)");
-        // Gamma(pi/2) = 4 g^2 exactly (physics.md section 4) stays in.
+        // Gamma(pi/2) = 4 g^2 exactly (docs/conventions.md section 4) stays in.
         let k = b.names.iter().position(|n| n == "Gamma(pi/2)").unwrap();
         assert_eq!(b.series[k], Series::new(vec![Exact::zero(), Exact::from(4), Exact::zero(), Exact::zero(), Exact::zero()]));
     }
@@ -438,8 +438,8 @@ mod tests {
     }
 
     /// C0 through two loops, C0^(1) = -3 zeta2 and C0^(2) = 77/4 zeta4
-    /// (physics.md section 6; arXiv:1006.5703 for the two-loop value), with
-    /// the two members physics.md names: C0 = -zeta2/2 Gamma(pi/4) + D0.
+    /// (docs/conventions.md section 6; arXiv:1006.5703 for the two-loop value), with
+    /// the two members docs/conventions.md names: C0 = -zeta2/2 Gamma(pi/4) + D0.
     #[test]
     fn two_loop_constant_gives_a_family_holding_both_known_members() {
         let target = vec![(1, zeta(2).scale(&q(-3, 1))), (2, zeta(4).scale(&q(77, 4)))];
@@ -505,7 +505,7 @@ mod tests {
         assert!(bad.elements.iter().all(|e| e.can_appear && e.ruled_out_at.is_none()));
 
         // Gamma(0) at one loop forces a_Delta(0) = 0 (Delta(0) has 4 zeta2 g^2,
-        // physics.md sections 2-3), then a weight-3 two-loop value is impossible.
+        // docs/conventions.md sections 2-3), then a weight-3 two-loop value is impossible.
         let elements = [BasisElement::new("Gamma(0)"), BasisElement::new("Delta(0)")];
         let f = fit(&[(1, Exact::from(4)), (2, zeta(3))], &elements, 4).unwrap();
         let Solution::None(bad) = &f.solution else { panic!("{:?}", f.solution) };

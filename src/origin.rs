@@ -1,4 +1,4 @@
-//! The six-gluon amplitude at the origin u1, u2, u3 -> 0 (physics.md section 6):
+//! The six-gluon amplitude at the origin u1, u2, u3 -> 0 (docs/conventions.md section 6):
 //! loop coefficients that are polynomials in the logarithms l_i = ln u_i, the
 //! conversion between the normalised amplitude E and the remainder function
 //! R6, the logarithm of E, the exponentiation check, and the extraction of
@@ -83,7 +83,7 @@ pub fn one_loop_limit(logs: &OriginLogs) -> Exact {
     &logs.sum_of_squares().scale(&Rational::from((-1, 2))) - &zeta2.scale(&Rational::from(3))
 }
 
-/// The one-loop value of C0: -3 zeta(2) (physics.md section 6, derived from
+/// The one-loop value of C0: -3 zeta(2) (docs/conventions.md section 6, derived from
 /// [`one_loop_limit`] with Gamma_cusp^(1) = 4).
 pub fn one_loop_constant() -> Exact {
     Exact::zeta(2).unwrap_or_default().scale(&Rational::from(-3))
@@ -624,7 +624,7 @@ mod tests {
         assert_eq!(quadratic_to_alpha_beta(&a, &b), (alpha, beta));
     }
 
-    /// One loop: E^(1) = sum_i Li2(1 - 1/u_i) (physics.md section 6); in g^2
+    /// One loop: E^(1) = sum_i Li2(1 - 1/u_i) (docs/conventions.md section 6); in g^2
     /// normalisation E = 1 + g^2 Gamma_cusp^(1)/4 E^(1) = 1 + g^2 E^(1).
     #[test]
     fn one_loop_reads_minus_one_sixth_twice_and_minus_three_zeta2() {
@@ -639,14 +639,14 @@ mod tests {
         assert!(r.linear.is_zero());
         assert_eq!(r.constant, zeta(2).scale(&Rational::from(-3)));
         assert_eq!(r.constant, one_loop_constant());
-        // Gamma^(1) = 4 for every tilt: -4/24 = -1/6 (physics.md section 4).
+        // Gamma^(1) = 4 for every tilt: -4/24 = -1/6 (docs/conventions.md section 4).
         let p = predicted_log_coefficients(1).unwrap();
         assert_eq!(p.octagon.coeff(1), &r.octagon);
         assert_eq!(p.hexagon.coeff(1), value(&r.hexagon));
     }
 
     /// Two loops: R6^(2) -> zeta2 (l1 l2 + l2 l3 + l3 l1) + 77/4 zeta4 - 6 zeta2^2
-    /// (arXiv:1006.5703 as given in physics.md section 6).
+    /// (arXiv:1006.5703 as given in docs/conventions.md section 6).
     fn two_loop_r6() -> Series {
         let pairs = &(&(&l(1) * &l(2)) + &(&l(2) * &l(3))) + &(&l(3) * &l(1));
         let c2 = &(&zeta(2) * &pairs) + &(&zeta(4).scale(&Rational::from((77, 4))) - &zeta(2).pow(2).scale(&Rational::from(6)));
@@ -660,7 +660,7 @@ mod tests {
         let a = analyse_r6(&r6, &cusp(2), &logs).unwrap();
         assert!(a.broken.is_none());
         let r = &a.orders[1];
-        // Gamma_oct^(2) = -16 zeta2, Gamma_hex^(2) = -4 zeta2 (physics.md section 4).
+        // Gamma_oct^(2) = -16 zeta2, Gamma_hex^(2) = -4 zeta2 (docs/conventions.md section 4).
         assert_eq!(r.octagon, zeta(2).scale(&Rational::from((16, 24))));
         assert_eq!(value(&r.hexagon), &zeta(2).scale(&Rational::from((4, 24))));
         assert!(r.linear.is_zero());
@@ -807,7 +807,7 @@ mod tests {
     /// Three loops: Gamma_oct = (2/pi^2) ln cosh(2 pi g) with ln cosh y =
     /// y^2/2 - y^4/12 + y^6/45 - ... (integrated tanh series, Abramowitz &
     /// Stegun section 4.5) gives 128 pi^4/45 = 256 zeta4 at g^6; Gamma_hex^(3) =
-    /// 34 zeta4 (physics.md section 4).
+    /// 34 zeta4 (docs/conventions.md section 4).
     #[test]
     fn three_loop_predictions_against_closed_forms() {
         let p = predicted_log_coefficients(3).unwrap();

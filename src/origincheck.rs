@@ -442,7 +442,7 @@ struct Predictions {
 }
 
 /// Runs the exponentiation check and judges every reading; when something
-/// differs, tests the slips of [`diagnose`].
+/// differs, tests the slips of `diagnose`.
 pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Result<OriginCheck> {
     let file = &data.file;
     let top = data.series.order();

@@ -469,7 +469,7 @@ impl Expander<'_> {
                         return Err(self.fail(
                             value.span,
                             "the exact engine needs the angle as a rational multiple of pi (pi/6, 2*pi/3, 0); \
-                             give c2=P/Q or the symbolic c2 instead, or use the finite-coupling commands",
+                             give c2=P/Q or the symbolic c2 instead; values at finite coupling take any angle",
                         ))
                     }
                 };

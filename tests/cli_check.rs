@@ -88,7 +88,7 @@ fn wrong_value_differs_with_the_exact_difference() {
     assert!(d.contains("order 5") && d.contains("other 4 orders agree"), "{d}");
 }
 
-/// Coefficients in a = 2 g^2 (c_L / 2^L, physics.md section 1) but declared
+/// Coefficients in a = 2 g^2 (c_L / 2^L, docs/conventions.md section 1) but declared
 /// as g2 are recognised; declared as a, they agree.
 #[test]
 fn convention_a_is_recognised() {
@@ -169,7 +169,7 @@ fn lambda_convention_diagnosis_has_no_weight_noise() {
     assert!(d.iter().all(|d| !d.contains("weight -2")), "{d:?}");
 }
 
-/// A coefficient of the wrong transcendental weight is named (physics.md
+/// A coefficient of the wrong transcendental weight is named (docs/conventions.md
 /// section 1: uniform weight 2L - 2).
 #[test]
 fn non_uniform_weight_is_reported() {
@@ -414,11 +414,11 @@ fn multiple_zeta_values_check_numerically() {
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["orders"][3]["verdict"], "agrees-numerically");
     assert_eq!(v["orders"][3]["digits_agreeing"], 200);
-    // zeta(3,1) = pi^4/360 (physics.md section 7): the difference is zero, not noise.
+    // zeta(3,1) = pi^4/360 (docs/conventions.md section 7): the difference is zero, not noise.
     let (code, out, _) = loopwise(&["eval", "zeta(3,1) - pi^4/360", "--digits", "30"]);
     assert_eq!(code, 0);
     assert!(out.starts_with("0 (zero to within"), "{out}");
-    // zeta(5,3) = 0.0377076729848475... (physics.md section 7, from memory; the mzv
+    // zeta(5,3) = 0.0377076729848475... (docs/conventions.md section 7, from memory; the mzv
     // module checks it against two independent algorithms).
     let (_, out, _) = loopwise(&["eval", "zeta(5,3)", "--digits", "15"]);
     assert_eq!(out.trim(), "0.0377076729848475");

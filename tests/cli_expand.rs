@@ -62,7 +62,7 @@ fn values_match_an_independent_mpfr_evaluation() {
     }
 }
 
-/// In a = 2 g^2 the L-loop coefficient is divided by 2^L (physics.md section 1);
+/// In a = 2 g^2 the L-loop coefficient is divided by 2^L (docs/conventions.md section 1);
 /// with --even zeta the four-loop cusp reads as in hep-th/0610251.
 #[test]
 fn coupling_and_even_zeta_options() {
@@ -87,7 +87,7 @@ fn latex_is_a_table_environment() {
     let (code, out, _) = loopwise(&["expand", "hexagon", "--loops", "4", "--format", "latex"]);
     assert_eq!(code, 0);
     assert!(out.contains("\\begin{table}") && out.contains("\\end{tabular}") && out.contains("\\end{table}"));
-    // -603/2 zeta(6) = -67/210 pi^6 (physics.md section 4, zeta(6) = pi^6/945).
+    // -603/2 zeta(6) = -67/210 pi^6 (docs/conventions.md section 4, zeta(6) = pi^6/945).
     assert!(out.contains("-\\frac{67}{210}\\,\\pi^{6}"), "{out}");
     assert!(out.contains("conjecture"), "hexagon is flagged: {out}");
 }

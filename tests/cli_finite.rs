@@ -55,7 +55,7 @@ impl PowI for Float {
 }
 
 /// Gamma(0) = (2/pi^2) ln cosh(2 pi g) (arXiv:1907.13131, arXiv:2003.01121;
-/// closed form from memory in physics.md, confirmed there numerically), at
+/// closed form recalled from memory, docs/conventions.md section 4), at
 /// g = 0.1, 0.5, 1, 2, 4 to at least 25 digits, with honest error estimates.
 #[test]
 fn octagon_against_its_closed_form() {
@@ -64,7 +64,7 @@ fn octagon_against_its_closed_form() {
     assert_honest(&v, |g| Float::with_val(PREC, Float::with_val(PREC, &pi * g) * 2u32).cosh().ln() * 2u32 / pi.clone().square(), 25);
 }
 
-/// Delta(0) = (1/4) ln(sinh(4 pi g)/(4 pi g)) (physics.md section 4; the
+/// Delta(0) = (1/4) ln(sinh(4 pi g)/(4 pi g)) (docs/conventions.md section 4; the
 /// identification with arXiv:2003.01121 is from memory), at least 20 digits.
 #[test]
 fn octagon_constant_against_its_closed_form() {
@@ -151,7 +151,7 @@ fn plot_writes_an_svg_with_every_series_named() {
 }
 
 /// The ratio test on the octagon's 30 exact orders points to 1/4, the
-/// radius of ln cosh(2 pi g) (singularity at g = i/4; physics.md section 4).
+/// radius of ln cosh(2 pi g) (singularity at g = i/4; docs/conventions.md section 4).
 #[test]
 fn radius_of_the_octagon_series() {
     let (code, out, _) = loopwise(&["radius", "octagon", "--loops", "30"]);

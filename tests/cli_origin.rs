@@ -68,7 +68,7 @@ fn one_loop_from_the_inversion_formula() {
     assert!(v["orders"][0]["constant"]["difference_value"].as_str().unwrap().starts_with("1.644934066848226436"));
 }
 
-/// Two loops, R6 of arXiv:1006.5703 at the origin as given in physics.md
+/// Two loops, R6 of arXiv:1006.5703 at the origin as given in docs/conventions.md
 /// section 6 (g^2 normalisation): zeta(2)(l1 l2 + l2 l3 + l3 l1) + 77/4
 /// zeta(4) - 6 zeta(2)^2. Predicted: octagon -Gamma_oct^(2)/24 = 16 zeta(2)/24
 /// = 2/3 zeta(2), hexagon 4 zeta(2)/24 = 1/6 zeta(2), C0^(2) = 77/4 zeta(4).
@@ -96,7 +96,7 @@ fn two_loop_remainder_function() {
     assert!(out.contains("summary: orders 1-2 agree"), "{out}");
     assert!(out.contains("arXiv:2001.05460") && out.contains("conjecture"), "{out}");
 
-    // The same formula in a = 2 g^2: divide by 4 (physics.md section 6); C0^(2) in a is 77/16 zeta(4).
+    // The same formula in a = 2 g^2: divide by 4 (docs/conventions.md section 6); C0^(2) in a is 77/16 zeta(4).
     let in_a = format!("({TWO_LOOP_R6})/4");
     let (code, v) = run_json("origin", "two-loop-r6-a.yaml", &origin_file("R6", "a", "[l1, l2, l3]", &[(2, in_a)]), &[]);
     assert_eq!(code, 0, "{v}");
@@ -106,7 +106,7 @@ fn two_loop_remainder_function() {
 
 /// A C0 formula in `prediction:` is compared at every order and called the
 /// user's conjecture. The member -zeta(2)/2 Gamma_cusp + (1/4)[Delta(pi/4) +
-/// Delta(pi/3) - Delta(pi/6) - Delta(0)] fits one and two loops (physics.md
+/// Delta(pi/3) - Delta(pi/6) - Delta(0)] fits one and two loops (docs/conventions.md
 /// section 6); C0 = -zeta(2)/2*Gamma(pi/4) alone gives -2 zeta(2) at one loop
 /// (Gamma_cusp^(1) = 4), one zeta(2) above the value from A&S 27.7.
 #[test]
@@ -143,7 +143,7 @@ fn zeta(n: u32) -> Exact {
 /// octagon coefficients from the closed form Gamma_oct = (2/pi^2) ln cosh(2 pi g)
 /// and ln cosh y = y^2/2 - y^4/12 + y^6/45 - ... (A&S 4.5.67 via the tanh
 /// series 4.5.64): 4, -16 zeta(2), 256 zeta(4); the hexagon ones 4, -4 zeta(2),
-/// 34 zeta(4) (physics.md section 4); made-up constants. The exponential is
+/// 34 zeta(4) (docs/conventions.md section 4); made-up constants. The exponential is
 /// the ring's own series exp, not the origin module's.
 fn predicted_e() -> Series {
     let sum = (&(&l(1) + &l(2)) + &l(3)).pow(2);
@@ -380,7 +380,7 @@ fn c0_file(orders: &[(u32, &str)]) -> String {
 }
 
 /// C0 through two loops, -3 zeta(2) (A&S 27.7) and 77/4 zeta(4)
-/// (arXiv:1006.5703, physics.md section 6): 4 equations (the monomials 1 and
+/// (arXiv:1006.5703, docs/conventions.md section 6): 4 equations (the monomials 1 and
 /// pi^2 at one loop, pi^2 and pi^4 at two, since Gamma has weight 2L - 2 and
 /// Delta and zeta(2) Gamma weight 2L) for 14 unknowns leave 10 free parameters.
 #[test]
@@ -431,7 +431,7 @@ fn fit_recovers_a_known_combination_and_refuses_an_impossible_one() {
     assert_eq!(v["result"], "none");
     assert_eq!(v["first_inconsistent_order"], 1);
     // Gamma(0) = 4 g^2 + ... fits one loop alone; Delta(0) = 4 zeta(2) g^2 + ...
-    // (physics.md sections 2-3) is ruled out there, then zeta(3) at two loops is impossible.
+    // (docs/conventions.md sections 2-3) is ruled out there, then zeta(3) at two loops is impossible.
     let (code, v) = run_json("fit", "impossible-2.yaml", &c0_file(&[(1, "4"), (2, "zeta(3)")]), &["--basis", "Gamma(0); Delta(0)"]);
     assert_eq!(code, 1);
     assert_eq!(v["first_inconsistent_order"], 2);
@@ -481,7 +481,7 @@ const ZETA2_DECIMAL: &str = "1.6449340668(1)";
 /// mp.dps = 40), rounded at twelve decimals, one in the last digit.
 const R6_CONSTANT_DECIMAL: &str = "4.599873743272(1)";
 /// C0 through two loops, -3 zeta(2) (A&S 27.7) and 77/4 zeta(4)
-/// (arXiv:1006.5703 as given in physics.md section 6), as a C0 formula.
+/// (arXiv:1006.5703 as given in docs/conventions.md section 6), as a C0 formula.
 const C0_THROUGH_TWO_LOOPS: &str = "-3*zeta(2)*g^2 + 77/4*zeta(4)*g^4";
 
 fn numeric_two_loop_r6(constant: &str) -> String {
@@ -491,7 +491,7 @@ fn numeric_two_loop_r6(constant: &str) -> String {
     text
 }
 
-/// The two-loop R6 of physics.md section 6 in decimals passes the double-log
+/// The two-loop R6 of docs/conventions.md section 6 in decimals passes the double-log
 /// checks numerically (octagon 2/3 zeta(2) = pi^2/9, hexagon 1/6 zeta(2) =
 /// pi^2/36, zeta(2) = pi^2/6 by A&S 23.2.24), and C0^(2) = 77/4 zeta(4) =
 /// 77 pi^4/360 = 20.8347222489... (zeta(4) = pi^4/90, A&S 23.2.24; computed

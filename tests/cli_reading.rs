@@ -103,7 +103,7 @@ fn hyphenated_catalogue_names_work_as_prediction() {
     let path = write("half-f.yaml", &format!("prediction: \"scaling-function/2\"\ncoupling: g2\norders:\n{CUSP_G2}"));
     let (code, out, err) = loopwise(&["check", &path]);
     assert_eq!(code, 0, "{out}{err}");
-    let path = write("combo.yaml", &format!("prediction: \"3*octagon - 2*cusp\"\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n"));
+    let path = write("combo.yaml", "prediction: \"3*octagon - 2*cusp\"\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n");
     let (code, out, err) = loopwise(&["check", &path]);
     assert_eq!(code, 0, "{out}{err}");
     let path = write("typo.yaml", "prediction: \"2*cuspp\"\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"8\"\n");

@@ -64,7 +64,7 @@ fn cusp_through_five_loops_matches_the_literature() {
     assert_eq!(*s.coeff(5), five);
 }
 
-/// Gamma_hex through four loops: physics.md section 4 (derived from the
+/// Gamma_hex through four loops: docs/conventions.md section 4 (derived from the
 /// definitions there; published to seven loops in arXiv:2001.05460).
 #[test]
 fn hexagon_through_four_loops() {
@@ -75,8 +75,8 @@ fn hexagon_through_four_loops() {
 }
 
 /// Gamma_oct = (2/pi^2) ln cosh(2 pi g) to all orders (arXiv:1907.13131,
-/// arXiv:2003.01121; closed form recalled from memory in physics.md and
-/// confirmed there numerically). ln cosh x = sum_{n>=1} 2^(2n) (2^(2n) - 1)
+/// arXiv:2003.01121; closed form recalled from memory, docs/conventions.md
+/// section 4). ln cosh x = sum_{n>=1} 2^(2n) (2^(2n) - 1)
 /// B_(2n) x^(2n) / (2n (2n)!), the integral of the tanh series A&S 4.5.64.
 #[test]
 fn octagon_matches_log_cosh_through_thirty_loops() {
@@ -95,8 +95,8 @@ fn octagon_matches_log_cosh_through_thirty_loops() {
     }
 }
 
-/// Delta(0) = ln det(1 + K(0)) = (1/4) ln(sinh(4 pi g) / (4 pi g)) (identity
-/// checked term by term through four loops in physics.md; the citation to
+/// Delta(0) = ln det(1 + K(0)) = (1/4) ln(sinh(4 pi g) / (4 pi g)) (the null
+/// octagon's constant, docs/conventions.md section 4; the citation to
 /// arXiv:2003.01121 is from memory). ln(sinh y / y) = sum_{n>=1} 2^(2n) B_(2n)
 /// y^(2n) / (2n (2n)!), the integral of coth y - 1/y (A&S 4.5.67).
 #[test]
@@ -125,7 +125,7 @@ fn tilts() -> Vec<(Tilt, Exact)> {
 }
 
 /// Two-loop coefficient -16 c2 zeta(2) and first odd-zeta term
-/// -128 c2 (1 - c2) zeta(3)^2 at four loops, for any tilt (physics.md
+/// -128 c2 (1 - c2) zeta(3)^2 at four loops, for any tilt (docs/conventions.md
 /// section 4, derived from the definitions).
 #[test]
 fn two_loop_and_first_odd_zeta_terms_for_many_tilts() {
@@ -147,7 +147,7 @@ fn two_loop_and_first_odd_zeta_terms_for_many_tilts() {
 }
 
 /// Every coefficient of g^(2L) has uniform weight 2L - 2 for Gamma and 2L for
-/// Delta (physics.md section 1; Delta carries no 1/(4 g^2)).
+/// Delta (docs/conventions.md section 1; Delta carries no 1/(4 g^2)).
 #[test]
 fn uniform_transcendental_weight() {
     for (tilt, _) in tilts() {
@@ -165,7 +165,7 @@ fn uniform_transcendental_weight() {
 }
 
 /// At alpha = pi/2 the kernel vanishes: Gamma = 4 g^2 and Delta = 0 exactly
-/// (physics.md section 4).
+/// (docs/conventions.md section 4).
 #[test]
 fn right_angle_is_trivial() {
     let t = Tilt::pi_multiple(&q(1, 2)).unwrap();

@@ -325,7 +325,7 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
 /// the product of 1.2 and a symbol `d3`.
 fn fortran_exponent(ctx: &Ctx<'_>, number: &Pair<'_, Rule>) -> Fallible<()> {
     let end = number.as_span().end();
-    let rest = ctx.source[end..].as_bytes();
+    let rest = &ctx.source.as_bytes()[end..];
     let digit_at = match rest {
         [b'd' | b'D', b'+' | b'-', ..] => 2,
         [b'd' | b'D', ..] => 1,

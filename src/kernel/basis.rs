@@ -168,6 +168,8 @@ mod tests {
         assert!(field_offsets(200).is_none());
     }
 
+    // The indices are the weights and positions the maps are defined by.
+    #[allow(clippy::needless_range_loop)]
     #[test]
     fn shift_maps_multiply_by_the_kernel_factor() {
         let b = WeightBases::new(12);

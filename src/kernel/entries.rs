@@ -1,4 +1,4 @@
-//! The weak-coupling coefficients of the kernel (physics.md section 2):
+//! The weak-coupling coefficients of the kernel (docs/conventions.md section 2):
 //!
 //!   K_ij = 2 j (-1)^(j(i+1)) sum_k (-1)^k p! (p-1)! / (k! (i+k)! (j+k)! (i+j+k)!) zeta(p) g^p,
 //!   p = i + j + 2k,

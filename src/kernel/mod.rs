@@ -1,5 +1,5 @@
 //! The tilted BES kernel and its two functionals, exactly, order by order in
-//! the coupling (physics.md sections 2 and 3):
+//! the coupling (docs/conventions.md sections 2 and 3):
 //!
 //!   Gamma_alpha(g) = 4 g^2 [(1 + K(alpha))^(-1)]_11,
 //!   Delta_alpha(g) = ln det(1 + K(alpha)).

@@ -2,7 +2,7 @@
 //! [(1 + K_{>=s})^(-1)]_{ss}, order by order in g, in exact integer arithmetic.
 //!
 //! With R = (1 + K)^(-1) e_s: R^(0) = e_s and R^(n) = -sum_{p>=2} K^(p) R^(n-p)
-//! (physics.md section 3). Three facts keep the work small:
+//! (docs/conventions.md section 3). Three facts keep the work small:
 //! - K^(p)_ij is a_ijp / D_p times one monomial M_p, so the sum over j at
 //!   fixed p is an integer combination of vectors of one weight, and the
 //!   monomial is applied once afterwards;
@@ -24,7 +24,7 @@ use super::entries::KernelTable;
 use crate::ring::{Exact, Monomial};
 
 /// How the tilt enters: the factor 2 c2 on most entries and 2 s2 = 2 (1 - c2)
-/// on entries with i even and j odd (physics.md section 3, rational form).
+/// on entries with i even and j odd (docs/conventions.md section 3, rational form).
 #[derive(Clone, Debug)]
 pub enum TiltFactors {
     /// c2 = u / w with integers 0 <= u <= w.
@@ -197,8 +197,7 @@ fn target_row(
 ) -> Vec<Integer> {
     let slots_n = tilt.slots(n);
     let mut out = vec![Integer::new(); tables.bases.len(n) * slots_n];
-    for m in 0..n {
-        let level = &levels[m];
+    for (m, level) in levels.iter().enumerate().take(n) {
         let p = n - m;
         if p < i + s {
             continue;

@@ -152,9 +152,9 @@ impl Series {
         let mut out: Vec<Exact> = vec![Exact::zero(); n + 1];
         for k in 1..=n {
             let mut acc = Exact::zero();
-            for j in 1..k {
-                if !out[j].is_zero() && !self.coeffs[k - j].is_zero() {
-                    acc += &(&out[j] * &self.coeffs[k - j]).scale(&Rational::from(j as i64));
+            for (j, oj) in out.iter().enumerate().take(k).skip(1) {
+                if !oj.is_zero() && !self.coeffs[k - j].is_zero() {
+                    acc += &(oj * &self.coeffs[k - j]).scale(&Rational::from(j as i64));
                 }
             }
             out[k] = &self.coeffs[k] - &acc.scale(&Rational::from((1, k as i64)));
@@ -317,7 +317,7 @@ mod tests {
         for c in Coupling::ALL {
             assert_eq!(f.in_coupling(c).from_coupling(c), f);
         }
-        // In a = 2 g^2 the two-loop coefficient is divided by 2^2 (physics.md section 1).
+        // In a = 2 g^2 the two-loop coefficient is divided by 2^2 (docs/conventions.md section 1).
         assert_eq!(*f.in_coupling(Coupling::A).coeff(2), Exact::zeta(2).unwrap().scale(&Rational::from(-2)));
     }
 
