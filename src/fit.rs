@@ -216,11 +216,10 @@ pub struct Fit {
 /// at the exact engine's limit): elements zero or proportional to an earlier
 /// one through that depth are dropped, and a family is searched for the
 /// orders that would fix it up to that depth.
-pub fn fit(target: &[(u32, Exact)], elements: &[BasisElement], ceiling: u32) -> Result<Fit> {
-    let catalogue = Catalogue::builtin()?;
+pub fn fit(target: &[(u32, Exact)], elements: &[BasisElement], ceiling: u32, catalogue: &Catalogue) -> Result<Fit> {
     let top = target.iter().map(|(l, _)| *l).max().ok_or_else(|| Error::input("nothing to fit: no orders given"))?;
     let depth = top.max(ceiling.min(kernel::MAX_LOOPS)).max(1);
-    let basis = expand_basis(elements, depth, &catalogue)?;
+    let basis = expand_basis(elements, depth, catalogue)?;
     let solution = solve(target, &basis.series)?;
     let fixing = match &solution {
         Solution::Family { null_space, .. } => Some(fixing_order(target, &basis.series, top, depth, null_space.len())?),
@@ -450,7 +449,7 @@ mod tests {
         for m in members {
             assert_eq!(data(&expand(m, 2)), target, "{m}");
         }
-        let f = fit(&target, &default_basis(), 12).unwrap();
+        let f = fit(&target, &default_basis(), 12, &Catalogue::builtin().unwrap()).unwrap();
         let Solution::Family { particular, null_space } = &f.solution else { panic!("{:?}", f.solution) };
         // Four equations (monomials 1 and pi^2 at one loop, pi^2 and pi^4 at
         // two: Gamma has weight 2L-2, Delta and zeta(2)*Gamma weight 2L) for
@@ -475,9 +474,9 @@ mod tests {
         // At that order the first member is recovered alone; one order less
         // still leaves a family, so the order reported is the smallest.
         let c0 = expand(members[0], *loop_order);
-        let f = fit(&data(&c0), &default_basis(), 12).unwrap();
+        let f = fit(&data(&c0), &default_basis(), 12, &Catalogue::builtin().unwrap()).unwrap();
         assert_eq!(f.solution, Solution::Unique(first));
-        let f = fit(&data(&c0.truncate(*loop_order as usize - 1)), &default_basis(), 12).unwrap();
+        let f = fit(&data(&c0.truncate(*loop_order as usize - 1)), &default_basis(), 12, &Catalogue::builtin().unwrap()).unwrap();
         assert!(matches!(f.solution, Solution::Family { .. }));
     }
 
@@ -492,14 +491,14 @@ mod tests {
             BasisElement::new("zeta(2)*Gamma(0)"),
             BasisElement::new("Delta(pi/3)"),
         ];
-        let f = fit(&target, &elements, 10).unwrap();
+        let f = fit(&target, &elements, 10, &Catalogue::builtin().unwrap()).unwrap();
         assert_eq!(f.solution, Solution::Unique(vec![q(3, 7), q(0, 1), q(-2, 1), q(1, 5)]));
     }
 
     #[test]
     fn impossible_targets_are_refused_with_the_order_that_rules_them_out() {
         // zeta(3) g^2: weight 3 where every basis element has weight 0 or 2.
-        let f = fit(&[(1, zeta(3))], &default_basis(), 4).unwrap();
+        let f = fit(&[(1, zeta(3))], &default_basis(), 4, &Catalogue::builtin().unwrap()).unwrap();
         let Solution::None(bad) = &f.solution else { panic!("{:?}", f.solution) };
         assert_eq!(bad.first_inconsistent_order, 1);
         assert!(bad.elements.iter().all(|e| e.can_appear && e.ruled_out_at.is_none()));
@@ -507,7 +506,7 @@ mod tests {
         // Gamma(0) at one loop forces a_Delta(0) = 0 (Delta(0) has 4 zeta2 g^2,
         // docs/conventions.md sections 2-3), then a weight-3 two-loop value is impossible.
         let elements = [BasisElement::new("Gamma(0)"), BasisElement::new("Delta(0)")];
-        let f = fit(&[(1, Exact::from(4)), (2, zeta(3))], &elements, 4).unwrap();
+        let f = fit(&[(1, Exact::from(4)), (2, zeta(3))], &elements, 4, &Catalogue::builtin().unwrap()).unwrap();
         let Solution::None(bad) = &f.solution else { panic!("{:?}", f.solution) };
         assert_eq!(bad.first_inconsistent_order, 2);
         assert_eq!(bad.elements[0], ElementStatus { ruled_out_at: None, can_appear: true });
@@ -520,7 +519,7 @@ mod tests {
         // Gamma(0) + Gamma(pi/2) is no multiple of either element, but an
         // exact sum of both: one free parameter at every order.
         let elements = [BasisElement::new("Gamma(pi/2)"), BasisElement::new("Gamma(0)"), BasisElement::new("Gamma(0) + Gamma(pi/2)")];
-        let f = fit(&[(1, Exact::from(4))], &elements, 6).unwrap();
+        let f = fit(&[(1, Exact::from(4))], &elements, 6, &Catalogue::builtin().unwrap()).unwrap();
         assert_eq!(f.names.len(), 3);
         let Solution::Family { null_space, .. } = &f.solution else { panic!("{:?}", f.solution) };
         assert_eq!(null_space.len(), 2);
@@ -532,6 +531,6 @@ mod tests {
         let b = vec![Series::new(vec![Exact::zero(), Exact::from(4)])];
         assert!(solve(&[(1, Exact::one()), (1, Exact::one())], &b).is_err());
         assert!(solve(&[(2, Exact::one())], &b).is_err());
-        assert!(fit(&[], &default_basis(), 4).is_err());
+        assert!(fit(&[], &default_basis(), 4, &Catalogue::builtin().unwrap()).is_err());
     }
 }

@@ -696,7 +696,7 @@ impl FitReport {
 }
 
 /// Runs the fit of a file's coefficients.
-pub fn fit_file(file: &SeriesFile, elements: Vec<BasisElement>, ceiling: u32) -> Result<FitReport> {
+pub fn fit_file(file: &SeriesFile, elements: Vec<BasisElement>, ceiling: u32, catalogue: &crate::catalogue::Catalogue) -> Result<FitReport> {
     if ceiling == 0 || ceiling > MAX_LOOPS {
         return Err(Error::range(format!("--ceiling {ceiling} is out of range: 1 to {MAX_LOOPS} loops")));
     }
@@ -707,7 +707,7 @@ pub fn fit_file(file: &SeriesFile, elements: Vec<BasisElement>, ceiling: u32) ->
             file.origin
         )));
     }
-    let fit = fit::fit(&target, &elements, ceiling).map_err(|e| e.context(&file.origin))?;
+    let fit = fit::fit(&target, &elements, ceiling, catalogue).map_err(|e| e.context(&file.origin))?;
     Ok(FitReport {
         file: file.origin.clone(),
         coupling: file.coupling,

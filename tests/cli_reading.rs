@@ -219,3 +219,17 @@ fn fortran_and_mathematica_number_marks_get_a_hint() {
     assert_eq!(code, 2);
     assert!(err.contains("<expression>:1:7:") && err.contains("precision"), "{err}");
 }
+
+#[test]
+fn fit_reads_names_from_the_users_catalogue() {
+    let dir = std::env::temp_dir().join(format!("loopwise-reading-catalogue-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    std::fs::write(dir.join("mine.yaml"), "name: my-octagon\nsummary: the octagon under another name\ndefinition: Gamma(0)\nstatus: established\n").unwrap();
+    let path = write("fitcat.yaml", "coupling: g2\norders:\n  - loop: 1\n    exact: \"12\"\n  - loop: 2\n    exact: \"-48*zeta(2)\"\n");
+    let (code, out, err) = loopwise(&["fit", &path, "--basis", "A=2*my-octagon", "--catalog", dir.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("= 3/2*A"), "{out}");
+    let (code, _, err) = loopwise(&["fit", &path, "--basis", "A=2*my-octagon"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("unknown name `my`"), "{err}");
+}

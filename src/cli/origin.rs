@@ -72,14 +72,14 @@ pub fn origin(args: &OriginArgs, catalogue: &Catalogue) -> Result<Outcome> {
     Ok(if agrees { Outcome::Done } else { Outcome::Differs })
 }
 
-pub fn fit(args: &FitArgs, _catalogue: &Catalogue) -> Result<Outcome> {
+pub fn fit(args: &FitArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let elements = match &args.basis {
         Some(text) => parse_basis(text)?,
         None => default_basis(),
     };
     let (text, origin) = read_input(&args.file)?;
     let file = parse_series_text(&text, &origin)?;
-    let r = fit_file(&file, elements, args.ceiling)?;
+    let r = fit_file(&file, elements, args.ceiling, catalogue)?;
     emit(&fit_report::render(&r, args.format.into())?)?;
     Ok(match r.fit.solution {
         Solution::None(_) => Outcome::Differs,

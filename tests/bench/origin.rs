@@ -65,9 +65,10 @@ fn main() {
     assert!(a.broken.is_none() && a.orders.len() == LOOPS as usize);
     println!("logarithm, exponentiation check and readings: {:.3} s", t_analyse.as_secs_f64());
 
+    let catalogue = Catalogue::builtin().expect("built-in catalogue");
     let constants: Vec<(u32, Exact)> = a.orders.iter().map(|r| (r.order as u32, r.constant.clone())).collect();
     let t = Instant::now();
-    let f = fit(&constants, &default_basis(), LOOPS).expect("fit");
+    let f = fit(&constants, &default_basis(), LOOPS, &catalogue).expect("fit");
     let t_fit = t.elapsed();
     let kind = match &f.solution {
         Solution::Unique(_) => "unique".to_string(),
@@ -85,7 +86,7 @@ fn main() {
     println!("total, analysis and fit: {:.3} s", (t_analyse + t_fit).as_secs_f64());
 
     let t = Instant::now();
-    let f = fit(&constants[..2], &default_basis(), 16).expect("fit");
+    let f = fit(&constants[..2], &default_basis(), 16, &catalogue).expect("fit");
     let free = match &f.solution {
         Solution::Family { null_space, .. } => null_space.len(),
         _ => 0,
@@ -119,7 +120,7 @@ fn pipeline(e: &Series, constants: &[(u32, Exact)]) {
     let t_origin = t.elapsed();
     assert!(c.agrees(), "{report}");
     let file = parse_series_text(&fit_text, "ten-loop-constants.yaml").expect("fit file");
-    let r = fit_file(&file, default_basis(), LOOPS).expect("fit");
+    let r = fit_file(&file, default_basis(), LOOPS, &catalogue).expect("fit");
     let _ = fit_report::render(&r, Format::Text).expect("fit report");
     let t_total = t.elapsed();
     assert!(matches!(r.fit.solution, Solution::Unique(_)));
