@@ -218,11 +218,11 @@ pub const MAX_YAML_DEPTH: usize = 64;
 
 /// Refuses over-deep nesting in one linear pass: flow brackets (`[`, `{`)
 /// outside quoted text and comments, and compact block nesting (`- - - x`).
-fn check_depth(text: &str, origin: &str) -> Result<()> {
+pub(crate) fn check_depth(text: &str, origin: &str) -> Result<()> {
     let refuse = |line: usize, column: usize| {
         Err(Error::input(format!(
             "{origin}:{line}:{column}: collections nested more than {MAX_YAML_DEPTH} deep; \
-             a series file needs three levels (file, `orders`, entry)"
+             a loopwise file needs a few levels (a series file three: file, `orders`, entry)"
         )))
     };
     let mut flow = 0usize;
@@ -502,6 +502,16 @@ impl<'a> Reader<'a> {
             .map_err(|f| self.error_in_file(ErrorKind::Parse, start, &text, f.span, &f.message))?;
         if let Names::Coefficient(symbols) = names {
             self.check_symbols(start, &text, &expr, symbols)?;
+            if let Some(span) = first_functional(&expr) {
+                return Err(self.error_in_file(
+                    ErrorKind::Input,
+                    start,
+                    &text,
+                    span,
+                    "a loop coefficient cannot contain Gamma(...) or Delta(...): they are functions of the \
+                     coupling; a coefficient is the number that multiplies one power of it",
+                ));
+            }
         }
         Ok(Located { text, expr, line, column, site: Site { file: self.file.clone(), start } })
     }
@@ -796,6 +806,18 @@ impl<'a> Reader<'a> {
         let rest = line.trim_start().strip_prefix(':')?;
         let rest = rest.split(" #").next()?.trim();
         (!rest.is_empty()).then(|| rest.to_string())
+    }
+}
+
+/// Where the first functional of an expression sits, if it has one.
+fn first_functional(e: &Expr) -> Option<Span> {
+    match &e.node {
+        Node::Functional { .. } => Some(e.span),
+        Node::Log(a) | Node::Neg(a) => first_functional(a),
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+            first_functional(a).or_else(|| first_functional(b))
+        }
+        _ => None,
     }
 }
 

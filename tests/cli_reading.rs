@@ -233,3 +233,29 @@ fn fit_reads_names_from_the_users_catalogue() {
     assert_eq!(code, 2);
     assert!(err.contains("unknown name `my`"), "{err}");
 }
+
+#[test]
+fn functionals_inside_a_coefficient_are_refused_with_their_place() {
+    let path = write("fn.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"2*Gamma(pi/4)\"\n");
+    let (code, _, err) = loopwise(&["check", &path]);
+    assert_eq!(code, 2);
+    assert!(err.contains("fn.yaml:5:15: a loop coefficient cannot contain Gamma"), "{err}");
+}
+
+#[test]
+fn over_deep_catalogue_files_are_refused_quickly() {
+    let dir = std::env::temp_dir().join(format!("loopwise-reading-deep-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let deep = "[".repeat(100_000) + &"]".repeat(100_000);
+    std::fs::write(dir.join("deep.yaml"), format!("name: deep\nsummary: {deep}\ndefinition: Gamma(0)\nstatus: established\n")).unwrap();
+    let (code, _, err) = loopwise(&["list", "--catalog", dir.to_str().unwrap()]);
+    assert_eq!(code, 2);
+    assert!(err.contains("deep.yaml:2:") && err.contains("nested more than 64 deep"), "{err}");
+}
+
+#[test]
+fn eval_of_a_catalogue_name_says_it_needs_a_coupling() {
+    let (code, out, err) = loopwise(&["eval", "2*scaling-function + 1"]);
+    assert_eq!(code, 2, "{out}");
+    assert!(err.contains("<expression>:1:3:") && err.contains("function of the coupling"), "{err}");
+}

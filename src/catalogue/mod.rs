@@ -196,6 +196,7 @@ pub fn looks_like_name(text: &str) -> bool {
 /// Reads one entry; errors name the file, line and column, and suggest keys.
 pub fn parse_entry(text: &str, origin: &str) -> Result<Entry> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    crate::seriesfile::check_depth(text, origin)?;
     let mut entry: Entry = serde_yaml::from_str(text).map_err(|e| {
         // serde_yaml places errors raised while converting a value at the
         // document's start; point at the `coupling:` line instead.

@@ -3,6 +3,7 @@
 
 use clap::Args as ClapArgs;
 
+use loopwise::catalogue::Catalogue;
 use loopwise::compare::working_bits;
 use loopwise::expr::numeric::{self, Context};
 use loopwise::expr::{self};
@@ -26,9 +27,26 @@ pub struct Args {
     pub digits: u32,
 }
 
-pub fn run(args: &Args) -> Result<Outcome> {
+pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     in_range("--digits", args.digits, 1, MAX_DIGITS)?;
-    let e = expr::parse(&args.expr, "<expression>", None)?;
+    let e = expr::parse(&catalogue.mask_hyphens(&args.expr), "<expression>", None)?;
+    // A catalogue name is a function of the coupling, not a number: say so
+    // rather than "no value".
+    let mut quantity = None;
+    expr::for_each_symbol(&e, &mut |name, span| {
+        if quantity.is_none() && catalogue.get_in_formula(name).is_some() {
+            quantity = Some((name.replace('_', "-"), span));
+        }
+    });
+    if let Some((name, span)) = quantity {
+        return Err(expr::error_at(
+            &args.expr,
+            "<expression>",
+            None,
+            span,
+            &format!("`{name}` is a function of the coupling, not a number; `loopwise at \"{}\" --g VALUE` gives its value", args.expr.trim()),
+        ));
+    }
     let line = stable_value(&e, &args.expr, args.digits)?;
     emit(&format!("{line}\n"))?;
     Ok(Outcome::Done)

@@ -173,7 +173,7 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::List => list(&catalogue),
         Command::Expand(args) => expand::run(args, &catalogue),
         Command::Check(args) => check::run(args, &catalogue),
-        Command::Eval(args) => eval::run(args),
+        Command::Eval(args) => eval::run(args, &catalogue),
         Command::Demo(args) => match args.which {
             check::DemoKind::Cusp => check::demo(args, &catalogue),
             check::DemoKind::Origin => origin::demo(args.format, &catalogue),
