@@ -35,9 +35,6 @@ impl Error {
     pub fn new(kind: ErrorKind, message: impl Into<String>) -> Self {
         Error { kind, message: message.into() }
     }
-    pub fn parse(message: impl Into<String>) -> Self {
-        Self::new(ErrorKind::Parse, message)
-    }
     pub fn input(message: impl Into<String>) -> Self {
         Self::new(ErrorKind::Input, message)
     }

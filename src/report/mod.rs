@@ -10,7 +10,6 @@ pub mod origin;
 pub mod fit;
 
 use std::fmt;
-use std::str::FromStr;
 
 use rug::ops::Pow;
 use rug::Float;
@@ -25,19 +24,6 @@ pub enum Format {
     Json,
     Yaml,
     Latex,
-}
-
-impl FromStr for Format {
-    type Err = Error;
-    fn from_str(s: &str) -> Result<Self> {
-        match s {
-            "text" => Ok(Format::Text),
-            "json" => Ok(Format::Json),
-            "yaml" => Ok(Format::Yaml),
-            "latex" => Ok(Format::Latex),
-            other => Err(Error::input(format!("unknown format `{other}`: expected text, json, yaml or latex"))),
-        }
-    }
 }
 
 impl fmt::Display for Format {
