@@ -97,15 +97,12 @@ impl Quantity {
         let Some(located) = &file.prediction else { return Ok(None) };
         if let Some(name) = file.catalogue_name() {
             if !file.symbols.iter().any(|s| s == name) {
-                let entry = match catalogue.get_in_formula(name) {
-                    Some(entry) => entry,
-                    None => {
-                        let lead = located.text.len() - located.text.trim_start().len();
-                        let span = Span { start: lead, end: lead + name.len() };
-                        let message = catalogue.lookup(name).err().map(|e| e.message().to_string()).unwrap_or_default();
-                        return Err(located.error_at(&file.origin, span, &message));
-                    }
-                };
+                let lead = located.text.len() - located.text.trim_start().len();
+                let span = Span { start: lead, end: lead + name.len() };
+                let entry = catalogue
+                    .get_in_formula(name)
+                    .map_or_else(|| catalogue.lookup(name), Ok)
+                    .map_err(|e| located.error_at(&file.origin, span, e.message()))?;
                 return Quantity::from_entry(entry, catalogue).map(Some);
             }
         }
@@ -213,29 +210,19 @@ impl<'a> Resolver<'a> {
         resolved
     }
 
-    fn walk(&mut self, e: Expr, trail: &mut Vec<String>, fail: &dyn Fn(Span, &str) -> Error) -> Result<Expr> {
-        let span = e.span;
-        let boxed = |r: &mut Self, x: Box<Expr>, t: &mut Vec<String>| r.walk(*x, t, fail).map(Box::new);
-        let node = match e.node {
-            Node::Symbol(name) => return self.name(name, span, trail, fail),
-            Node::Log(a) => Node::Log(boxed(self, a, trail)?),
-            Node::Neg(a) => Node::Neg(boxed(self, a, trail)?),
-            Node::Functional { kind, angle } => Node::Functional {
-                kind,
-                angle: match angle {
-                    Angle::Radians(a) => Angle::Radians(boxed(self, a, trail)?),
-                    Angle::Cos2(a) => Angle::Cos2(boxed(self, a, trail)?),
-                    Angle::SymbolicCos2 => Angle::SymbolicCos2,
-                },
-            },
-            Node::Add(a, b) => Node::Add(boxed(self, a, trail)?, boxed(self, b, trail)?),
-            Node::Sub(a, b) => Node::Sub(boxed(self, a, trail)?, boxed(self, b, trail)?),
-            Node::Mul(a, b) => Node::Mul(boxed(self, a, trail)?, boxed(self, b, trail)?),
-            Node::Div(a, b) => Node::Div(boxed(self, a, trail)?, boxed(self, b, trail)?),
-            Node::Pow(a, b) => Node::Pow(boxed(self, a, trail)?, boxed(self, b, trail)?),
-            leaf => leaf,
-        };
-        Ok(Expr { node, span })
+    /// Replaces every name in the tree; a replacement is already resolved,
+    /// so visiting its parts afterwards changes nothing.
+    fn walk(&mut self, mut e: Expr, trail: &mut Vec<String>, fail: &dyn Fn(Span, &str) -> Error) -> Result<Expr> {
+        let mut failure = None;
+        expr::for_each_node_mut(&mut e, &mut |node| {
+            if let (None, Node::Symbol(name)) = (&failure, &node.node) {
+                match self.name(name.clone(), node.span, trail, fail) {
+                    Ok(replacement) => *node = replacement,
+                    Err(err) => failure = Some(err),
+                }
+            }
+        });
+        failure.map_or(Ok(e), Err)
     }
 
     fn name(&mut self, name: String, span: Span, trail: &mut Vec<String>, fail: &dyn Fn(Span, &str) -> Error) -> Result<Expr> {
@@ -275,25 +262,7 @@ impl<'a> Resolver<'a> {
 /// The tree with every span set to `span`: a name replaced by its
 /// definition is reported where the name was written.
 fn respan(mut e: Expr, span: Span) -> Expr {
-    e.span = span;
-    e.node = match e.node {
-        Node::Log(a) => Node::Log(Box::new(respan(*a, span))),
-        Node::Neg(a) => Node::Neg(Box::new(respan(*a, span))),
-        Node::Functional { kind, angle } => Node::Functional {
-            kind,
-            angle: match angle {
-                Angle::Radians(a) => Angle::Radians(Box::new(respan(*a, span))),
-                Angle::Cos2(a) => Angle::Cos2(Box::new(respan(*a, span))),
-                Angle::SymbolicCos2 => Angle::SymbolicCos2,
-            },
-        },
-        Node::Add(a, b) => Node::Add(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
-        Node::Sub(a, b) => Node::Sub(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
-        Node::Mul(a, b) => Node::Mul(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
-        Node::Div(a, b) => Node::Div(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
-        Node::Pow(a, b) => Node::Pow(Box::new(respan(*a, span)), Box::new(respan(*b, span))),
-        leaf => leaf,
-    };
+    expr::for_each_node_mut(&mut e, &mut |node| node.span = span);
     e
 }
 
@@ -480,15 +449,7 @@ impl Expander<'_> {
 }
 
 fn contains_functional_or_coupling(e: &Expr) -> bool {
-    match &e.node {
-        Node::Functional { .. } => true,
-        Node::Symbol(s) => s == COUPLING,
-        Node::Integer(_) | Node::Decimal { .. } | Node::Pi | Node::Catalan | Node::Zeta(_) => false,
-        Node::Log(a) | Node::Neg(a) => contains_functional_or_coupling(a),
-        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
-            contains_functional_or_coupling(a) || contains_functional_or_coupling(b)
-        }
-    }
+    expr::find(e, &mut |x| matches!(&x.node, Node::Functional { .. }) || matches!(&x.node, Node::Symbol(s) if s == COUPLING)).is_some()
 }
 
 #[cfg(test)]

@@ -502,7 +502,8 @@ impl<'a> Reader<'a> {
             .map_err(|f| self.error_in_file(ErrorKind::Parse, start, &text, f.span, &f.message))?;
         if let Names::Coefficient(symbols) = names {
             self.check_symbols(start, &text, &expr, symbols)?;
-            if let Some(span) = first_functional(&expr) {
+            if let Some(functional) = expr::find(&expr, &mut |x| matches!(x.node, Node::Functional { .. })) {
+                let span = functional.span;
                 return Err(self.error_in_file(
                     ErrorKind::Input,
                     start,
@@ -806,18 +807,6 @@ impl<'a> Reader<'a> {
         let rest = line.trim_start().strip_prefix(':')?;
         let rest = rest.split(" #").next()?.trim();
         (!rest.is_empty()).then(|| rest.to_string())
-    }
-}
-
-/// Where the first functional of an expression sits, if it has one.
-fn first_functional(e: &Expr) -> Option<Span> {
-    match &e.node {
-        Node::Functional { .. } => Some(e.span),
-        Node::Log(a) | Node::Neg(a) => first_functional(a),
-        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
-            first_functional(a).or_else(|| first_functional(b))
-        }
-        _ => None,
     }
 }
 

@@ -8,10 +8,15 @@ mod common;
 
 use common::loopwise;
 
-fn write(name: &str, text: &str) -> String {
-    let dir = std::env::temp_dir().join(format!("loopwise-reading-{}", std::process::id()));
+/// A fresh folder of this test run, named by `tag`.
+fn folder(tag: &str) -> std::path::PathBuf {
+    let dir = std::env::temp_dir().join(format!("loopwise-reading-{tag}-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    let path = dir.join(name);
+    dir
+}
+
+fn write(name: &str, text: &str) -> String {
+    let path = folder("files").join(name);
     std::fs::write(&path, text).unwrap();
     path.display().to_string()
 }
@@ -222,8 +227,7 @@ fn fortran_and_mathematica_number_marks_get_a_hint() {
 
 #[test]
 fn fit_reads_names_from_the_users_catalogue() {
-    let dir = std::env::temp_dir().join(format!("loopwise-reading-catalogue-{}", std::process::id()));
-    std::fs::create_dir_all(&dir).unwrap();
+    let dir = folder("catalogue");
     std::fs::write(dir.join("mine.yaml"), "name: my-octagon\nsummary: the octagon under another name\ndefinition: Gamma(0)\nstatus: established\n").unwrap();
     let path = write("fitcat.yaml", "coupling: g2\norders:\n  - loop: 1\n    exact: \"12\"\n  - loop: 2\n    exact: \"-48*zeta(2)\"\n");
     let (code, out, err) = loopwise(&["fit", &path, "--basis", "A=2*my-octagon", "--catalog", dir.to_str().unwrap()]);
@@ -244,8 +248,7 @@ fn functionals_inside_a_coefficient_are_refused_with_their_place() {
 
 #[test]
 fn over_deep_catalogue_files_are_refused_quickly() {
-    let dir = std::env::temp_dir().join(format!("loopwise-reading-deep-{}", std::process::id()));
-    std::fs::create_dir_all(&dir).unwrap();
+    let dir = folder("deep");
     let deep = "[".repeat(100_000) + &"]".repeat(100_000);
     std::fs::write(dir.join("deep.yaml"), format!("name: deep\nsummary: {deep}\ndefinition: Gamma(0)\nstatus: established\n")).unwrap();
     let (code, _, err) = loopwise(&["list", "--catalog", dir.to_str().unwrap()]);

@@ -139,6 +139,42 @@ pub fn for_each_symbol<'e>(expr: &'e Expr, visit: &mut dyn FnMut(&'e str, Span))
     }
 }
 
+/// The direct subexpressions of a node (an angle counts as one).
+fn parts(node: &Node) -> [Option<&Expr>; 2] {
+    match node {
+        Node::Log(a) | Node::Neg(a) => [Some(a), None],
+        Node::Functional { angle: Angle::Radians(a) | Angle::Cos2(a), .. } => [Some(a), None],
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => [Some(a), Some(b)],
+        _ => [None, None],
+    }
+}
+
+fn parts_mut(node: &mut Node) -> [Option<&mut Expr>; 2] {
+    match node {
+        Node::Log(a) | Node::Neg(a) => [Some(a), None],
+        Node::Functional { angle: Angle::Radians(a) | Angle::Cos2(a), .. } => [Some(a), None],
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => [Some(a), Some(b)],
+        _ => [None, None],
+    }
+}
+
+/// The first node, a node before its parts and left before right, for
+/// which `hit` holds.
+pub fn find<'e>(expr: &'e Expr, hit: &mut dyn FnMut(&Expr) -> bool) -> Option<&'e Expr> {
+    if hit(expr) {
+        return Some(expr);
+    }
+    parts(&expr.node).into_iter().flatten().find_map(|p| find(p, hit))
+}
+
+/// Calls `visit` on every node of the tree, a node before its parts.
+pub fn for_each_node_mut(expr: &mut Expr, visit: &mut dyn FnMut(&mut Expr)) {
+    visit(expr);
+    for p in parts_mut(&mut expr.node).into_iter().flatten() {
+        for_each_node_mut(p, visit);
+    }
+}
+
 /// Binding strength for printing; mirrors the Pratt table in parse.rs.
 fn strength(node: &Node) -> u8 {
     match node {
