@@ -52,7 +52,10 @@ pub fn radius_in_g(coeffs: &[Float]) -> Result<RadiusEstimate> {
     let prec = common_prec(coeffs);
     for (i, c) in coeffs.iter().enumerate() {
         if !c.is_finite() {
-            return Err(Error::input(format!("coefficient at loop order {} is not finite", i + 1)));
+            return Err(Error::input(format!(
+                "coefficient at loop order {} is not finite",
+                i + 1
+            )));
         }
         if c.is_zero() {
             return Err(Error::numeric(format!(
@@ -91,7 +94,12 @@ pub fn radius_in_g(coeffs: &[Float]) -> Result<RadiusEstimate> {
     }
     let lower = richardson(&ratio, last + 1, order - 1, prec);
     spread = spread.max(&Float::with_val(prec, &estimate - &lower).abs());
-    Ok(RadiusEstimate { ratio, root, estimate, spread })
+    Ok(RadiusEstimate {
+        ratio,
+        root,
+        estimate,
+        spread,
+    })
 }
 
 /// Order-k Richardson extrapolation in 1/L through the ratios at indices
@@ -153,7 +161,9 @@ pub fn pade(series: &[Float], m: usize, n: usize) -> Result<Pade> {
         )));
     }
     if let Some(k) = series.iter().position(|a| !a.is_finite()) {
-        return Err(Error::input(format!("series coefficient {k} is not finite")));
+        return Err(Error::input(format!(
+            "series coefficient {k} is not finite"
+        )));
     }
     let prec = common_prec(series);
     let work = prec + 32;
@@ -175,7 +185,9 @@ pub fn pade(series: &[Float], m: usize, n: usize) -> Result<Pade> {
         })
         .collect();
     for (r, row) in rows.iter_mut().enumerate() {
-        let scale = row[..n].iter().fold(Float::with_val(work, 0), |acc, x| acc.max(&Float::with_val(work, x.abs_ref())));
+        let scale = row[..n].iter().fold(Float::with_val(work, 0), |acc, x| {
+            acc.max(&Float::with_val(work, x.abs_ref()))
+        });
         if scale.is_zero() {
             return Err(singular(m, n, r));
         }
@@ -226,7 +238,10 @@ pub fn pade(series: &[Float], m: usize, n: usize) -> Result<Pade> {
         })
         .collect();
     let denominator = q.iter().map(|x| Float::with_val(prec, x)).collect();
-    Ok(Pade { numerator, denominator })
+    Ok(Pade {
+        numerator,
+        denominator,
+    })
 }
 
 fn singular(m: usize, n: usize, at: usize) -> Error {
@@ -241,7 +256,10 @@ impl Pade {
     /// P(x)/Q(x) at the larger of x's precision and the coefficients'. A zero
     /// of Q gives an infinite or NaN value, as MPFR division does.
     pub fn eval(&self, x: &Float) -> Float {
-        let prec = x.prec().max(common_prec(&self.numerator)).max(common_prec(&self.denominator));
+        let prec = x
+            .prec()
+            .max(common_prec(&self.numerator))
+            .max(common_prec(&self.denominator));
         horner(&self.numerator, x, prec) / horner(&self.denominator, x, prec)
     }
 
@@ -284,7 +302,10 @@ fn horner(coeffs: &[Float], x: &Float, prec: u32) -> Float {
 fn vanishes(poly: &[Float], x: &Float, prec: u32) -> bool {
     let value = horner(poly, x, prec);
     let abs_x = Float::with_val(prec, x.abs_ref());
-    let abs_poly: Vec<Float> = poly.iter().map(|c| Float::with_val(prec, c.abs_ref())).collect();
+    let abs_poly: Vec<Float> = poly
+        .iter()
+        .map(|c| Float::with_val(prec, c.abs_ref()))
+        .collect();
     let noise = horner(&abs_poly, &abs_x, prec) >> (prec - prec / 8);
     value.abs() <= noise
 }
@@ -300,7 +321,11 @@ fn real_roots(poly: &[Float], lo: &Float, hi: &Float, prec: u32) -> Vec<Float> {
     let poly = &poly[..=degree];
     if degree == 1 {
         let root = Float::with_val(prec, -&poly[0]) / &poly[1];
-        return if &root >= lo && &root <= hi { vec![root] } else { Vec::new() };
+        return if &root >= lo && &root <= hi {
+            vec![root]
+        } else {
+            Vec::new()
+        };
     }
     let derivative: Vec<Float> = poly
         .iter()
@@ -410,7 +435,9 @@ mod tests {
             sum += ci;
             sum *= &g2;
         }
-        let direct = (Float::with_val(P, Constant::Pi) * 2u32 * f(0.05)).cosh().ln();
+        let direct = (Float::with_val(P, Constant::Pi) * 2u32 * f(0.05))
+            .cosh()
+            .ln();
         assert!(Float::with_val(P, &sum - &direct).abs() < 1e-40);
     }
 
@@ -447,16 +474,27 @@ mod tests {
             .map(|l| Float::with_val(P, Float::u_pow_u(16, l)) * f(l as f64).cos())
             .collect();
         let est = radius_in_g(&c).unwrap();
-        assert!(est.spread > 0.1, "spread {} estimate {}", est.spread, est.estimate);
+        assert!(
+            est.spread > 0.1,
+            "spread {} estimate {}",
+            est.spread,
+            est.estimate
+        );
     }
 
     #[test]
     fn radius_errors() {
         let ones: Vec<Float> = (0..5).map(|_| f(1.0)).collect();
-        assert_eq!(radius_in_g(&ones[..2]).unwrap_err().kind(), ErrorKind::Input);
+        assert_eq!(
+            radius_in_g(&ones[..2]).unwrap_err().kind(),
+            ErrorKind::Input
+        );
         let mut with_zero = ones.clone();
         with_zero[2] = f(0.0);
-        assert_eq!(radius_in_g(&with_zero).unwrap_err().kind(), ErrorKind::Numeric);
+        assert_eq!(
+            radius_in_g(&with_zero).unwrap_err().kind(),
+            ErrorKind::Numeric
+        );
         let mut with_nan = ones;
         with_nan[1] = Float::with_val(P, rug::float::Special::Nan);
         assert_eq!(radius_in_g(&with_nan).unwrap_err().kind(), ErrorKind::Input);
@@ -490,7 +528,10 @@ mod tests {
         let approx = pade(&exp_series(9), 4, 4).unwrap();
         let fact = |k: u32| Integer::from(Integer::factorial(k));
         for k in 0..=n {
-            let exact = Rational::from((fact(2 * n - k) * fact(n), fact(2 * n) * fact(k) * fact(n - k)));
+            let exact = Rational::from((
+                fact(2 * n - k) * fact(n),
+                fact(2 * n) * fact(k) * fact(n - k),
+            ));
             let want = Float::with_val(P, &exact);
             let sign = if k % 2 == 1 { -1 } else { 1 };
             let num_err = Float::with_val(P, &approx.numerator[k as usize] - &want).abs();
@@ -506,7 +547,11 @@ mod tests {
                     f(0.0)
                 } else {
                     let v = Float::with_val(P, 1) / k as u32;
-                    if k % 2 == 0 { -v } else { v }
+                    if k % 2 == 0 {
+                        -v
+                    } else {
+                        v
+                    }
                 }
             })
             .collect()
@@ -553,17 +598,26 @@ mod tests {
         let r = |n: i32, d: u32| Rational::from((n, d));
         let p = [r(1, 1), r(2, 1), r(-1, 1)];
         let q = [r(1, 1), r(-1, 3), r(1, 5)];
-        let series: Vec<Float> =
-            rational_series(&p, &q, 9).iter().map(|a| Float::with_val(P, a)).collect();
+        let series: Vec<Float> = rational_series(&p, &q, 9)
+            .iter()
+            .map(|a| Float::with_val(P, a))
+            .collect();
         let approx = pade(&series, 2, 2).unwrap();
-        for (got, want) in approx.numerator.iter().zip(&p).chain(approx.denominator.iter().zip(&q)) {
+        for (got, want) in approx
+            .numerator
+            .iter()
+            .zip(&p)
+            .chain(approx.denominator.iter().zip(&q))
+        {
             let err = Float::with_val(P, got - Float::with_val(P, want)).abs();
             assert!(err < 1e-70, "{got} vs {want}");
         }
         let x = f(0.3);
         let direct = {
-            let px = Float::with_val(P, 1) + Float::with_val(P, &x * 2u32) - Float::with_val(P, x.square_ref());
-            let qx = Float::with_val(P, 1) - Float::with_val(P, &x / 3u32) + Float::with_val(P, x.square_ref()) / 5u32;
+            let px = Float::with_val(P, 1) + Float::with_val(P, &x * 2u32)
+                - Float::with_val(P, x.square_ref());
+            let qx = Float::with_val(P, 1) - Float::with_val(P, &x / 3u32)
+                + Float::with_val(P, x.square_ref()) / 5u32;
             px / qx
         };
         assert!(Float::with_val(P, approx.eval(&x) - direct).abs() < 1e-70);
@@ -591,7 +645,10 @@ mod tests {
     fn pade_errors() {
         let s = exp_series(5);
         assert_eq!(pade(&s, 3, 2).unwrap_err().kind(), ErrorKind::Input);
-        assert_eq!(pade(&s, usize::MAX, 2).unwrap_err().kind(), ErrorKind::Range);
+        assert_eq!(
+            pade(&s, usize::MAX, 2).unwrap_err().kind(),
+            ErrorKind::Range
+        );
         let zeros: Vec<Float> = (0..5).map(|_| f(0.0)).collect();
         assert_eq!(pade(&zeros, 2, 2).unwrap_err().kind(), ErrorKind::Numeric);
         let taylor = pade(&s, 4, 0).unwrap();

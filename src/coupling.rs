@@ -77,9 +77,9 @@ impl FromStr for Coupling {
             "g2" | "g^2" => Ok(Coupling::G2),
             "a" => Ok(Coupling::A),
             "lambda" | "λ" => Ok(Coupling::Lambda),
-            other => Err(Error::input(format!(
-                "unknown coupling convention '{other}': expected g2 (g^2 = lambda/(16 pi^2)), a (a = 2 g^2) or lambda"
-            ))),
+            other => {
+                Err(Error::input(format!("unknown coupling convention '{other}': expected g2 (g^2 = lambda/(16 pi^2)), a (a = 2 g^2) or lambda")))
+            }
         }
     }
 }

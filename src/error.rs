@@ -33,7 +33,10 @@ pub struct Error {
 
 impl Error {
     pub fn new(kind: ErrorKind, message: impl Into<String>) -> Self {
-        Error { kind, message: message.into() }
+        Error {
+            kind,
+            message: message.into(),
+        }
     }
     pub fn input(message: impl Into<String>) -> Self {
         Self::new(ErrorKind::Input, message)
@@ -58,7 +61,10 @@ impl Error {
     }
     /// Prefixes the message with where it happened (a file name, an entry).
     pub fn context(self, place: impl fmt::Display) -> Self {
-        Error { kind: self.kind, message: format!("{place}: {}", self.message) }
+        Error {
+            kind: self.kind,
+            message: format!("{place}: {}", self.message),
+        }
     }
 }
 

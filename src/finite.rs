@@ -33,7 +33,11 @@ fn cos2_of(angle: &Angle, q: &Quantity, prec: u32) -> Result<Float> {
         Angle::Cos2(e) => {
             let v = numeric::evaluate(e, &mut Context::new(prec)).map_err(fail)?;
             if v.value < 0 || v.value > 1 {
-                return Err(Error::range(format!("{}: c2 = {} is outside [0, 1]", q.label, v.value.to_f64())));
+                return Err(Error::range(format!(
+                    "{}: c2 = {} is outside [0, 1]",
+                    q.label,
+                    v.value.to_f64()
+                )));
             }
             Ok(v.value)
         }
@@ -77,9 +81,17 @@ fn collect(e: &Expr, out: &mut Vec<(FunctionalKind, Angle)>) {
 /// The quantity at each coupling, to about `digits` significant digits, with
 /// the error estimate of the numerical engine carried through the formula.
 /// `progress` hears (points done, points in all).
-pub fn values(q: &Quantity, couplings: &[Float], digits: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Vec<Estimate>> {
+pub fn values(
+    q: &Quantity,
+    couplings: &[Float],
+    digits: u32,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<Vec<Estimate>> {
     if digits == 0 || digits > engine::MAX_DIGITS {
-        return Err(Error::range(format!("{digits} digits is out of range: the finite-coupling engine delivers 1 to {}", engine::MAX_DIGITS)));
+        return Err(Error::range(format!(
+            "{digits} digits is out of range: the finite-coupling engine delivers 1 to {}",
+            engine::MAX_DIGITS
+        )));
     }
     let prec = bits(digits);
     let parts = functionals(q, prec)?;
@@ -88,36 +100,66 @@ pub fn values(q: &Quantity, couplings: &[Float], digits: u32, progress: &mut dyn
     let mut tables: Vec<Vec<Estimate>> = Vec::new();
     for (k, (f, _, c2)) in parts.iter().enumerate() {
         let offset = k * couplings.len();
-        tables.push(engine::scan(*f, c2, couplings, inner_digits, &mut |done, _| progress(offset + done, total))?);
+        tables.push(engine::scan(
+            *f,
+            c2,
+            couplings,
+            inner_digits,
+            &mut |done, _| progress(offset + done, total),
+        )?);
     }
     let mut out = Vec::with_capacity(couplings.len());
     for (i, g) in couplings.iter().enumerate() {
-        let lookup: HashMap<usize, &Estimate> = (0..parts.len()).map(|k| (k, &tables[k][i])).collect();
+        let lookup: HashMap<usize, &Estimate> =
+            (0..parts.len()).map(|k| (k, &tables[k][i])).collect();
         let mut callback = |kind: FunctionalKind, angle: &Angle| -> Result<Approx> {
             let f = match kind {
                 FunctionalKind::Gamma => Functional::Gamma,
                 FunctionalKind::Delta => Functional::Delta,
             };
-            let k = parts.iter().position(|(g, a, _)| *g == f && a == angle).ok_or_else(|| Error::numeric("functional not prepared"))?;
+            let k = parts
+                .iter()
+                .position(|(g, a, _)| *g == f && a == angle)
+                .ok_or_else(|| Error::numeric("functional not prepared"))?;
             let e = lookup[&k];
-            Ok(Approx { value: Float::with_val(prec, &e.value), uncertainty: Float::with_val(prec, &e.error), stated: true })
+            Ok(Approx {
+                value: Float::with_val(prec, &e.value),
+                uncertainty: Float::with_val(prec, &e.error),
+                stated: true,
+            })
         };
         let symbols = [(COUPLING, Float::with_val(prec, g))];
-        let mut ctx = Context { prec, symbols: &symbols, functional: Some(&mut callback), mzv: None };
+        let mut ctx = Context {
+            prec,
+            symbols: &symbols,
+            functional: Some(&mut callback),
+            mzv: None,
+        };
         let v = numeric::evaluate(&q.expr, &mut ctx).map_err(|f| q.error_at(f.0, &f.1))?;
-        out.push(Estimate { value: v.value, error: v.uncertainty });
+        out.push(Estimate {
+            value: v.value,
+            error: v.uncertainty,
+        });
     }
     Ok(out)
 }
 
 /// The catalogue's strong-coupling expansion at g, if the entry has one.
 pub fn strong_coupling(q: &Quantity, g: &Float, prec: u32) -> Result<Option<Float>> {
-    let Some(sc) = q.entry.as_ref().and_then(|e| e.strong_coupling.as_ref()) else { return Ok(None) };
+    let Some(sc) = q.entry.as_ref().and_then(|e| e.strong_coupling.as_ref()) else {
+        return Ok(None);
+    };
     let origin = format!("strong-coupling formula of `{}`", q.label);
     let e = expr::parse(&sc.formula, &origin, None)?;
     let symbols = [(COUPLING, Float::with_val(prec, g))];
-    let mut ctx = Context { prec, symbols: &symbols, functional: None, mzv: None };
-    let v = numeric::evaluate(&e, &mut ctx).map_err(|f| expr::error_at(&sc.formula, &origin, None, f.0, &f.1))?;
+    let mut ctx = Context {
+        prec,
+        symbols: &symbols,
+        functional: None,
+        mzv: None,
+    };
+    let v = numeric::evaluate(&e, &mut ctx)
+        .map_err(|f| expr::error_at(&sc.formula, &origin, None, f.0, &f.1))?;
     Ok(Some(v.value))
 }
 
@@ -164,14 +206,25 @@ pub enum GridPoints {
 /// any work starts: every coupling within the engine's 0 <= g <= MAX_COUPLING,
 /// a grid with at least two and at most `max_points` points, and no `--points`
 /// beside a STEP or a list, which would otherwise be ignored.
-pub fn parse_couplings(text: &str, points: GridPoints, max_points: usize, prec: u32) -> Result<Vec<Float>> {
+pub fn parse_couplings(
+    text: &str,
+    points: GridPoints,
+    max_points: usize,
+    prec: u32,
+) -> Result<Vec<Float>> {
     let limit = engine::MAX_COUPLING;
     let number = |t: &str| -> Result<Float> {
         let t = t.trim();
-        let parsed = Float::parse(t).map_err(|_| Error::input(format!("`{t}` is not a number (couplings are written like 0.5 or 2)")))?;
+        let parsed = Float::parse(t).map_err(|_| {
+            Error::input(format!(
+                "`{t}` is not a number (couplings are written like 0.5 or 2)"
+            ))
+        })?;
         let v = Float::with_val(prec, parsed);
         if !v.is_finite() || v < 0 {
-            return Err(Error::range(format!("coupling {t} must be a finite number g >= 0")));
+            return Err(Error::range(format!(
+                "coupling {t} must be a finite number g >= 0"
+            )));
         }
         Ok(v)
     };
@@ -185,7 +238,9 @@ pub fn parse_couplings(text: &str, points: GridPoints, max_points: usize, prec: 
     };
     if !text.contains(':') {
         if let GridPoints::Given(n) = points {
-            return Err(Error::input(format!("--points {n} applies to a grid START:STOP, not to the list `{text}`")));
+            return Err(Error::input(format!(
+                "--points {n} applies to a grid START:STOP, not to the list `{text}`"
+            )));
         }
         let mut list = Vec::new();
         for t in text.split(',').filter(|t| !t.trim().is_empty()) {
@@ -194,21 +249,30 @@ pub fn parse_couplings(text: &str, points: GridPoints, max_points: usize, prec: 
             list.push(g);
         }
         if list.is_empty() {
-            return Err(Error::input("no couplings given: write a list like 0.1,0.5,1 or a grid like 0:3:0.05"));
+            return Err(Error::input(
+                "no couplings given: write a list like 0.1,0.5,1 or a grid like 0:3:0.05",
+            ));
         }
         if list.len() > max_points {
-            return Err(Error::range(format!("the list has {} couplings: at most {max_points}", list.len())));
+            return Err(Error::range(format!(
+                "the list has {} couplings: at most {max_points}",
+                list.len()
+            )));
         }
         return Ok(list);
     }
     let parts: Vec<&str> = text.split(':').collect();
     if parts.len() > 3 {
-        return Err(Error::input(format!("grid `{text}`: expected START:STOP or START:STOP:STEP")));
+        return Err(Error::input(format!(
+            "grid `{text}`: expected START:STOP or START:STOP:STEP"
+        )));
     }
     let start = number(parts[0])?;
     let stop = number(parts[1])?;
     if stop <= start {
-        return Err(Error::range(format!("grid `{text}` is empty or reversed: STOP must exceed START")));
+        return Err(Error::range(format!(
+            "grid `{text}` is empty or reversed: STOP must exceed START"
+        )));
     }
     let span = Float::with_val(prec, &stop - &start);
     let (step, count) = match (parts.get(2), points) {
@@ -229,17 +293,13 @@ pub fn parse_couplings(text: &str, points: GridPoints, max_points: usize, prec: 
             // A small tolerance keeps STOP when the step divides the span up to rounding.
             let count = (n + 1e-9).floor() as usize + 1;
             if count < 2 {
-                return Err(Error::range(format!(
-                    "grid `{text}` has a single point: the step exceeds STOP - START; a grid needs at least two"
-                )));
+                return Err(Error::range(format!("grid `{text}` has a single point: the step exceeds STOP - START; a grid needs at least two")));
             }
             (step, count)
         }
         (None, GridPoints::Given(n) | GridPoints::Default(n)) => {
             if !(2..=max_points).contains(&n) {
-                return Err(Error::range(format!(
-                    "--points {n} is out of range: a grid START:STOP has 2 (its ends) to {max_points} points"
-                )));
+                return Err(Error::range(format!("--points {n} is out of range: a grid START:STOP has 2 (its ends) to {max_points} points")));
             }
             (Float::with_val(prec, &span / (n - 1) as u32), n)
         }
@@ -249,9 +309,14 @@ pub fn parse_couplings(text: &str, points: GridPoints, max_points: usize, prec: 
             )))
         }
     };
-    let grid: Vec<Float> = (0..count).map(|k| Float::with_val(prec, &start + Float::with_val(prec, &step * k as u32))).collect();
+    let grid: Vec<Float> = (0..count)
+        .map(|k| Float::with_val(prec, &start + Float::with_val(prec, &step * k as u32)))
+        .collect();
     if let Some(last) = grid.last() {
-        reach(last, &format!("grid `{text}` reaches g = {}, which", last.to_f64()))?;
+        reach(
+            last,
+            &format!("grid `{text}` reaches g = {}, which", last.to_f64()),
+        )?;
     }
     Ok(grid)
 }

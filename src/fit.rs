@@ -40,7 +40,10 @@ pub struct BasisElement {
 
 impl BasisElement {
     pub fn new(formula: &str) -> Self {
-        BasisElement { name: formula.to_string(), formula: formula.to_string() }
+        BasisElement {
+            name: formula.to_string(),
+            formula: formula.to_string(),
+        }
     }
 }
 
@@ -81,20 +84,38 @@ pub struct ExpandedBasis {
 }
 
 /// Expands the elements through g^(2 loops), sharing kernel expansions.
-pub fn expand_basis(elements: &[BasisElement], loops: u32, catalogue: &Catalogue) -> Result<ExpandedBasis> {
+pub fn expand_basis(
+    elements: &[BasisElement],
+    loops: u32,
+    catalogue: &Catalogue,
+) -> Result<ExpandedBasis> {
     let mut cache = std::collections::HashMap::new();
-    let mut out = ExpandedBasis { names: Vec::new(), series: Vec::new(), dropped: Vec::new() };
+    let mut out = ExpandedBasis {
+        names: Vec::new(),
+        series: Vec::new(),
+        dropped: Vec::new(),
+    };
     // Earlier named elements may be used in later formulas (`A=Gamma(0); B=2*A`).
     let mut named: Vec<(String, crate::expr::Expr)> = Vec::new();
     for element in elements {
-        let scope = Scope { symbols: &[], local: &named };
-        let q = Quantity::resolve_in(&element.formula, catalogue, scope).map_err(|e| e.context(&element.name))?;
+        let scope = Scope {
+            symbols: &[],
+            local: &named,
+        };
+        let q = Quantity::resolve_in(&element.formula, catalogue, scope)
+            .map_err(|e| e.context(&element.name))?;
         if element.name != element.formula {
             named.push((element.name.clone(), q.expr.clone()));
         }
         let mut progress = |_: &str, _: usize, _: usize| {};
-        let mut ex =
-            Expander { source: &q.definition, origin: &q.origin, site: q.site.as_ref(), loops, cache: std::mem::take(&mut cache), progress: &mut progress };
+        let mut ex = Expander {
+            source: &q.definition,
+            origin: &q.origin,
+            site: q.site.as_ref(),
+            loops,
+            cache: std::mem::take(&mut cache),
+            progress: &mut progress,
+        };
         let s = ex.series(&q.expr);
         cache = std::mem::take(&mut ex.cache);
         let s = s.map_err(|e| e.context(&element.name))?;
@@ -105,7 +126,12 @@ pub fn expand_basis(elements: &[BasisElement], loops: u32, catalogue: &Catalogue
             });
             continue;
         }
-        if let Some((k, r)) = out.series.iter().enumerate().find_map(|(k, b)| rational_ratio(&s, b).map(|r| (k, r))) {
+        if let Some((k, r)) = out
+            .series
+            .iter()
+            .enumerate()
+            .find_map(|(k, b)| rational_ratio(&s, b).map(|r| (k, r)))
+        {
             out.dropped.push(Dropped {
                 name: element.name.clone(),
                 reason: format!("equal to ({r}) * {} through g^{}", out.names[k], 2 * loops),
@@ -132,7 +158,10 @@ fn rational_ratio(a: &Series, b: &Series) -> Option<Rational> {
 pub enum Solution {
     Unique(Vec<Rational>),
     /// a = particular + sum_i t_i `null_space[i]`, t_i any rationals.
-    Family { particular: Vec<Rational>, null_space: Vec<Vec<Rational>> },
+    Family {
+        particular: Vec<Rational>,
+        null_space: Vec<Vec<Rational>>,
+    },
     /// No combination fits.
     None(Inconsistency),
 }
@@ -180,13 +209,21 @@ pub fn solve(target: &[(u32, Exact)], basis: &[Series]) -> Result<Solution> {
                     None => {
                         let forced = consistent.map_or(vec![false; n], |r| r.forced_zero());
                         let elements = (0..n)
-                            .map(|k| ElementStatus { ruled_out_at: ruled_out_at[k], can_appear: !forced[k] })
+                            .map(|k| ElementStatus {
+                                ruled_out_at: ruled_out_at[k],
+                                can_appear: !forced[k],
+                            })
                             .collect();
-                        return Ok(Solution::None(Inconsistency { first_inconsistent_order: order, elements }));
+                        return Ok(Solution::None(Inconsistency {
+                            first_inconsistent_order: order,
+                            elements,
+                        }));
                     }
                 }
             }
-            Err(Error::numeric("the full system is inconsistent but no prefix of it is"))
+            Err(Error::numeric(
+                "the full system is inconsistent but no prefix of it is",
+            ))
         }
     }
 }
@@ -216,34 +253,72 @@ pub struct Fit {
 /// at the exact engine's limit): elements zero or proportional to an earlier
 /// one through that depth are dropped, and a family is searched for the
 /// orders that would fix it up to that depth.
-pub fn fit(target: &[(u32, Exact)], elements: &[BasisElement], ceiling: u32, catalogue: &Catalogue) -> Result<Fit> {
-    let top = target.iter().map(|(l, _)| *l).max().ok_or_else(|| Error::input("nothing to fit: no orders given"))?;
+pub fn fit(
+    target: &[(u32, Exact)],
+    elements: &[BasisElement],
+    ceiling: u32,
+    catalogue: &Catalogue,
+) -> Result<Fit> {
+    let top = target
+        .iter()
+        .map(|(l, _)| *l)
+        .max()
+        .ok_or_else(|| Error::input("nothing to fit: no orders given"))?;
     let depth = top.max(ceiling.min(kernel::MAX_LOOPS)).max(1);
     let basis = expand_basis(elements, depth, catalogue)?;
     let solution = solve(target, &basis.series)?;
     let fixing = match &solution {
-        Solution::Family { null_space, .. } => Some(fixing_order(target, &basis.series, top, depth, null_space.len())?),
+        Solution::Family { null_space, .. } => Some(fixing_order(
+            target,
+            &basis.series,
+            top,
+            depth,
+            null_space.len(),
+        )?),
         _ => None,
     };
-    Ok(Fit { names: basis.names, dropped: basis.dropped, solution, fixing })
+    Ok(Fit {
+        names: basis.names,
+        dropped: basis.dropped,
+        solution,
+        fixing,
+    })
 }
 
-fn fixing_order(target: &[(u32, Exact)], series: &[Series], top: u32, depth: u32, free_now: usize) -> Result<Fixing> {
+fn fixing_order(
+    target: &[(u32, Exact)],
+    series: &[Series],
+    top: u32,
+    depth: u32,
+    free_now: usize,
+) -> Result<Fixing> {
     let supplied: BTreeSet<u32> = target.iter().map(|(l, _)| *l).collect();
     let n = series.len();
     let mut free = free_now;
     for l in (top + 1)..=depth {
-        let orders: Vec<u32> = supplied.iter().copied().chain(1..=l).collect::<BTreeSet<u32>>().into_iter().collect();
+        let orders: Vec<u32> = supplied
+            .iter()
+            .copied()
+            .chain(1..=l)
+            .collect::<BTreeSet<u32>>()
+            .into_iter()
+            .collect();
         let zero_target: Vec<(u32, Exact)> = orders.iter().map(|&o| (o, Exact::zero())).collect();
         let r = reduce(equations(&zero_target, series, &orders), n)
             .ok_or_else(|| Error::numeric("a homogeneous system cannot be inconsistent"))?;
         free = n - r.pivots.len();
         if free == 0 {
             let missing = (1..=l).filter(|o| !supplied.contains(o)).collect();
-            return Ok(Fixing::At { loop_order: l, missing });
+            return Ok(Fixing::At {
+                loop_order: l,
+                missing,
+            });
         }
     }
-    Ok(Fixing::NotWithin { ceiling: depth, free })
+    Ok(Fixing::NotWithin {
+        ceiling: depth,
+        free,
+    })
 }
 
 fn check_orders(target: &[(u32, Exact)], basis: &[Series]) -> Result<Vec<u32>> {
@@ -268,7 +343,9 @@ fn equations(target: &[(u32, Exact)], basis: &[Series], orders: &[u32]) -> Vec<V
     let mut rows = Vec::new();
     for &order in orders {
         let k = order as usize;
-        let Some((_, t)) = target.iter().find(|(l, _)| *l == order) else { continue };
+        let Some((_, t)) = target.iter().find(|(l, _)| *l == order) else {
+            continue;
+        };
         let mut monomials: BTreeSet<&Monomial> = t.terms().map(|(m, _)| m).collect();
         for b in basis {
             monomials.extend(b.coeff(k).terms().map(|(m, _)| m));
@@ -295,7 +372,9 @@ fn reduce(mut rows: Vec<Vec<Rational>>, unknowns: usize) -> Option<Reduced> {
     let mut pivots = Vec::new();
     let mut r = 0;
     for col in 0..unknowns {
-        let Some(p) = (r..rows.len()).find(|&i| rows[i][col] != 0) else { continue };
+        let Some(p) = (r..rows.len()).find(|&i| rows[i][col] != 0) else {
+            continue;
+        };
         rows.swap(r, p);
         let inv = Rational::from(rows[r][col].recip_ref());
         for x in rows[r].iter_mut() {
@@ -317,7 +396,11 @@ fn reduce(mut rows: Vec<Vec<Rational>>, unknowns: usize) -> Option<Reduced> {
         return None;
     }
     rows.truncate(r);
-    Some(Reduced { rows, pivots, unknowns })
+    Some(Reduced {
+        rows,
+        pivots,
+        unknowns,
+    })
 }
 
 impl Reduced {
@@ -348,7 +431,10 @@ impl Reduced {
         if null_space.is_empty() {
             Solution::Unique(self.particular())
         } else {
-            Solution::Family { particular: self.particular(), null_space }
+            Solution::Family {
+                particular: self.particular(),
+                null_space,
+            }
         }
     }
 
@@ -356,7 +442,9 @@ impl Reduced {
     fn forced_zero(&self) -> Vec<bool> {
         let p = self.particular();
         let null = self.null_space();
-        (0..self.unknowns).map(|k| p[k] == 0 && null.iter().all(|v| v[k] == 0)).collect()
+        (0..self.unknowns)
+            .map(|k| p[k] == 0 && null.iter().all(|v| v[k] == 0))
+            .collect()
     }
 }
 
@@ -373,25 +461,39 @@ mod tests {
     }
 
     fn expand(formula: &str, loops: u32) -> Series {
-        Quantity::resolve(formula, &Catalogue::builtin().unwrap()).unwrap().expand(loops, &mut |_, _, _| {}).unwrap()
+        Quantity::resolve(formula, &Catalogue::builtin().unwrap())
+            .unwrap()
+            .expand(loops, &mut |_, _, _| {})
+            .unwrap()
     }
 
     fn data(s: &Series) -> Vec<(u32, Exact)> {
-        (1..=s.order()).map(|k| (k as u32, s.coeff(k).clone())).collect()
+        (1..=s.order())
+            .map(|k| (k as u32, s.coeff(k).clone()))
+            .collect()
     }
 
     /// The coefficient vector in the order of `names`, from (name, value) pairs.
     fn vector(names: &[String], entries: &[(&str, Rational)]) -> Vec<Rational> {
         names
             .iter()
-            .map(|n| entries.iter().find(|(e, _)| e == n).map_or(Rational::new(), |(_, v)| v.clone()))
+            .map(|n| {
+                entries
+                    .iter()
+                    .find(|(e, _)| e == n)
+                    .map_or(Rational::new(), |(_, v)| v.clone())
+            })
             .collect()
     }
 
     /// Whether a lies in particular + span(null_space): the null vectors carry
     /// the identity on the free columns, so the span coordinates are read off there.
     fn in_family(a: &[Rational], particular: &[Rational], null_space: &[Vec<Rational>]) -> bool {
-        let mut rest: Vec<Rational> = a.iter().zip(particular).map(|(x, p)| Rational::from(x - p)).collect();
+        let mut rest: Vec<Rational> = a
+            .iter()
+            .zip(particular)
+            .map(|(x, p)| Rational::from(x - p))
+            .collect();
         for v in null_space {
             let free = v.iter().position(|x| *x == 1).unwrap();
             let t = rest[free].clone();
@@ -405,14 +507,26 @@ mod tests {
     #[test]
     fn elimination_on_small_systems() {
         // 2x + y = 3, x - y = 0: x = y = 1 (by hand).
-        let b = vec![Series::new(vec![Exact::zero(), Exact::from(2), Exact::from(1)]), Series::new(vec![Exact::zero(), Exact::from(1), Exact::from(-1)])];
+        let b = vec![
+            Series::new(vec![Exact::zero(), Exact::from(2), Exact::from(1)]),
+            Series::new(vec![Exact::zero(), Exact::from(1), Exact::from(-1)]),
+        ];
         let t = vec![(1, Exact::from(3)), (2, Exact::from(0))];
-        assert_eq!(solve(&t, &b).unwrap(), Solution::Unique(vec![q(1, 1), q(1, 1)]));
+        assert_eq!(
+            solve(&t, &b).unwrap(),
+            Solution::Unique(vec![q(1, 1), q(1, 1)])
+        );
         // One equation, two unknowns: x + y/2 = 1 -> (1, 0) + t (-1/2, 1).
-        let b = vec![Series::new(vec![Exact::zero(), Exact::from(1)]), Series::new(vec![Exact::zero(), Exact::from(Rational::from((1, 2)))])];
+        let b = vec![
+            Series::new(vec![Exact::zero(), Exact::from(1)]),
+            Series::new(vec![Exact::zero(), Exact::from(Rational::from((1, 2)))]),
+        ];
         assert_eq!(
             solve(&[(1, Exact::from(1))], &b).unwrap(),
-            Solution::Family { particular: vec![q(1, 1), q(0, 1)], null_space: vec![vec![q(-1, 2), q(1, 1)]] }
+            Solution::Family {
+                particular: vec![q(1, 1), q(0, 1)],
+                null_space: vec![vec![q(-1, 2), q(1, 1)]]
+            }
         );
     }
 
@@ -425,15 +539,31 @@ mod tests {
         assert_eq!(b.dropped[0].name, "Delta(pi/2)");
         // Gamma(pi/2) = 4 g^2 exactly (docs/conventions.md section 4) stays in.
         let k = b.names.iter().position(|n| n == "Gamma(pi/2)").unwrap();
-        assert_eq!(b.series[k], Series::new(vec![Exact::zero(), Exact::from(4), Exact::zero(), Exact::zero(), Exact::zero()]));
+        assert_eq!(
+            b.series[k],
+            Series::new(vec![
+                Exact::zero(),
+                Exact::from(4),
+                Exact::zero(),
+                Exact::zero(),
+                Exact::zero()
+            ])
+        );
     }
 
     #[test]
     fn multiples_are_dropped_with_their_ratio() {
-        let elements = [BasisElement::new("Gamma(pi/4)"), BasisElement::new("Gamma(c2=1/2)/3")];
+        let elements = [
+            BasisElement::new("Gamma(pi/4)"),
+            BasisElement::new("Gamma(c2=1/2)/3"),
+        ];
         let b = expand_basis(&elements, 3, &Catalogue::builtin().unwrap()).unwrap();
         assert_eq!(b.names, vec!["Gamma(pi/4)".to_string()]);
-        assert!(b.dropped[0].reason.contains("1/3"), "{}", b.dropped[0].reason);
+        assert!(
+            b.dropped[0].reason.contains("1/3"),
+            "{}",
+            b.dropped[0].reason
+        );
     }
 
     /// C0 through two loops, C0^(1) = -3 zeta2 and C0^(2) = 77/4 zeta4
@@ -449,34 +579,75 @@ mod tests {
         for m in members {
             assert_eq!(data(&expand(m, 2)), target, "{m}");
         }
-        let f = fit(&target, &default_basis(), 12, &Catalogue::builtin().unwrap()).unwrap();
-        let Solution::Family { particular, null_space } = &f.solution else { panic!("{:?}", f.solution) };
+        let f = fit(
+            &target,
+            &default_basis(),
+            12,
+            &Catalogue::builtin().unwrap(),
+        )
+        .unwrap();
+        let Solution::Family {
+            particular,
+            null_space,
+        } = &f.solution
+        else {
+            panic!("{:?}", f.solution)
+        };
         // Four equations (monomials 1 and pi^2 at one loop, pi^2 and pi^4 at
         // two: Gamma has weight 2L-2, Delta and zeta(2)*Gamma weight 2L) for
         // fourteen unknowns.
         assert_eq!(null_space.len(), 10);
         let first = vector(
             &f.names,
-            &[("zeta(2)*Gamma(pi/4)", q(-1, 2)), ("Delta(pi/4)", q(1, 4)), ("Delta(pi/3)", q(1, 4)), ("Delta(pi/6)", q(-1, 4)), ("Delta(0)", q(-1, 4))],
+            &[
+                ("zeta(2)*Gamma(pi/4)", q(-1, 2)),
+                ("Delta(pi/4)", q(1, 4)),
+                ("Delta(pi/3)", q(1, 4)),
+                ("Delta(pi/6)", q(-1, 4)),
+                ("Delta(0)", q(-1, 4)),
+            ],
         );
         let second = vector(
             &f.names,
-            &[("zeta(2)*Gamma(pi/4)", q(-1, 2)), ("Delta(pi/3)", q(1, 1)), ("Delta(pi/4)", q(-1, 2)), ("Delta(0)", q(-1, 4))],
+            &[
+                ("zeta(2)*Gamma(pi/4)", q(-1, 2)),
+                ("Delta(pi/3)", q(1, 1)),
+                ("Delta(pi/4)", q(-1, 2)),
+                ("Delta(0)", q(-1, 4)),
+            ],
         );
         assert!(in_family(&first, particular, null_space));
         assert!(in_family(&second, particular, null_space));
         let mut wrong = first.clone();
         wrong[0] += 1;
         assert!(!in_family(&wrong, particular, null_space));
-        let Some(Fixing::At { loop_order, missing }) = &f.fixing else { panic!("{:?}", f.fixing) };
+        let Some(Fixing::At {
+            loop_order,
+            missing,
+        }) = &f.fixing
+        else {
+            panic!("{:?}", f.fixing)
+        };
         assert!(*loop_order > 2);
         assert_eq!(*missing, (3..=*loop_order).collect::<Vec<u32>>());
         // At that order the first member is recovered alone; one order less
         // still leaves a family, so the order reported is the smallest.
         let c0 = expand(members[0], *loop_order);
-        let f = fit(&data(&c0), &default_basis(), 12, &Catalogue::builtin().unwrap()).unwrap();
+        let f = fit(
+            &data(&c0),
+            &default_basis(),
+            12,
+            &Catalogue::builtin().unwrap(),
+        )
+        .unwrap();
         assert_eq!(f.solution, Solution::Unique(first));
-        let f = fit(&data(&c0.truncate(*loop_order as usize - 1)), &default_basis(), 12, &Catalogue::builtin().unwrap()).unwrap();
+        let f = fit(
+            &data(&c0.truncate(*loop_order as usize - 1)),
+            &default_basis(),
+            12,
+            &Catalogue::builtin().unwrap(),
+        )
+        .unwrap();
         assert!(matches!(f.solution, Solution::Family { .. }));
     }
 
@@ -492,25 +663,59 @@ mod tests {
             BasisElement::new("Delta(pi/3)"),
         ];
         let f = fit(&target, &elements, 10, &Catalogue::builtin().unwrap()).unwrap();
-        assert_eq!(f.solution, Solution::Unique(vec![q(3, 7), q(0, 1), q(-2, 1), q(1, 5)]));
+        assert_eq!(
+            f.solution,
+            Solution::Unique(vec![q(3, 7), q(0, 1), q(-2, 1), q(1, 5)])
+        );
     }
 
     #[test]
     fn impossible_targets_are_refused_with_the_order_that_rules_them_out() {
         // zeta(3) g^2: weight 3 where every basis element has weight 0 or 2.
-        let f = fit(&[(1, zeta(3))], &default_basis(), 4, &Catalogue::builtin().unwrap()).unwrap();
-        let Solution::None(bad) = &f.solution else { panic!("{:?}", f.solution) };
+        let f = fit(
+            &[(1, zeta(3))],
+            &default_basis(),
+            4,
+            &Catalogue::builtin().unwrap(),
+        )
+        .unwrap();
+        let Solution::None(bad) = &f.solution else {
+            panic!("{:?}", f.solution)
+        };
         assert_eq!(bad.first_inconsistent_order, 1);
-        assert!(bad.elements.iter().all(|e| e.can_appear && e.ruled_out_at.is_none()));
+        assert!(bad
+            .elements
+            .iter()
+            .all(|e| e.can_appear && e.ruled_out_at.is_none()));
 
         // Gamma(0) at one loop forces a_Delta(0) = 0 (Delta(0) has 4 zeta2 g^2,
         // docs/conventions.md sections 2-3), then a weight-3 two-loop value is impossible.
         let elements = [BasisElement::new("Gamma(0)"), BasisElement::new("Delta(0)")];
-        let f = fit(&[(1, Exact::from(4)), (2, zeta(3))], &elements, 4, &Catalogue::builtin().unwrap()).unwrap();
-        let Solution::None(bad) = &f.solution else { panic!("{:?}", f.solution) };
+        let f = fit(
+            &[(1, Exact::from(4)), (2, zeta(3))],
+            &elements,
+            4,
+            &Catalogue::builtin().unwrap(),
+        )
+        .unwrap();
+        let Solution::None(bad) = &f.solution else {
+            panic!("{:?}", f.solution)
+        };
         assert_eq!(bad.first_inconsistent_order, 2);
-        assert_eq!(bad.elements[0], ElementStatus { ruled_out_at: None, can_appear: true });
-        assert_eq!(bad.elements[1], ElementStatus { ruled_out_at: Some(1), can_appear: false });
+        assert_eq!(
+            bad.elements[0],
+            ElementStatus {
+                ruled_out_at: None,
+                can_appear: true
+            }
+        );
+        assert_eq!(
+            bad.elements[1],
+            ElementStatus {
+                ruled_out_at: Some(1),
+                can_appear: false
+            }
+        );
         assert!(f.fixing.is_none());
     }
 
@@ -518,12 +723,30 @@ mod tests {
     fn an_exact_relation_is_never_fixed() {
         // Gamma(0) + Gamma(pi/2) is no multiple of either element, but an
         // exact sum of both: one free parameter at every order.
-        let elements = [BasisElement::new("Gamma(pi/2)"), BasisElement::new("Gamma(0)"), BasisElement::new("Gamma(0) + Gamma(pi/2)")];
-        let f = fit(&[(1, Exact::from(4))], &elements, 6, &Catalogue::builtin().unwrap()).unwrap();
+        let elements = [
+            BasisElement::new("Gamma(pi/2)"),
+            BasisElement::new("Gamma(0)"),
+            BasisElement::new("Gamma(0) + Gamma(pi/2)"),
+        ];
+        let f = fit(
+            &[(1, Exact::from(4))],
+            &elements,
+            6,
+            &Catalogue::builtin().unwrap(),
+        )
+        .unwrap();
         assert_eq!(f.names.len(), 3);
-        let Solution::Family { null_space, .. } = &f.solution else { panic!("{:?}", f.solution) };
+        let Solution::Family { null_space, .. } = &f.solution else {
+            panic!("{:?}", f.solution)
+        };
         assert_eq!(null_space.len(), 2);
-        assert_eq!(f.fixing, Some(Fixing::NotWithin { ceiling: 6, free: 1 }));
+        assert_eq!(
+            f.fixing,
+            Some(Fixing::NotWithin {
+                ceiling: 6,
+                free: 1
+            })
+        );
     }
 
     #[test]

@@ -68,7 +68,9 @@ pub fn mzv(s: &[u32], prec: u32) -> Result<Float> {
 
 fn check_arguments(s: &[u32], prec: u32) -> Result<u32> {
     if s.is_empty() {
-        return Err(Error::input("a multiple zeta value needs at least one index"));
+        return Err(Error::input(
+            "a multiple zeta value needs at least one index",
+        ));
     }
     if s[0] < 2 {
         return Err(Error::input(format!(
@@ -105,7 +107,10 @@ fn check_arguments(s: &[u32], prec: u32) -> Result<u32> {
 }
 
 fn join(s: &[u32]) -> String {
-    s.iter().map(|x| x.to_string()).collect::<Vec<_>>().join(",")
+    s.iter()
+        .map(|x| x.to_string())
+        .collect::<Vec<_>>()
+        .join(",")
 }
 
 /// Letters of an iterated-integral word: `false` for x0 = dt/t, `true` for
@@ -262,7 +267,12 @@ mod tests {
     fn depth_one_matches_mpfr_zeta() {
         // Independent reference: MPFR's mpfr_zeta_ui.
         for s in [2, 3, 4, 7, 12, 31] {
-            assert_close(&mzv(&[s], P).unwrap(), &zeta1(s, P), AGREE, &format!("zeta({s})"));
+            assert_close(
+                &mzv(&[s], P).unwrap(),
+                &zeta1(s, P),
+                AGREE,
+                &format!("zeta({s})"),
+            );
         }
     }
 
@@ -285,7 +295,12 @@ mod tests {
         // zeta({3,1}^2) = 2 pi^8 / 10! (arXiv:math/9812020), depth 4.
         let fact = Integer::from(Integer::factorial(10));
         let expect = Float::with_val(P, pi(P).pow(8u32)) * 2u32 / fact;
-        assert_close(&mzv(&[3, 1, 3, 1], P).unwrap(), &expect, AGREE, "zeta(3,1,3,1)");
+        assert_close(
+            &mzv(&[3, 1, 3, 1], P).unwrap(),
+            &expect,
+            AGREE,
+            "zeta(3,1,3,1)",
+        );
     }
 
     #[test]
@@ -328,7 +343,10 @@ mod tests {
         assert_eq!(exponents(&dual_word(&word_of(&[4]))), vec![2, 1, 1]);
         // x0^2 x1 x1 x0 x1 -> swap 110010 -> reverse 010011 = zeta(2,3,1).
         assert_eq!(exponents(&dual_word(&word_of(&[3, 1, 2]))), vec![2, 3, 1]);
-        assert_eq!(exponents(&dual_word(&word_of(&[5, 3]))), vec![2, 1, 2, 1, 1, 1]);
+        assert_eq!(
+            exponents(&dual_word(&word_of(&[5, 3]))),
+            vec![2, 1, 2, 1, 1, 1]
+        );
     }
 
     #[test]
@@ -339,7 +357,12 @@ mod tests {
         // holds by construction: the informative checks are zeta(4) from MPFR
         // here and the direct sums for zeta(3,1,2) and zeta(2,3,1) in
         // inner_unit_indices_against_direct_sums.
-        assert_close(&mzv(&[2, 1, 1], P).unwrap(), &zeta1(4, P), AGREE, "zeta(2,1,1)");
+        assert_close(
+            &mzv(&[2, 1, 1], P).unwrap(),
+            &zeta1(4, P),
+            AGREE,
+            "zeta(2,1,1)",
+        );
         assert_close(
             &mzv(&[3, 1, 2], P).unwrap(),
             &mzv(&[2, 3, 1], P).unwrap(),
@@ -369,7 +392,8 @@ mod tests {
         let mut samples = Vec::new();
         for n in 1..=spacing * points as u32 {
             for i in 0..k {
-                let term = Float::with_val(prec, &nested[i + 1] / Float::with_val(prec, n).pow(s[i]));
+                let term =
+                    Float::with_val(prec, &nested[i + 1] / Float::with_val(prec, n).pow(s[i]));
                 nested[i] += term;
             }
             if n % spacing == 0 {
@@ -387,7 +411,10 @@ mod tests {
                 for order in 1..=orders as u32 {
                     let inv = Float::with_val(prec, *n).pow(order).recip();
                     for j in 0..=logs as u32 {
-                        row.push(Float::with_val(prec, &inv * Float::with_val(prec, (&ln).pow(j))));
+                        row.push(Float::with_val(
+                            prec,
+                            &inv * Float::with_val(prec, (&ln).pow(j)),
+                        ));
                     }
                 }
                 row.push(value.clone());
@@ -397,7 +424,13 @@ mod tests {
         // Gaussian elimination with partial pivoting; the unknown S is column 0.
         for col in 0..unknowns {
             let pivot = (col..unknowns)
-                .max_by(|&x, &y| a[x][col].clone().abs().partial_cmp(&a[y][col].clone().abs()).unwrap())
+                .max_by(|&x, &y| {
+                    a[x][col]
+                        .clone()
+                        .abs()
+                        .partial_cmp(&a[y][col].clone().abs())
+                        .unwrap()
+                })
                 .unwrap();
             a.swap(col, pivot);
             let pivot_row = a[col].clone();
@@ -434,7 +467,10 @@ mod tests {
         //    nsum(lambda n: n**-5 * (zeta(3) - zeta(3, n)), [1, inf])
         //    (Hurwitz zeta for the inner tail; methods 'euler-maclaurin' and
         //    'richardson' gave the same 60 digits).
-        let mpmath = from_decimal("0.0377076729848475440113047822936599148226013194152775240126451", P);
+        let mpmath = from_decimal(
+            "0.0377076729848475440113047822936599148226013194152775240126451",
+            P,
+        );
         assert_close(&fast, &mpmath, 180, "zeta(5,3) vs mpmath");
         // 3. Direct nested sum to N = 600 with extrapolation (this file's second algorithm).
         let slow = direct_extrapolated(&[5, 3], 20, 30, 0);

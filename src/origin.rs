@@ -49,7 +49,9 @@ impl OriginLogs {
     /// (l1, l2, l3) in that order, or one name for the line.
     pub fn from_symbols(symbols: &[String]) -> Result<Self> {
         match symbols {
-            [a, b, c] if a != b && b != c && a != c => Ok(OriginLogs::Three([a.clone(), b.clone(), c.clone()])),
+            [a, b, c] if a != b && b != c && a != c => {
+                Ok(OriginLogs::Three([a.clone(), b.clone(), c.clone()]))
+            }
             [l] => Ok(OriginLogs::Line(l.clone())),
             _ => Err(Error::input(format!(
                 "an origin file lists either three logs (ln u1, ln u2, ln u3, e.g. [l1, l2, l3]) \
@@ -68,7 +70,10 @@ impl OriginLogs {
 
     fn sum_of_squares(&self) -> Exact {
         match self {
-            OriginLogs::Three(n) => n.iter().map(|s| Exact::symbol(s).pow(2)).fold(Exact::zero(), |a, b| &a + &b),
+            OriginLogs::Three(n) => n
+                .iter()
+                .map(|s| Exact::symbol(s).pow(2))
+                .fold(Exact::zero(), |a, b| &a + &b),
             OriginLogs::Line(n) => Exact::symbol(n).pow(2).scale(&Rational::from(3)),
         }
     }
@@ -86,7 +91,9 @@ pub fn one_loop_limit(logs: &OriginLogs) -> Exact {
 /// The one-loop value of C0: -3 zeta(2) (docs/conventions.md section 6, derived from
 /// [`one_loop_limit`] with Gamma_cusp^(1) = 4).
 pub fn one_loop_constant() -> Exact {
-    Exact::zeta(2).unwrap_or_default().scale(&Rational::from(-3))
+    Exact::zeta(2)
+        .unwrap_or_default()
+        .scale(&Rational::from(-3))
 }
 
 /// Gamma_cusp/4 * E^(1) at the origin, order by order.
@@ -107,7 +114,10 @@ fn ansatz_exponent(gamma_cusp: &Series, logs: &OriginLogs, order: usize) -> Resu
 pub fn r6_to_e(r6: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result<Series> {
     let exponent = r6 + &ansatz_exponent(gamma_cusp, logs, r6.order())?;
     if !exponent.coeff(0).is_zero() {
-        return Err(Error::input(format!("R6 must vanish at g^0, found {}", exponent.coeff(0))));
+        return Err(Error::input(format!(
+            "R6 must vanish at g^0, found {}",
+            exponent.coeff(0)
+        )));
     }
     let mut alg = Algebra::new(logs);
     let f = alg.import_series(&exponent)?;
@@ -188,7 +198,12 @@ pub fn analyse_e(e: &Series, logs: &OriginLogs) -> Result<OriginAnalysis> {
         broken = breakdown;
         broken.is_none()
     })?;
-    Ok(OriginAnalysis { logs: logs.clone(), ln_e: alg.export_series(&ln), orders, broken })
+    Ok(OriginAnalysis {
+        logs: logs.clone(),
+        ln_e: alg.export_series(&ln),
+        orders,
+        broken,
+    })
 }
 
 /// Reads a series of R6 at the origin: ln E = R6 + Gamma_cusp/4 * E^(1)
@@ -196,7 +211,10 @@ pub fn analyse_e(e: &Series, logs: &OriginLogs) -> Result<OriginAnalysis> {
 pub fn analyse_r6(r6: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result<OriginAnalysis> {
     let ln = r6 + &ansatz_exponent(gamma_cusp, logs, r6.order())?;
     if !ln.coeff(0).is_zero() {
-        return Err(Error::input(format!("R6 must vanish at g^0, found {}", ln.coeff(0))));
+        return Err(Error::input(format!(
+            "R6 must vanish at g^0, found {}",
+            ln.coeff(0)
+        )));
     }
     let mut alg = Algebra::new(logs);
     let mut orders = Vec::new();
@@ -212,7 +230,12 @@ pub fn analyse_r6(r6: &Series, gamma_cusp: &Series, logs: &OriginLogs) -> Result
             break;
         }
     }
-    Ok(OriginAnalysis { logs: logs.clone(), ln_e: ln.truncate(last), orders, broken })
+    Ok(OriginAnalysis {
+        logs: logs.clone(),
+        ln_e: ln.truncate(last),
+        orders,
+        broken,
+    })
 }
 
 /// The predicted double-log coefficients, -Gamma_oct/24 and -Gamma_hex/24,
@@ -227,7 +250,10 @@ pub fn predicted_log_coefficients(loops: u32) -> Result<OriginPrediction> {
     let scale = Exact::from(Rational::from((-1, 24)));
     let oct = kernel::gamma(&Tilt::cos2(Rational::from(1))?, loops, &mut |_, _| {})?;
     let hex = kernel::gamma(&Tilt::cos2(Rational::from((1, 4)))?, loops, &mut |_, _| {})?;
-    Ok(OriginPrediction { octagon: oct.scale(&scale), hexagon: hex.scale(&scale) })
+    Ok(OriginPrediction {
+        octagon: oct.scale(&scale),
+        hexagon: hex.scale(&scale),
+    })
 }
 
 /// alpha and beta from A sum l_i^2 + B sum_{i<j} l_i l_j: expanding
@@ -281,7 +307,11 @@ fn pack(exps: [u64; 3], t: u64) -> u64 {
 }
 
 fn exps_of(key: u64) -> [u64; 3] {
-    [key & FIELD_MAX, (key >> FIELD) & FIELD_MAX, (key >> (2 * FIELD)) & FIELD_MAX]
+    [
+        key & FIELD_MAX,
+        (key >> FIELD) & FIELD_MAX,
+        (key >> (2 * FIELD)) & FIELD_MAX,
+    ]
 }
 
 fn transcendental_of(key: u64) -> u64 {
@@ -306,7 +336,9 @@ fn max_exps(d: &Dense) -> [u64; 3] {
 }
 
 fn too_many_transcendentals() -> Error {
-    Error::range(format!("more than {FIELD_MAX} distinct transcendental monomials in one origin series"))
+    Error::range(format!(
+        "more than {FIELD_MAX} distinct transcendental monomials in one origin series"
+    ))
 }
 
 /// The interned transcendental monomials and their products.
@@ -319,7 +351,12 @@ struct Algebra {
 
 impl Algebra {
     fn new(logs: &OriginLogs) -> Self {
-        let mut a = Algebra { logs: logs.clone(), monomials: Vec::new(), index: HashMap::new(), products: KeyMap::default() };
+        let mut a = Algebra {
+            logs: logs.clone(),
+            monomials: Vec::new(),
+            index: HashMap::new(),
+            products: KeyMap::default(),
+        };
         a.intern(Monomial::one());
         a
     }
@@ -364,7 +401,9 @@ impl Algebra {
                 exps[slot] = u64::from(*power);
             }
             if exps.iter().any(|&x| x > FIELD_MAX) {
-                return Err(Error::range(format!("a power of a log above {FIELD_MAX} in {m}")));
+                return Err(Error::range(format!(
+                    "a power of a log above {FIELD_MAX} in {m}"
+                )));
             }
             let t = self.intern(rest);
             if t > FIELD_MAX {
@@ -401,11 +440,19 @@ impl Algebra {
     }
 
     /// acc += factor * a * b, with `a` the small operand.
-    fn add_product(&mut self, acc: &mut Dense, factor: &Rational, a: &Dense, b: &Dense) -> Result<()> {
+    fn add_product(
+        &mut self,
+        acc: &mut Dense,
+        factor: &Rational,
+        a: &Dense,
+        b: &Dense,
+    ) -> Result<()> {
         // Exponents add field by field; a carry would corrupt the key.
         let (ma, mb) = (max_exps(a), max_exps(b));
         if (0..3).any(|i| ma[i] + mb[i] > FIELD_MAX) {
-            return Err(Error::range(format!("a power of a log above {FIELD_MAX} in a product of origin coefficients")));
+            return Err(Error::range(format!(
+                "a power of a log above {FIELD_MAX} in a product of origin coefficients"
+            )));
         }
         let mut row: KeyMap<u64> = KeyMap::default();
         for (&ka, ca) in a {
@@ -458,7 +505,11 @@ impl Algebra {
     /// ln of a series with constant term 1: out_k = e_k - (1/k) sum_(j<k) j out_j e_(k-j).
     /// `keep_going` sees each new coefficient and may stop the expansion; the
     /// result then ends at that order.
-    fn ln(&mut self, e: &[Dense], keep_going: &mut dyn FnMut(&mut Self, (usize, &Dense)) -> bool) -> Result<Vec<Dense>> {
+    fn ln(
+        &mut self,
+        e: &[Dense],
+        keep_going: &mut dyn FnMut(&mut Self, (usize, &Dense)) -> bool,
+    ) -> Result<Vec<Dense>> {
         let one = Dense::from_iter([(pack([0; 3], 0), Rational::from(1))]);
         if e[0] != one {
             return Err(Error::input(format!(
@@ -497,7 +548,10 @@ impl Algebra {
         let mut out = Exact::zero();
         for (&key, c) in d {
             if exps_of(key) == exps {
-                out.add_term(self.monomials[transcendental_of(key) as usize].clone(), c.clone());
+                out.add_term(
+                    self.monomials[transcendental_of(key) as usize].clone(),
+                    c.clone(),
+                );
             }
         }
         out
@@ -505,20 +559,33 @@ impl Algebra {
 
     /// The exponentiation check and the readings of one order of ln E.
     fn examine(&self, k: usize, c: &Dense) -> (Option<OrderReading>, Option<Breakdown>) {
-        let high: Dense = c.iter().filter(|(&key, _)| degree_of(key) > 2).map(|(&k, v)| (k, v.clone())).collect();
-        let low: Dense = c.iter().filter(|(&key, _)| degree_of(key) <= 2).map(|(&k, v)| (k, v.clone())).collect();
+        let high: Dense = c
+            .iter()
+            .filter(|(&key, _)| degree_of(key) > 2)
+            .map(|(&k, v)| (k, v.clone()))
+            .collect();
+        let low: Dense = c
+            .iter()
+            .filter(|(&key, _)| degree_of(key) <= 2)
+            .map(|(&k, v)| (k, v.clone()))
+            .collect();
         let asymmetric = match self.logs {
             OriginLogs::Three(_) => asymmetric_part(&low),
             OriginLogs::Line(_) => Dense::default(),
         };
         if !high.is_empty() || !asymmetric.is_empty() {
-            let b = Breakdown { order: k, high_degree: self.export(&high), asymmetric: self.export(&asymmetric) };
+            let b = Breakdown {
+                order: k,
+                high_degree: self.export(&high),
+                asymmetric: self.export(&asymmetric),
+            };
             return (None, Some(b));
         }
         let constant = self.at(&low, [0, 0, 0]);
         let reading = match self.logs {
             OriginLogs::Three(_) => {
-                let (alpha, beta) = quadratic_to_alpha_beta(&self.at(&low, [2, 0, 0]), &self.at(&low, [1, 1, 0]));
+                let (alpha, beta) =
+                    quadratic_to_alpha_beta(&self.at(&low, [2, 0, 0]), &self.at(&low, [1, 1, 0]));
                 OrderReading {
                     order: k,
                     octagon: alpha,
@@ -542,7 +609,14 @@ impl Algebra {
 
 /// p - (1/6) sum over the six permutations of the three logs.
 fn asymmetric_part(p: &Dense) -> Dense {
-    const PERMS: [[usize; 3]; 6] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
+    const PERMS: [[usize; 3]; 6] = [
+        [0, 1, 2],
+        [0, 2, 1],
+        [1, 0, 2],
+        [1, 2, 0],
+        [2, 0, 1],
+        [2, 1, 0],
+    ];
     let sixth = Rational::from((1, 6));
     let mut out = p.clone();
     for (&key, c) in p {
@@ -584,7 +658,12 @@ mod tests {
     }
 
     fn cusp(loops: u32) -> Series {
-        kernel::gamma(&Tilt::cos2(Rational::from((1, 2))).unwrap(), loops, &mut |_, _| {}).unwrap()
+        kernel::gamma(
+            &Tilt::cos2(Rational::from((1, 2))).unwrap(),
+            loops,
+            &mut |_, _| {},
+        )
+        .unwrap()
     }
 
     /// Li2(1 - 1/u) -> -ln^2(u)/2 - zeta(2) as u -> 0 (Abramowitz & Stegun 27.7).
@@ -608,7 +687,10 @@ mod tests {
         let coefficient = |m: Monomial| {
             let mut out = Exact::zero();
             for (k, c) in form.terms() {
-                if ["l1", "l2", "l3"].iter().all(|n| k.symbol_exponent(n) == m.symbol_exponent(n)) {
+                if ["l1", "l2", "l3"]
+                    .iter()
+                    .all(|n| k.symbol_exponent(n) == m.symbol_exponent(n))
+                {
                     let (rest, _) = k.without_symbol("l1");
                     let (rest, _) = rest.without_symbol("l2");
                     let (rest, _) = rest.without_symbol("l3");
@@ -618,9 +700,16 @@ mod tests {
             out
         };
         let a = coefficient(Monomial::symbol("l1", 2));
-        let b = coefficient(Monomial::from_parts(0, vec![], vec![("l1".into(), 1), ("l2".into(), 1)]));
+        let b = coefficient(Monomial::from_parts(
+            0,
+            vec![],
+            vec![("l1".into(), 1), ("l2".into(), 1)],
+        ));
         assert_eq!(a, &alpha + &beta.scale(&Rational::from(2)));
-        assert_eq!(b, &alpha.scale(&Rational::from(2)) - &beta.scale(&Rational::from(2)));
+        assert_eq!(
+            b,
+            &alpha.scale(&Rational::from(2)) - &beta.scale(&Rational::from(2))
+        );
         assert_eq!(quadratic_to_alpha_beta(&a, &b), (alpha, beta));
     }
 
@@ -628,7 +717,9 @@ mod tests {
     /// normalisation E = 1 + g^2 Gamma_cusp^(1)/4 E^(1) = 1 + g^2 E^(1).
     #[test]
     fn one_loop_reads_minus_one_sixth_twice_and_minus_three_zeta2() {
-        let e1 = (1..=3).map(|i| li2_inverse_limit(&l(i))).fold(Exact::zero(), |a, b| &a + &b);
+        let e1 = (1..=3)
+            .map(|i| li2_inverse_limit(&l(i)))
+            .fold(Exact::zero(), |a, b| &a + &b);
         assert_eq!(e1, one_loop_limit(&OriginLogs::three()));
         let e = Series::new(vec![Exact::one(), e1]);
         let a = analyse_e(&e, &OriginLogs::three()).unwrap();
@@ -649,7 +740,9 @@ mod tests {
     /// (arXiv:1006.5703 as given in docs/conventions.md section 6).
     fn two_loop_r6() -> Series {
         let pairs = &(&(&l(1) * &l(2)) + &(&l(2) * &l(3))) + &(&l(3) * &l(1));
-        let c2 = &(&zeta(2) * &pairs) + &(&zeta(4).scale(&Rational::from((77, 4))) - &zeta(2).pow(2).scale(&Rational::from(6)));
+        let c2 = &(&zeta(2) * &pairs)
+            + &(&zeta(4).scale(&Rational::from((77, 4)))
+                - &zeta(2).pow(2).scale(&Rational::from(6)));
         Series::new(vec![Exact::zero(), Exact::zero(), c2])
     }
 
@@ -678,8 +771,10 @@ mod tests {
         let p = predicted_log_coefficients(loops).unwrap();
         let mut coeffs = vec![Exact::zero()];
         for k in 1..=loops as usize {
-            let constant = &zeta(2 * k as u32).scale(&Rational::from((k as i64, 3))) + &q(1, k as i64 + 1);
-            let c = &(&(p.octagon.coeff(k) * &sum_logs_squared()) + &(p.hexagon.coeff(k) * &sum_differences_squared()))
+            let constant =
+                &zeta(2 * k as u32).scale(&Rational::from((k as i64, 3))) + &q(1, k as i64 + 1);
+            let c = &(&(p.octagon.coeff(k) * &sum_logs_squared())
+                + &(p.hexagon.coeff(k) * &sum_differences_squared()))
                 + &constant;
             coeffs.push(c);
         }
@@ -720,10 +815,14 @@ mod tests {
         let e = predicted_ln_e(3).exp().unwrap();
         let mut changed = e.coeffs().to_vec();
         changed[2] = &changed[2] + &l(1).pow(2);
-        let b = analyse_e(&Series::new(changed), &logs).unwrap().broken.unwrap();
+        let b = analyse_e(&Series::new(changed), &logs)
+            .unwrap()
+            .broken
+            .unwrap();
         assert_eq!(b.order, 2);
         assert!(b.high_degree.is_zero());
-        let symmetric = (&(&l(1).pow(2) + &l(2).pow(2)) + &l(3).pow(2)).scale(&Rational::from((1, 3)));
+        let symmetric =
+            (&(&l(1).pow(2) + &l(2).pow(2)) + &l(3).pow(2)).scale(&Rational::from((1, 3)));
         assert_eq!(b.asymmetric, &l(1).pow(2) - &symmetric);
     }
 
@@ -731,7 +830,10 @@ mod tests {
     fn linear_symmetric_part_is_read_not_hidden() {
         let logs = OriginLogs::three();
         let sum = &(&l(1) + &l(2)) + &l(3);
-        let ln = Series::new(vec![Exact::zero(), &one_loop_limit(&logs) + &sum.scale(&Rational::from(2))]);
+        let ln = Series::new(vec![
+            Exact::zero(),
+            &one_loop_limit(&logs) + &sum.scale(&Rational::from(2)),
+        ]);
         let a = analyse_e(&ln.exp().unwrap(), &logs).unwrap();
         assert_eq!(a.orders[0].linear, Exact::from(2));
     }
@@ -741,7 +843,10 @@ mod tests {
 
     impl Lcg {
         fn next(&mut self, n: u64) -> u64 {
-            self.0 = self.0.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            self.0 = self
+                .0
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
             (self.0 >> 33) % n
         }
         fn rational(&mut self) -> Rational {
@@ -758,7 +863,9 @@ mod tests {
                 let mono = Monomial::from_parts(
                     0,
                     vec![],
-                    (1..=3).map(|i| (format!("l{i}").into(), rng.next(2 * k as u64 + 1) as u32)).collect(),
+                    (1..=3)
+                        .map(|i| (format!("l{i}").into(), rng.next(2 * k as u64 + 1) as u32))
+                        .collect(),
                 );
                 let t = &transcendentals[rng.next(5) as usize];
                 c = &c + &t.mul_monomial(&mono, &rng.rational());
@@ -787,7 +894,11 @@ mod tests {
     fn on_the_line_only_the_octagon_is_read() {
         let line = OriginLogs::line();
         let on_line = |s: &Series| {
-            s.map(|c| c.substitute("l1", &Exact::symbol("l")).substitute("l2", &Exact::symbol("l")).substitute("l3", &Exact::symbol("l")))
+            s.map(|c| {
+                c.substitute("l1", &Exact::symbol("l"))
+                    .substitute("l2", &Exact::symbol("l"))
+                    .substitute("l3", &Exact::symbol("l"))
+            })
         };
         let a = analyse_r6(&on_line(&two_loop_r6()), &cusp(2), &line).unwrap();
         let p = predicted_log_coefficients(2).unwrap();
@@ -795,13 +906,19 @@ mod tests {
             assert_eq!(r.hexagon, HexagonSlot::NotTestableOnLine);
             assert_eq!(r.octagon, *p.octagon.coeff(r.order));
         }
-        assert_eq!(a.orders[1].constant, zeta(4).scale(&Rational::from((77, 4))));
+        assert_eq!(
+            a.orders[1].constant,
+            zeta(4).scale(&Rational::from((77, 4)))
+        );
         let e = on_line(&predicted_ln_e(4)).exp().unwrap();
         let a = analyse_e(&e, &line).unwrap();
         assert!(a.broken.is_none());
         assert_eq!(a.orders.len(), 4);
         let p = predicted_log_coefficients(4).unwrap();
-        assert!(a.orders.iter().all(|r| r.octagon == *p.octagon.coeff(r.order)));
+        assert!(a
+            .orders
+            .iter()
+            .all(|r| r.octagon == *p.octagon.coeff(r.order)));
     }
 
     /// Three loops: Gamma_oct = (2/pi^2) ln cosh(2 pi g) with ln cosh y =
@@ -811,25 +928,44 @@ mod tests {
     #[test]
     fn three_loop_predictions_against_closed_forms() {
         let p = predicted_log_coefficients(3).unwrap();
-        assert_eq!(p.octagon.coeff(3), &Exact::pi().pow(4).scale(&Rational::from((-128, 45 * 24))));
-        assert_eq!(p.octagon.coeff(3), &zeta(4).scale(&Rational::from((-256, 24))));
-        assert_eq!(p.hexagon.coeff(3), &zeta(4).scale(&Rational::from((-34, 24))));
+        assert_eq!(
+            p.octagon.coeff(3),
+            &Exact::pi().pow(4).scale(&Rational::from((-128, 45 * 24)))
+        );
+        assert_eq!(
+            p.octagon.coeff(3),
+            &zeta(4).scale(&Rational::from((-256, 24)))
+        );
+        assert_eq!(
+            p.hexagon.coeff(3),
+            &zeta(4).scale(&Rational::from((-34, 24)))
+        );
     }
 
     #[test]
     fn bad_input_is_refused() {
         assert!(OriginLogs::from_symbols(&["a".into(), "b".into()]).is_err());
         assert!(OriginLogs::from_symbols(&["a".into(), "a".into(), "b".into()]).is_err());
-        assert_eq!(OriginLogs::from_symbols(&["l".into()]).unwrap(), OriginLogs::line());
+        assert_eq!(
+            OriginLogs::from_symbols(&["l".into()]).unwrap(),
+            OriginLogs::line()
+        );
         let e = Series::new(vec![Exact::from(2), l(1)]);
         assert!(analyse_e(&e, &OriginLogs::three()).is_err());
         let e = Series::new(vec![Exact::one(), Exact::symbol("x")]);
-        assert!(analyse_e(&e, &OriginLogs::three()).unwrap_err().message().contains("'x'"));
+        assert!(analyse_e(&e, &OriginLogs::three())
+            .unwrap_err()
+            .message()
+            .contains("'x'"));
         assert!(r6_to_e(&two_loop_r6(), &cusp(1), &OriginLogs::three()).is_err());
         // Powers whose products would not fit the dense keys are refused, not wrapped.
         let big = Series::new(vec![Exact::one(), Exact::symbol("l1").pow(40_000)]);
         assert_eq!(ln_e(&big, &OriginLogs::three()).unwrap(), big.ln().unwrap());
-        let twice = Series::new(vec![Exact::one(), Exact::symbol("l1").pow(40_000), Exact::zero()]);
+        let twice = Series::new(vec![
+            Exact::one(),
+            Exact::symbol("l1").pow(40_000),
+            Exact::zero(),
+        ]);
         assert!(ln_e(&twice, &OriginLogs::three()).is_err());
     }
 }

@@ -53,7 +53,12 @@ pub fn read_origin_file(path: &std::path::Path) -> Result<OriginData> {
 /// The line (from 1) where a top-level key is written, for messages about
 /// keys whose value the series-file reader does not locate.
 fn key_line(text: &str, key: &str) -> Option<usize> {
-    text.lines().position(|l| l.strip_prefix(key).is_some_and(|rest| rest.trim_start().starts_with(':'))).map(|i| i + 1)
+    text.lines()
+        .position(|l| {
+            l.strip_prefix(key)
+                .is_some_and(|rest| rest.trim_start().starts_with(':'))
+        })
+        .map(|i| i + 1)
 }
 
 /// Checks an origin file given as text; `origin` names it in messages.
@@ -65,10 +70,11 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
              or `normalisation: R6` (the remainder function)"
         ))
     })?;
-    let logs = OriginLogs::from_symbols(&file.symbols).map_err(|e| match key_line(text, "symbols") {
-        Some(line) => e.context(format!("line {line} of {origin}")),
-        None => e.context(origin),
-    })?;
+    let logs =
+        OriginLogs::from_symbols(&file.symbols).map_err(|e| match key_line(text, "symbols") {
+            Some(line) => e.context(format!("line {line} of {origin}")),
+            None => e.context(origin),
+        })?;
     let mut coeffs = vec![Exact::zero(); highest(&file) as usize + 1];
     let mut numeric = Vec::new();
     for entry in &file.orders {
@@ -85,8 +91,14 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
         }
     }
     // R6 vanishes at one loop by definition, so an R6 file may start at two.
-    let first = if normalisation == Normalisation::R6 { 2 } else { 1 };
-    if let Some(missing) = (first..coeffs.len()).find(|&k| !file.orders.iter().any(|o| o.loop_order as usize == k)) {
+    let first = if normalisation == Normalisation::R6 {
+        2
+    } else {
+        1
+    };
+    if let Some(missing) =
+        (first..coeffs.len()).find(|&k| !file.orders.iter().any(|o| o.loop_order as usize == k))
+    {
         return Err(Error::input(format!(
             "{origin}: loop order {missing} is missing; the logarithm of the series needs every order up to the highest ({})",
             coeffs.len() - 1
@@ -98,7 +110,13 @@ pub fn parse_origin_text(text: &str, origin: &str) -> Result<OriginData> {
         c[0] = Exact::one();
         series = Series::new(c);
     }
-    Ok(OriginData { file, logs, normalisation, series, numeric })
+    Ok(OriginData {
+        file,
+        logs,
+        normalisation,
+        series,
+        numeric,
+    })
 }
 
 /// The text of an entry to be read numerically: an `exact` coefficient with
@@ -148,7 +166,10 @@ impl Reading {
     fn negated(&self) -> Reading {
         match self {
             Reading::Exact(x) => Reading::Exact(-x),
-            Reading::Number(a) => Reading::Number(Approx { value: rug::Float::with_val(a.value.prec(), -&a.value), ..a.clone() }),
+            Reading::Number(a) => Reading::Number(Approx {
+                value: rug::Float::with_val(a.value.prec(), -&a.value),
+                ..a.clone()
+            }),
         }
     }
 
@@ -173,9 +194,15 @@ impl Judged {
         let verdict = match (&supplied, &predicted) {
             (_, None) => Verdict::NotPredicted,
             (Reading::Exact(x), Some(p)) => judge(&Supplied::Exact(x.clone()), p, digits)?,
-            (Reading::Number(a), Some(p)) => judge_numbers(a, &p.evaluate(working_bits(digits))?, None, digits),
+            (Reading::Number(a), Some(p)) => {
+                judge_numbers(a, &p.evaluate(working_bits(digits))?, None, digits)
+            }
         };
-        Ok(Judged { supplied, predicted, verdict })
+        Ok(Judged {
+            supplied,
+            predicted,
+            verdict,
+        })
     }
 }
 
@@ -221,7 +248,11 @@ pub struct OriginRow {
 
 impl OriginRow {
     fn verdicts(&self) -> Vec<&Verdict> {
-        let mut v = vec![&self.octagon.verdict, &self.linear.verdict, &self.constant.verdict];
+        let mut v = vec![
+            &self.octagon.verdict,
+            &self.linear.verdict,
+            &self.constant.verdict,
+        ];
         if let HexagonCell::Judged(h) = &self.hexagon {
             v.push(&h.verdict);
         }
@@ -268,8 +299,11 @@ impl OriginCheck {
 
     /// "orders 1-4 agree, order 5 breaks exponentiation, orders 6-7 not examined".
     pub fn summary(&self) -> String {
-        let mut classes: Vec<(u32, &'static str)> =
-            self.rows.iter().map(|r| (r.loop_order, if r.differs() { "differ" } else { "agree" })).collect();
+        let mut classes: Vec<(u32, &'static str)> = self
+            .rows
+            .iter()
+            .map(|r| (r.loop_order, if r.differs() { "differ" } else { "agree" }))
+            .collect();
         if let Some(b) = &self.broken {
             classes.push((b.order() as u32, "break exponentiation"));
             classes.extend((b.order() as u32 + 1..=self.highest).map(|l| (l, "not examined")));
@@ -342,7 +376,10 @@ impl Variant {
 
     /// The file's coefficients as a series in g^2, read this way.
     fn series(&self, data: &OriginData) -> Series {
-        let s = data.series.in_coupling(data.file.coupling).from_coupling(self.coupling);
+        let s = data
+            .series
+            .in_coupling(data.file.coupling)
+            .from_coupling(self.coupling);
         if self.negates_data(data.normalisation) {
             -&s
         } else {
@@ -387,7 +424,11 @@ fn exact_readings(data: &OriginData, v: Variant, cusp: Option<&Series>) -> Resul
 fn numeric_series(data: &OriginData, v: Variant, prec: u32) -> Result<Vec<NumPoly>> {
     let file = &data.file;
     let series = v.series(data);
-    let sign = if v.negates_data(data.normalisation) { -1 } else { 1 };
+    let sign = if v.negates_data(data.normalisation) {
+        -1
+    } else {
+        1
+    };
     let mut out = Vec::with_capacity(series.order() + 1);
     for (k, exact) in series.coeffs().iter().enumerate() {
         let entry = file.orders.iter().find(|o| o.loop_order as usize == k);
@@ -396,14 +437,21 @@ fn numeric_series(data: &OriginData, v: Variant, prec: u32) -> Result<Vec<NumPol
                 let p = originnum::read_polynomial(located, &file.origin, &data.logs, prec)?;
                 p.scale(&(to_g2(k, v.coupling).evaluate(prec)? * sign))
             }
-            None => NumPoly::from_exact(exact, &data.logs, prec).map_err(|e| e.context(&file.origin))?,
+            None => {
+                NumPoly::from_exact(exact, &data.logs, prec).map_err(|e| e.context(&file.origin))?
+            }
         };
         out.push(poly);
     }
     Ok(out)
 }
 
-fn numeric_readings(data: &OriginData, v: Variant, cusp: Option<&Series>, digits: u32) -> Result<Readings> {
+fn numeric_readings(
+    data: &OriginData,
+    v: Variant,
+    cusp: Option<&Series>,
+    digits: u32,
+) -> Result<Readings> {
     let prec = working_bits(digits);
     let series = numeric_series(data, v, prec)?;
     let analysis = match cusp {
@@ -417,16 +465,31 @@ fn numeric_readings(data: &OriginData, v: Variant, cusp: Option<&Series>, digits
     for r in &analysis.orders {
         let f = back(r.order)?;
         let at = |a: &Approx| Reading::Number(originnum::scaled(a, &f));
-        orders.push((r.order, at(&r.octagon), r.hexagon.as_ref().map(at), at(&r.linear), at(&r.constant)));
+        orders.push((
+            r.order,
+            at(&r.octagon),
+            r.hexagon.as_ref().map(at),
+            at(&r.linear),
+            at(&r.constant),
+        ));
     }
     let broken = match analysis.broken {
         None => None,
         Some(b) => {
             let f = back(b.order)?;
             let terms = |ts: &[NumTerm]| -> Vec<NumTerm> {
-                ts.iter().map(|t| NumTerm { exponents: t.exponents, coefficient: originnum::scaled(&t.coefficient, &f) }).collect()
+                ts.iter()
+                    .map(|t| NumTerm {
+                        exponents: t.exponents,
+                        coefficient: originnum::scaled(&t.coefficient, &f),
+                    })
+                    .collect()
             };
-            Some(Broken::Numeric(NumBreakdown { order: b.order, high_degree: terms(&b.high_degree), asymmetric: terms(&b.asymmetric) }))
+            Some(Broken::Numeric(NumBreakdown {
+                order: b.order,
+                high_degree: terms(&b.high_degree),
+                asymmetric: terms(&b.asymmetric),
+            }))
         }
     };
     Ok(Readings { orders, broken })
@@ -456,16 +519,31 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
                     file.origin
                 )));
             }
-            Some(kernel::gamma(&kernel::Tilt::cos2(rug::Rational::from((1, 2)))?, reach, &mut |_, _| {})?)
+            Some(kernel::gamma(
+                &kernel::Tilt::cos2(rug::Rational::from((1, 2)))?,
+                reach,
+                &mut |_, _| {},
+            )?)
         }
     };
     let predicted = origin::predicted_log_coefficients(reach)?;
     let formula = match Quantity::from_file(file, catalogue)? {
         None => None,
-        Some(quantity) => Some((quantity.definition.trim().to_string(), quantity.expand(reach, &mut |_, _, _| {})?)),
+        Some(quantity) => Some((
+            quantity.definition.trim().to_string(),
+            quantity.expand(reach, &mut |_, _, _| {})?,
+        )),
     };
-    let predictions = Predictions { cusp, octagon: predicted.octagon, hexagon: predicted.hexagon, formula };
-    let declared = Variant { coupling: file.coupling, negated: false };
+    let predictions = Predictions {
+        cusp,
+        octagon: predicted.octagon,
+        hexagon: predicted.hexagon,
+        formula,
+    };
+    let declared = Variant {
+        coupling: file.coupling,
+        negated: false,
+    };
     let (rows, broken) = judged_rows(data, declared, &predictions, digits)?;
     let mut check = OriginCheck {
         file: file.origin.clone(),
@@ -490,7 +568,12 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
 }
 
 /// The rows and the break of the file read as `v` says.
-fn judged_rows(data: &OriginData, v: Variant, p: &Predictions, digits: u32) -> Result<(Vec<OriginRow>, Option<Broken>)> {
+fn judged_rows(
+    data: &OriginData,
+    v: Variant,
+    p: &Predictions,
+    digits: u32,
+) -> Result<(Vec<OriginRow>, Option<Broken>)> {
     let mut readings = if data.numeric.is_empty() {
         exact_readings(data, v, p.cusp.as_ref())?
     } else {
@@ -500,7 +583,10 @@ fn judged_rows(data: &OriginData, v: Variant, p: &Predictions, digits: u32) -> R
     // exponentiation breaks does not change.
     if v.negated && !v.negates_data(data.normalisation) {
         for (_, octagon, hexagon, linear, constant) in &mut readings.orders {
-            for r in [octagon, linear, constant].into_iter().chain(hexagon.as_mut()) {
+            for r in [octagon, linear, constant]
+                .into_iter()
+                .chain(hexagon.as_mut())
+            {
                 *r = r.negated();
             }
         }
@@ -543,11 +629,16 @@ fn diagnose(data: &OriginData, p: &Predictions, digits: u32) -> Vec<String> {
     for coupling in Coupling::ALL {
         for negated in [false, true] {
             let v = Variant { coupling, negated };
-            if v == (Variant { coupling: declared, negated: false }) {
+            if v == (Variant {
+                coupling: declared,
+                negated: false,
+            }) {
                 continue;
             }
             // A reading that fails under a hypothesis only rules the hypothesis out.
-            let Ok((rows, None)) = judged_rows(data, v, p, digits) else { continue };
+            let Ok((rows, None)) = judged_rows(data, v, p, digits) else {
+                continue;
+            };
             if rows.is_empty() || rows.iter().any(OriginRow::differs) {
                 continue;
             }
@@ -568,7 +659,9 @@ fn diagnose(data: &OriginData, p: &Predictions, digits: u32) -> Vec<String> {
             }
             let mut text = parts.join("; and ");
             if data.file.orders.len() == 1 {
-                text.push_str(" (this rests on one order only; more orders would confirm or rule it out)");
+                text.push_str(
+                    " (this rests on one order only; more orders would confirm or rule it out)",
+                );
             }
             out.push(text);
         }
@@ -600,7 +693,13 @@ pub fn fit_target(file: &SeriesFile) -> Result<Vec<(u32, Exact)>> {
         let k = entry.loop_order as usize;
         let mut coeffs = vec![Exact::zero(); k + 1];
         coeffs[k] = x;
-        out.push((entry.loop_order, Series::new(coeffs).from_coupling(file.coupling).coeff(k).clone()));
+        out.push((
+            entry.loop_order,
+            Series::new(coeffs)
+                .from_coupling(file.coupling)
+                .coeff(k)
+                .clone(),
+        ));
     }
     Ok(out)
 }
@@ -614,9 +713,11 @@ fn refuse_numbers(file: &SeriesFile, entry: &OrderEntry, located: &Located) -> E
             Node::Decimal { .. } | Node::Catalan | Node::Log(_) => Some(e.span),
             Node::Zeta(args) if args.len() > 1 => Some(e.span),
             Node::Neg(a) => first_inexact(a),
-            Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
-                first_inexact(a).or_else(|| first_inexact(b))
-            }
+            Node::Add(a, b)
+            | Node::Sub(a, b)
+            | Node::Mul(a, b)
+            | Node::Div(a, b)
+            | Node::Pow(a, b) => first_inexact(a).or_else(|| first_inexact(b)),
             _ => None,
         }
     }
@@ -643,19 +744,30 @@ pub fn parse_basis(text: &str) -> Result<Vec<BasisElement>> {
                 && name.chars().all(|c| c.is_ascii_alphanumeric() || c == '_')
         });
         let element = match named {
-            Some((name, formula)) if !formula.trim().is_empty() => {
-                BasisElement { name: name.trim().to_string(), formula: formula.trim().to_string() }
+            Some((name, formula)) if !formula.trim().is_empty() => BasisElement {
+                name: name.trim().to_string(),
+                formula: formula.trim().to_string(),
+            },
+            Some((name, _)) => {
+                return Err(Error::input(format!(
+                    "basis element `{}` has no formula after `=`",
+                    name.trim()
+                )))
             }
-            Some((name, _)) => return Err(Error::input(format!("basis element `{}` has no formula after `=`", name.trim()))),
             None => BasisElement::new(item),
         };
         if out.iter().any(|e| e.name == element.name) {
-            return Err(Error::input(format!("basis element `{}` is given twice", element.name)));
+            return Err(Error::input(format!(
+                "basis element `{}` is given twice",
+                element.name
+            )));
         }
         out.push(element);
     }
     if out.is_empty() {
-        return Err(Error::input("--basis lists no elements; write e.g. \"A=Gamma(pi/4); B=zeta(2)*Gamma(0)\""));
+        return Err(Error::input(
+            "--basis lists no elements; write e.g. \"A=Gamma(pi/4); B=zeta(2)*Gamma(0)\"",
+        ));
     }
     Ok(out)
 }
@@ -674,7 +786,10 @@ pub struct FitReport {
 
 impl FitReport {
     fn formula_of<'a>(&'a self, name: &'a str) -> &'a str {
-        self.elements.iter().find(|e| e.name == name).map_or(name, |e| e.formula.as_str())
+        self.elements
+            .iter()
+            .find(|e| e.name == name)
+            .map_or(name, |e| e.formula.as_str())
     }
 
     /// sum_k a_k B_k as a formula the coefficient language reads back.
@@ -696,9 +811,16 @@ impl FitReport {
 }
 
 /// Runs the fit of a file's coefficients.
-pub fn fit_file(file: &SeriesFile, elements: Vec<BasisElement>, ceiling: u32, catalogue: &crate::catalogue::Catalogue) -> Result<FitReport> {
+pub fn fit_file(
+    file: &SeriesFile,
+    elements: Vec<BasisElement>,
+    ceiling: u32,
+    catalogue: &crate::catalogue::Catalogue,
+) -> Result<FitReport> {
     if ceiling == 0 || ceiling > MAX_LOOPS {
-        return Err(Error::range(format!("--ceiling {ceiling} is out of range: 1 to {MAX_LOOPS} loops")));
+        return Err(Error::range(format!(
+            "--ceiling {ceiling} is out of range: 1 to {MAX_LOOPS} loops"
+        )));
     }
     let target = fit_target(file)?;
     if let Some((l, _)) = target.iter().find(|(l, _)| *l > MAX_LOOPS) {
@@ -707,7 +829,8 @@ pub fn fit_file(file: &SeriesFile, elements: Vec<BasisElement>, ceiling: u32, ca
             file.origin
         )));
     }
-    let fit = fit::fit(&target, &elements, ceiling, catalogue).map_err(|e| e.context(&file.origin))?;
+    let fit =
+        fit::fit(&target, &elements, ceiling, catalogue).map_err(|e| e.context(&file.origin))?;
     Ok(FitReport {
         file: file.origin.clone(),
         coupling: file.coupling,
@@ -745,7 +868,11 @@ fn combination(coefficients: &[rug::Rational], factors: &[&str]) -> String {
         if *a == 0 {
             continue;
         }
-        let f = if needs_parentheses(f) { format!("({})", f.trim()) } else { f.trim().to_string() };
+        let f = if needs_parentheses(f) {
+            format!("({})", f.trim())
+        } else {
+            f.trim().to_string()
+        };
         let abs = rug::Rational::from(a.abs_ref());
         let sign = if *a < 0 { "-" } else { "+" };
         if out.is_empty() {
@@ -775,7 +902,13 @@ mod tests {
     #[test]
     fn basis_items_with_and_without_names() {
         let b = parse_basis("A = Gamma(pi/4); Gamma(c2=1/2) ; zeta(2)*Delta(0)").unwrap();
-        assert_eq!(b[0], BasisElement { name: "A".into(), formula: "Gamma(pi/4)".into() });
+        assert_eq!(
+            b[0],
+            BasisElement {
+                name: "A".into(),
+                formula: "Gamma(pi/4)".into()
+            }
+        );
         assert_eq!(b[1], BasisElement::new("Gamma(c2=1/2)"));
         assert_eq!(b[2], BasisElement::new("zeta(2)*Delta(0)"));
         assert!(parse_basis(" ; ").is_err());
@@ -787,17 +920,31 @@ mod tests {
     fn combinations_read_back_as_formulas() {
         let q = |n: i64, d: i64| rug::Rational::from((n, d));
         assert_eq!(
-            combination(&[q(-1, 2), q(0, 1), q(1, 1), q(3, 4)], &["zeta(2)*Gamma(pi/4)", "Gamma(0)", "Delta(pi/3)", "Gamma(0) - Delta(0)"]),
+            combination(
+                &[q(-1, 2), q(0, 1), q(1, 1), q(3, 4)],
+                &[
+                    "zeta(2)*Gamma(pi/4)",
+                    "Gamma(0)",
+                    "Delta(pi/3)",
+                    "Gamma(0) - Delta(0)"
+                ]
+            ),
             "-1/2*zeta(2)*Gamma(pi/4) + Delta(pi/3) + 3/4*(Gamma(0) - Delta(0))"
         );
         assert_eq!(combination(&[q(2, 1)], &["-Gamma(0)"]), "2*(-Gamma(0))");
-        assert_eq!(combination(&[q(2, 1)], &["g^-2*Gamma(0)"]), "2*g^-2*Gamma(0)");
+        assert_eq!(
+            combination(&[q(2, 1)], &["g^-2*Gamma(0)"]),
+            "2*g^-2*Gamma(0)"
+        );
         assert_eq!(combination(&[q(0, 1)], &["Gamma(0)"]), "0");
     }
 
     #[test]
     fn key_lines() {
-        assert_eq!(key_line("coupling: g2\nsymbols : [a]\n", "symbols"), Some(2));
+        assert_eq!(
+            key_line("coupling: g2\nsymbols : [a]\n", "symbols"),
+            Some(2)
+        );
         assert_eq!(key_line("symbolsx: 1\n", "symbols"), None);
     }
 }

@@ -49,9 +49,11 @@ fn sum(x: &Approx, y: &Approx) -> Approx {
 }
 
 fn negated(x: &Approx) -> Approx {
-    Approx { value: Float::with_val(x.value.prec(), -&x.value), ..x.clone() }
+    Approx {
+        value: Float::with_val(x.value.prec(), -&x.value),
+        ..x.clone()
+    }
 }
-
 
 /// `x` times an exact number.
 pub fn scaled(x: &Approx, factor: &Float) -> Approx {
@@ -68,9 +70,14 @@ fn quotient(x: &Approx, y: &Approx) -> Approx {
     let p = x.value.prec().max(y.value.prec());
     let value = Float::with_val(p, &x.value / &y.value);
     let ay = Float::with_val(p, y.value.abs_ref());
-    let spread = Float::with_val(p, &x.uncertainty * &ay) + Float::with_val(p, x.value.abs_ref()) * &y.uncertainty;
+    let spread = Float::with_val(p, &x.uncertainty * &ay)
+        + Float::with_val(p, x.value.abs_ref()) * &y.uncertainty;
     let denominator = Float::with_val(p, &ay * &ay) - Float::with_val(p, &ay * &y.uncertainty);
-    Approx { value, uncertainty: spread / denominator, stated: x.stated || y.stated }
+    Approx {
+        value,
+        uncertainty: spread / denominator,
+        stated: x.stated || y.stated,
+    }
 }
 
 /// A polynomial in the logs with numerical coefficients.
@@ -82,7 +89,10 @@ pub struct NumPoly {
 
 impl NumPoly {
     pub fn zero(prec: u32) -> Self {
-        NumPoly { prec, terms: BTreeMap::new() }
+        NumPoly {
+            prec,
+            terms: BTreeMap::new(),
+        }
     }
 
     pub fn constant(c: Approx) -> Self {
@@ -93,7 +103,10 @@ impl NumPoly {
 
     /// The coefficient of one monomial; zero (exactly) when absent.
     pub fn coefficient(&self, e: Exponents) -> Approx {
-        self.terms.get(&e).cloned().unwrap_or_else(|| zero(self.prec))
+        self.terms
+            .get(&e)
+            .cloned()
+            .unwrap_or_else(|| zero(self.prec))
     }
 
     pub fn terms(&self) -> impl Iterator<Item = (&Exponents, &Approx)> {
@@ -117,15 +130,32 @@ impl NumPoly {
     }
 
     pub fn neg(&self) -> NumPoly {
-        NumPoly { prec: self.prec, terms: self.terms.iter().map(|(e, c)| (*e, negated(c))).collect() }
+        NumPoly {
+            prec: self.prec,
+            terms: self.terms.iter().map(|(e, c)| (*e, negated(c))).collect(),
+        }
     }
 
     pub fn scale(&self, factor: &Float) -> NumPoly {
-        NumPoly { prec: self.prec, terms: self.terms.iter().map(|(e, c)| (*e, scaled(c, factor))).collect() }
+        NumPoly {
+            prec: self.prec,
+            terms: self
+                .terms
+                .iter()
+                .map(|(e, c)| (*e, scaled(c, factor)))
+                .collect(),
+        }
     }
 
     fn divide(&self, d: &Approx) -> NumPoly {
-        NumPoly { prec: self.prec, terms: self.terms.iter().map(|(e, c)| (*e, quotient(c, d))).collect() }
+        NumPoly {
+            prec: self.prec,
+            terms: self
+                .terms
+                .iter()
+                .map(|(e, c)| (*e, quotient(c, d)))
+                .collect(),
+        }
     }
 
     pub fn mul(&self, other: &NumPoly) -> Result<NumPoly> {
@@ -136,7 +166,9 @@ impl NumPoly {
                 for i in 0..3 {
                     e[i] = ea[i] + eb[i];
                     if e[i] > MAX_POWER {
-                        return Err(Error::range(format!("a power of a log above {MAX_POWER} in a numerical origin coefficient")));
+                        return Err(Error::range(format!(
+                            "a power of a log above {MAX_POWER} in a numerical origin coefficient"
+                        )));
                     }
                 }
                 out.add_term(e, &product(ca, cb));
@@ -163,7 +195,10 @@ impl NumPoly {
             let mut e = [0u32; 3];
             for (name, power) in syms.symbols() {
                 let slot = names.iter().position(|n| **n == **name).ok_or_else(|| {
-                    Error::input(format!("'{name}' in an origin coefficient is not one of the logs ({})", names.join(", ")))
+                    Error::input(format!(
+                        "'{name}' in an origin coefficient is not one of the logs ({})",
+                        names.join(", ")
+                    ))
                 })?;
                 e[slot] = *power;
             }
@@ -176,8 +211,19 @@ impl NumPoly {
 
 /// Reads a coefficient written with numbers as a polynomial in the logs, at
 /// `prec` bits; errors name file, line and column.
-pub fn read_polynomial(located: &Located, origin: &str, logs: &OriginLogs, prec: u32) -> Result<NumPoly> {
-    Reader { located, origin, logs, prec }.poly(&located.expr)
+pub fn read_polynomial(
+    located: &Located,
+    origin: &str,
+    logs: &OriginLogs,
+    prec: u32,
+) -> Result<NumPoly> {
+    Reader {
+        located,
+        origin,
+        logs,
+        prec,
+    }
+    .poly(&located.expr)
 }
 
 struct Reader<'a> {
@@ -213,7 +259,13 @@ impl Reader<'_> {
             Node::Symbol(name) => {
                 let names = self.logs.names();
                 let slot = names.iter().position(|n| n == name).ok_or_else(|| {
-                    self.fail(e.span, &format!("the symbol `{name}` is not one of the logs ({})", names.join(", ")))
+                    self.fail(
+                        e.span,
+                        &format!(
+                            "the symbol `{name}` is not one of the logs ({})",
+                            names.join(", ")
+                        ),
+                    )
                 })?;
                 let mut exps = [0; 3];
                 exps[slot] = 1;
@@ -227,26 +279,37 @@ impl Reader<'_> {
             Node::Mul(a, b) => self.poly(a)?.mul(&self.poly(b)?),
             Node::Div(a, b) => {
                 if has_symbol(b) {
-                    return Err(self.fail(b.span, "an origin coefficient is a polynomial in the logs: divide by numbers only"));
+                    return Err(self.fail(
+                        b.span,
+                        "an origin coefficient is a polynomial in the logs: divide by numbers only",
+                    ));
                 }
                 let d = self.number(b)?;
                 if Float::with_val(self.prec, d.value.abs_ref()) <= d.uncertainty {
-                    return Err(self.fail(b.span, "division by a number that is zero within its uncertainty"));
+                    return Err(self.fail(
+                        b.span,
+                        "division by a number that is zero within its uncertainty",
+                    ));
                 }
                 Ok(self.poly(a)?.divide(&d))
             }
             Node::Pow(a, b) => {
-                let k = if has_symbol(b) { None } else { Some(self.number(b)?) };
+                let k = if has_symbol(b) {
+                    None
+                } else {
+                    Some(self.number(b)?)
+                };
                 let k = k
                     .filter(|k| k.is_exact() && k.value.is_integer() && k.value >= 0 && k.value <= MAX_POWER)
                     .and_then(|k| k.value.to_integer())
                     .and_then(|k| k.to_u32())
-                    .ok_or_else(|| {
-                        self.fail(b.span, "a power of the logs takes a whole exponent from 0 up (a polynomial in the logs)")
-                    })?;
+                    .ok_or_else(|| self.fail(b.span, "a power of the logs takes a whole exponent from 0 up (a polynomial in the logs)"))?;
                 self.poly(a)?.pow(k)
             }
-            _ => Err(self.fail(e.span, "an origin coefficient is a polynomial in the logs; this is not one")),
+            _ => Err(self.fail(
+                e.span,
+                "an origin coefficient is a polynomial in the logs; this is not one",
+            )),
         }
     }
 }
@@ -291,9 +354,12 @@ pub struct NumAnalysis {
 /// `digits` sets the working precision of the verdicts on vanishing terms.
 pub fn analyse_e(e: &[NumPoly], logs: &OriginLogs, digits: u32) -> Result<NumAnalysis> {
     let one = e.first().map(|c| c.coefficient([0, 0, 0]));
-    let is_one = e.first().is_some_and(|c| c.terms.len() == 1) && one.is_some_and(|c| c.is_exact() && c.value == 1);
+    let is_one = e.first().is_some_and(|c| c.terms.len() == 1)
+        && one.is_some_and(|c| c.is_exact() && c.value == 1);
     if !is_one {
-        return Err(Error::input("a series of E must start with exactly 1 at g^0"));
+        return Err(Error::input(
+            "a series of E must start with exactly 1 at g^0",
+        ));
     }
     let mut ln: Vec<NumPoly> = vec![NumPoly::zero(e[0].prec)];
     let mut orders = Vec::new();
@@ -302,11 +368,21 @@ pub fn analyse_e(e: &[NumPoly], logs: &OriginLogs, digits: u32) -> Result<NumAna
         let (reading, breakdown) = examine(k, &acc, logs, digits);
         ln.push(acc);
         match breakdown {
-            Some(b) => return Ok(NumAnalysis { ln_e: ln, orders, broken: Some(b) }),
+            Some(b) => {
+                return Ok(NumAnalysis {
+                    ln_e: ln,
+                    orders,
+                    broken: Some(b),
+                })
+            }
             None => orders.extend(reading),
         }
     }
-    Ok(NumAnalysis { ln_e: ln, orders, broken: None })
+    Ok(NumAnalysis {
+        ln_e: ln,
+        orders,
+        broken: None,
+    })
 }
 
 /// Order k of ln E from the orders below it: with L = ln E, E' = E L' gives
@@ -314,7 +390,10 @@ pub fn analyse_e(e: &[NumPoly], logs: &OriginLogs, digits: u32) -> Result<NumAna
 fn ln_order(ln: &[NumPoly], e: &[NumPoly], k: usize) -> Result<NumPoly> {
     let mut acc = e[k].clone();
     for j in 1..k {
-        let term = ln[j].mul(&e[k - j])?.scale(&Float::with_val(e[k].prec, Rational::from((j as i64, k as i64))));
+        let term = ln[j].mul(&e[k - j])?.scale(&Float::with_val(
+            e[k].prec,
+            Rational::from((j as i64, k as i64)),
+        ));
         acc = acc.add(&term.neg());
     }
     Ok(acc)
@@ -322,7 +401,12 @@ fn ln_order(ln: &[NumPoly], e: &[NumPoly], k: usize) -> Result<NumPoly> {
 
 /// Reads a series of R6 with numerical coefficients: ln E = R6 +
 /// Gamma_cusp/4 E^(1) directly, as [`crate::origin::analyse_r6`] does.
-pub fn analyse_r6(r6: &[NumPoly], gamma_cusp: &Series, logs: &OriginLogs, digits: u32) -> Result<NumAnalysis> {
+pub fn analyse_r6(
+    r6: &[NumPoly],
+    gamma_cusp: &Series,
+    logs: &OriginLogs,
+    digits: u32,
+) -> Result<NumAnalysis> {
     let top = r6.len().saturating_sub(1);
     if gamma_cusp.order() < top {
         return Err(Error::range(format!(
@@ -341,14 +425,31 @@ pub fn analyse_r6(r6: &[NumPoly], gamma_cusp: &Series, logs: &OriginLogs, digits
         let (reading, breakdown) = examine(k, &l, logs, digits);
         ln.push(l);
         match breakdown {
-            Some(b) => return Ok(NumAnalysis { ln_e: ln, orders, broken: Some(b) }),
+            Some(b) => {
+                return Ok(NumAnalysis {
+                    ln_e: ln,
+                    orders,
+                    broken: Some(b),
+                })
+            }
             None => orders.extend(reading),
         }
     }
-    Ok(NumAnalysis { ln_e: ln, orders, broken: None })
+    Ok(NumAnalysis {
+        ln_e: ln,
+        orders,
+        broken: None,
+    })
 }
 
-const PERMS: [[usize; 3]; 6] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
+const PERMS: [[usize; 3]; 6] = [
+    [0, 1, 2],
+    [0, 2, 1],
+    [1, 0, 2],
+    [1, 2, 0],
+    [2, 0, 1],
+    [2, 1, 0],
+];
 
 fn permuted(e: Exponents, perm: [usize; 3]) -> Exponents {
     [e[perm[0]], e[perm[1]], e[perm[2]]]
@@ -359,26 +460,50 @@ fn permuted(e: Exponents, perm: [usize; 3]) -> Exponents {
 fn orbit_mean(c: &NumPoly, e: Exponents) -> Approx {
     let orbit: BTreeSet<Exponents> = PERMS.iter().map(|&p| permuted(e, p)).collect();
     let n = Float::with_val(c.prec, orbit.len() as u32);
-    let total = orbit.iter().fold(zero(c.prec), |acc, &m| sum(&acc, &c.coefficient(m)));
-    Approx { value: Float::with_val(c.prec, &total.value / &n), uncertainty: Float::with_val(c.prec, &total.uncertainty / &n), ..total }
+    let total = orbit
+        .iter()
+        .fold(zero(c.prec), |acc, &m| sum(&acc, &c.coefficient(m)));
+    Approx {
+        value: Float::with_val(c.prec, &total.value / &n),
+        uncertainty: Float::with_val(c.prec, &total.uncertainty / &n),
+        ..total
+    }
 }
 
 /// The exponentiation check and the readings of one order of ln E.
-fn examine(k: usize, c: &NumPoly, logs: &OriginLogs, digits: u32) -> (Option<NumReading>, Option<NumBreakdown>) {
+fn examine(
+    k: usize,
+    c: &NumPoly,
+    logs: &OriginLogs,
+    digits: u32,
+) -> (Option<NumReading>, Option<NumBreakdown>) {
     let nought = Float::with_val(c.prec, 0);
     let nonzero = |a: &Approx| judge_numbers(a, &nought, None, digits).differs();
     let high_degree: Vec<NumTerm> = c
         .terms
         .iter()
         .filter(|(e, a)| e.iter().sum::<u32>() > 2 && nonzero(a))
-        .map(|(e, a)| NumTerm { exponents: *e, coefficient: a.clone() })
+        .map(|(e, a)| NumTerm {
+            exponents: *e,
+            coefficient: a.clone(),
+        })
         .collect();
     let asymmetric = match logs {
-        OriginLogs::Three(_) => asymmetric_part(c).into_iter().filter(|t| nonzero(&t.coefficient)).collect(),
+        OriginLogs::Three(_) => asymmetric_part(c)
+            .into_iter()
+            .filter(|t| nonzero(&t.coefficient))
+            .collect(),
         OriginLogs::Line(_) => Vec::new(),
     };
     if !high_degree.is_empty() || !asymmetric.is_empty() {
-        return (None, Some(NumBreakdown { order: k, high_degree, asymmetric }));
+        return (
+            None,
+            Some(NumBreakdown {
+                order: k,
+                high_degree,
+                asymmetric,
+            }),
+        );
     }
     let constant = c.coefficient([0, 0, 0]);
     let third = Float::with_val(c.prec, Rational::from((1, 3)));
@@ -401,7 +526,10 @@ fn examine(k: usize, c: &NumPoly, logs: &OriginLogs, digits: u32) -> (Option<Num
         // On the line (sum l)^2 = 9 l^2 and l1 + l2 + l3 = 3 l.
         OriginLogs::Line(_) => NumReading {
             order: k,
-            octagon: scaled(&c.coefficient([2, 0, 0]), &Float::with_val(c.prec, Rational::from((1, 9)))),
+            octagon: scaled(
+                &c.coefficient([2, 0, 0]),
+                &Float::with_val(c.prec, Rational::from((1, 9))),
+            ),
             hexagon: None,
             linear: scaled(&c.coefficient([1, 0, 0]), &third),
             constant,
@@ -433,7 +561,10 @@ fn asymmetric_part(c: &NumPoly) -> Vec<NumTerm> {
         }
         let part = scaled(&acc, &sixth);
         if !(part.value.is_zero() && part.uncertainty.is_zero()) {
-            out.push(NumTerm { exponents: e, coefficient: part });
+            out.push(NumTerm {
+                exponents: e,
+                coefficient: part,
+            });
         }
     }
     out
@@ -446,7 +577,13 @@ pub fn monomial_text(e: Exponents, logs: &OriginLogs) -> String {
         .iter()
         .zip(&names)
         .filter(|(p, _)| **p > 0)
-        .map(|(p, n)| if *p == 1 { n.to_string() } else { format!("{n}^{p}") })
+        .map(|(p, n)| {
+            if *p == 1 {
+                n.to_string()
+            } else {
+                format!("{n}^{p}")
+            }
+        })
         .collect();
     if parts.is_empty() {
         "1".to_string()
@@ -479,7 +616,10 @@ pub fn written(a: &Approx, digits: u32) -> String {
         // Rounded up, less a relative 10^-12 so that the binary image of a
         // written `(13)` does not come out as 14.
         let slack = Rational::from((999_999_999_999u64, 1_000_000_000_000u64));
-        let ud = (Rational::from(&u / &unit) * slack).ceil().into_numer_denom().0;
+        let ud = (Rational::from(&u / &unit) * slack)
+            .ceil()
+            .into_numer_denom()
+            .0;
         if ud < 100 {
             break (n, ud);
         }
@@ -502,7 +642,11 @@ pub fn written(a: &Approx, digits: u32) -> String {
     }
     let padded = format!("{:0>w$}", digits_n, w = width as usize);
     let (first, rest) = padded.split_at(1);
-    let point = if rest.is_empty() { String::new() } else { format!(".{rest}") };
+    let point = if rest.is_empty() {
+        String::new()
+    } else {
+        format!(".{rest}")
+    };
     format!("{sign}{first}{point}({ud})e{exponent}")
 }
 
@@ -523,7 +667,11 @@ mod tests {
     const PREC: u32 = 200;
 
     fn num(text: &str) -> Approx {
-        numeric::evaluate(&parse(text, "<test>", None).unwrap(), &mut Context::new(PREC)).unwrap()
+        numeric::evaluate(
+            &parse(text, "<test>", None).unwrap(),
+            &mut Context::new(PREC),
+        )
+        .unwrap()
     }
 
     fn located(text: &str) -> Located {
@@ -554,9 +702,18 @@ mod tests {
     #[test]
     fn polynomials_propagate_first_order_worst_case() {
         let logs = OriginLogs::three();
-        let p = read_polynomial(&located("(1.5(1)*l1 + 2)*(l1 - 0.5(2))"), "<test>", &logs, PREC).unwrap();
+        let p = read_polynomial(
+            &located("(1.5(1)*l1 + 2)*(l1 - 0.5(2))"),
+            "<test>",
+            &logs,
+            PREC,
+        )
+        .unwrap();
         let c = p.coefficient([1, 0, 0]);
-        assert!(close(&c.value, 1.25, 1e-15) && close(&c.uncertainty, 0.37, 1e-15), "{c:?}");
+        assert!(
+            close(&c.value, 1.25, 1e-15) && close(&c.uncertainty, 0.37, 1e-15),
+            "{c:?}"
+        );
         let c = p.coefficient([0, 0, 0]);
         assert!(close(&c.value, -1.0, 1e-15) && close(&c.uncertainty, 0.4, 1e-15) && c.stated);
         let c = p.coefficient([2, 0, 0]);
@@ -564,7 +721,10 @@ mod tests {
         assert!(read_polynomial(&located("1.5/l1"), "<test>", &logs, PREC).is_err());
         assert!(read_polynomial(&located("l1^0.5"), "<test>", &logs, PREC).is_err());
         assert!(read_polynomial(&located("log(l1)*1.0"), "<test>", &logs, PREC).is_err());
-        assert!(read_polynomial(&located("x*1.0"), "<test>", &logs, PREC).unwrap_err().message().contains("`x`"));
+        assert!(read_polynomial(&located("x*1.0"), "<test>", &logs, PREC)
+            .unwrap_err()
+            .message()
+            .contains("`x`"));
     }
 
     /// The numerical logarithm of an exact series agrees with the ring's
@@ -578,22 +738,39 @@ mod tests {
         let e2 = &(&l(1).pow(3) * &z(3)) + &l(3).pow(2);
         let e3 = &(&l(2) * &z(5)) + &Exact::from(Rational::from((7, 2)));
         let e = Series::new(vec![Exact::one(), e1, e2, e3]);
-        let nums: Vec<NumPoly> = e.coeffs().iter().map(|c| NumPoly::from_exact(c, &logs, PREC).unwrap()).collect();
+        let nums: Vec<NumPoly> = e
+            .coeffs()
+            .iter()
+            .map(|c| NumPoly::from_exact(c, &logs, PREC).unwrap())
+            .collect();
         let a = analyse_e(&nums, &logs, 30).unwrap();
-        let b = a.broken.expect("the asymmetric l1 l2 term breaks at order 1");
+        let b = a
+            .broken
+            .expect("the asymmetric l1 l2 term breaks at order 1");
         assert_eq!(b.order, 1);
         let exact_ln = e.ln().unwrap();
         let k = 1;
         let want = NumPoly::from_exact(exact_ln.coeff(k), &logs, PREC).unwrap();
         for (m, c) in want.terms() {
             let got = a.ln_e[k].coefficient(*m);
-            assert!(Float::with_val(PREC, &got.value - &c.value).abs() < 1e-50, "{m:?}");
+            assert!(
+                Float::with_val(PREC, &got.value - &c.value).abs() < 1e-50,
+                "{m:?}"
+            );
         }
         // Order 3 through the recursion on the line, where nothing is asymmetric.
         let line = OriginLogs::line();
-        let on_line = |x: &Exact| x.substitute("l1", &Exact::symbol("l")).substitute("l2", &Exact::symbol("l")).substitute("l3", &Exact::symbol("l"));
+        let on_line = |x: &Exact| {
+            x.substitute("l1", &Exact::symbol("l"))
+                .substitute("l2", &Exact::symbol("l"))
+                .substitute("l3", &Exact::symbol("l"))
+        };
         let e = e.map(on_line);
-        let nums: Vec<NumPoly> = e.coeffs().iter().map(|c| NumPoly::from_exact(c, &line, PREC).unwrap()).collect();
+        let nums: Vec<NumPoly> = e
+            .coeffs()
+            .iter()
+            .map(|c| NumPoly::from_exact(c, &line, PREC).unwrap())
+            .collect();
         let mut ln = vec![NumPoly::zero(PREC)];
         for k in 1..=3 {
             ln.push(ln_order(&ln, &nums, k).unwrap());
@@ -603,7 +780,10 @@ mod tests {
             let want = NumPoly::from_exact(exact_ln.coeff(k), &line, PREC).unwrap();
             for (m, c) in want.terms() {
                 let got = computed.coefficient(*m);
-                assert!(Float::with_val(PREC, &got.value - &c.value).abs() < 1e-50, "order {k} {m:?}");
+                assert!(
+                    Float::with_val(PREC, &got.value - &c.value).abs() < 1e-50,
+                    "order {k} {m:?}"
+                );
             }
         }
     }
@@ -611,13 +791,32 @@ mod tests {
     #[test]
     fn asymmetric_part_within_uncertainty_is_not_a_break() {
         let logs = OriginLogs::three();
-        let p = read_polynomial(&located("1.00(1)*l1^2 + 1.01(1)*l2^2 + 1.00(1)*l3^2"), "<test>", &logs, PREC).unwrap();
+        let p = read_polynomial(
+            &located("1.00(1)*l1^2 + 1.01(1)*l2^2 + 1.00(1)*l3^2"),
+            "<test>",
+            &logs,
+            PREC,
+        )
+        .unwrap();
         assert!(examine(1, &p, &logs, 30).1.is_none());
-        let p = read_polynomial(&located("1.00(1)*l1^2 + 1.10(1)*l2^2 + 1.00(1)*l3^2"), "<test>", &logs, PREC).unwrap();
+        let p = read_polynomial(
+            &located("1.00(1)*l1^2 + 1.10(1)*l2^2 + 1.00(1)*l3^2"),
+            "<test>",
+            &logs,
+            PREC,
+        )
+        .unwrap();
         let b = examine(1, &p, &logs, 30).1.unwrap();
         assert!(b.high_degree.is_empty());
         // At l2^2: (1/6)(4 (1.10 - 1.00)) = 0.0667 with (1/6)(4 * 0.02) = 0.0133.
-        let t = b.asymmetric.iter().find(|t| t.exponents == [0, 2, 0]).unwrap();
-        assert!(close(&t.coefficient.value, 0.4 / 6.0, 1e-12) && close(&t.coefficient.uncertainty, 0.08 / 6.0, 1e-12));
+        let t = b
+            .asymmetric
+            .iter()
+            .find(|t| t.exponents == [0, 2, 0])
+            .unwrap();
+        assert!(
+            close(&t.coefficient.value, 0.4 / 6.0, 1e-12)
+                && close(&t.coefficient.uncertainty, 0.08 / 6.0, 1e-12)
+        );
     }
 }

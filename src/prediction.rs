@@ -13,11 +13,11 @@ use crate::catalogue::{looks_like_name, Catalogue, Entry, Status};
 use crate::coupling::Coupling;
 use crate::error::{Error, Result};
 use crate::expr::{self, Angle, Expr, FunctionalKind, Node, Site, Span};
-use crate::seriesfile::SeriesFile;
-use crate::suggest::did_you_mean;
 use crate::kernel::{self, Functional, Tilt};
 use crate::ring::{Exact, Monomial};
 use crate::series::Series;
+use crate::seriesfile::SeriesFile;
+use crate::suggest::did_you_mean;
 
 /// The name of the coupling in formulas.
 pub const COUPLING: &str = "g";
@@ -67,7 +67,10 @@ impl Quantity {
         if let Some(entry) = catalogue.get_in_formula(trimmed) {
             return Quantity::from_entry(entry, catalogue);
         }
-        if looks_like_name(trimmed) && trimmed != COUPLING && !scope.local.iter().any(|(n, _)| n == trimmed) {
+        if looks_like_name(trimmed)
+            && trimmed != COUPLING
+            && !scope.local.iter().any(|(n, _)| n == trimmed)
+        {
             catalogue.lookup(trimmed)?;
         }
         let origin = "<quantity>";
@@ -94,11 +97,16 @@ impl Quantity {
     /// that may use the catalogue and the file's declared symbols. Errors
     /// point at the file's own line.
     pub fn from_file(file: &SeriesFile, catalogue: &Catalogue) -> Result<Option<Quantity>> {
-        let Some(located) = &file.prediction else { return Ok(None) };
+        let Some(located) = &file.prediction else {
+            return Ok(None);
+        };
         if let Some(name) = file.catalogue_name() {
             if !file.symbols.iter().any(|s| s == name) {
                 let lead = located.text.len() - located.text.trim_start().len();
-                let span = Span { start: lead, end: lead + name.len() };
+                let span = Span {
+                    start: lead,
+                    end: lead + name.len(),
+                };
                 let entry = catalogue
                     .get_in_formula(name)
                     .map_or_else(|| catalogue.lookup(name), Ok)
@@ -107,10 +115,23 @@ impl Quantity {
             }
         }
         let masked = catalogue.mask_hyphens(&located.text);
-        let expr = expr::parse_unrendered(&masked).map_err(|f| located.error_at(&file.origin, f.span, &f.message))?;
+        let expr = expr::parse_unrendered(&masked)
+            .map_err(|f| located.error_at(&file.origin, f.span, &f.message))?;
         let fail = |span: Span, message: &str| located.error_at(&file.origin, span, message);
-        let scope = Scope { symbols: &file.symbols, local: &[] };
-        Quantity::formula(&located.text, expr, &file.origin, Some(located.site.clone()), catalogue, scope, &fail).map(Some)
+        let scope = Scope {
+            symbols: &file.symbols,
+            local: &[],
+        };
+        Quantity::formula(
+            &located.text,
+            expr,
+            &file.origin,
+            Some(located.site.clone()),
+            catalogue,
+            scope,
+            &fail,
+        )
+        .map(Some)
     }
 
     fn formula(
@@ -126,18 +147,42 @@ impl Quantity {
         let expr = resolver.walk(expr, &mut Vec::new(), fail)?;
         let label = text.trim().to_string();
         let entry = composite_entry(&label, &resolver.used);
-        Ok(Quantity { label, definition: text.to_string(), entry, expr, origin: origin.to_string(), site })
+        Ok(Quantity {
+            label,
+            definition: text.to_string(),
+            entry,
+            expr,
+            origin: origin.to_string(),
+            site,
+        })
     }
 
     /// The exact series through g^(2 loops).
-    pub fn expand(&self, loops: u32, progress: &mut dyn FnMut(&str, usize, usize)) -> Result<Series> {
-        let mut ev = Expander { source: &self.definition, origin: &self.origin, site: self.site.as_ref(), loops, cache: HashMap::new(), progress };
+    pub fn expand(
+        &self,
+        loops: u32,
+        progress: &mut dyn FnMut(&str, usize, usize),
+    ) -> Result<Series> {
+        let mut ev = Expander {
+            source: &self.definition,
+            origin: &self.origin,
+            site: self.site.as_ref(),
+            loops,
+            cache: HashMap::new(),
+            progress,
+        };
         ev.series(&self.expr)
     }
 
     /// Renders an evaluation failure at its span in the formula.
     pub fn error_at(&self, span: Span, message: &str) -> Error {
-        expr::error_at(&self.definition, &self.origin, self.site.as_ref(), span, message)
+        expr::error_at(
+            &self.definition,
+            &self.origin,
+            self.site.as_ref(),
+            span,
+            message,
+        )
     }
 }
 
@@ -146,7 +191,11 @@ impl Quantity {
 /// is one) and their references. None when the formula uses no entry.
 fn composite_entry(label: &str, used: &[Entry]) -> Option<Entry> {
     let first = used.first()?;
-    let conjectures: Vec<&str> = used.iter().filter(|e| e.status == Status::Conjecture).map(|e| e.name.as_str()).collect();
+    let conjectures: Vec<&str> = used
+        .iter()
+        .filter(|e| e.status == Status::Conjecture)
+        .map(|e| e.name.as_str())
+        .collect();
     let names: Vec<&str> = used.iter().map(|e| e.name.as_str()).collect();
     let mut references: Vec<String> = Vec::new();
     for r in used.iter().flat_map(|e| e.references.iter()) {
@@ -157,14 +206,26 @@ fn composite_entry(label: &str, used: &[Entry]) -> Option<Entry> {
     let note = if conjectures.is_empty() {
         format!("Built from {}.", names.join(", "))
     } else {
-        format!("Built from {}; {} rests on a conjecture of the literature.", names.join(", "), conjectures.join(", "))
+        format!(
+            "Built from {}; {} rests on a conjecture of the literature.",
+            names.join(", "),
+            conjectures.join(", ")
+        )
     };
     Some(Entry {
         name: label.to_string(),
         summary: format!("formula in the catalogue quantities {}", names.join(", ")),
         definition: label.to_string(),
-        coupling: if used.iter().all(|e| e.coupling == first.coupling) { first.coupling } else { Coupling::G2 },
-        status: if conjectures.is_empty() { Status::Established } else { Status::Conjecture },
+        coupling: if used.iter().all(|e| e.coupling == first.coupling) {
+            first.coupling
+        } else {
+            Coupling::G2
+        },
+        status: if conjectures.is_empty() {
+            Status::Established
+        } else {
+            Status::Conjecture
+        },
         note: Some(note),
         references,
         closed_form: None,
@@ -184,7 +245,11 @@ struct Resolver<'a> {
 
 impl<'a> Resolver<'a> {
     fn new(catalogue: &'a Catalogue, scope: Scope<'a>) -> Self {
-        Resolver { catalogue, scope, used: Vec::new() }
+        Resolver {
+            catalogue,
+            scope,
+            used: Vec::new(),
+        }
     }
 
     /// The parsed and resolved definition of an entry; `trail` holds the
@@ -203,7 +268,9 @@ impl<'a> Resolver<'a> {
         trail.push(entry.name.clone());
         // Inside a definition only the catalogue and the coupling count.
         let outer = std::mem::take(&mut self.scope);
-        let fail = |span: Span, message: &str| expr::error_at(&entry.definition, &origin, None, span, message);
+        let fail = |span: Span, message: &str| {
+            expr::error_at(&entry.definition, &origin, None, span, message)
+        };
         let resolved = self.walk(parsed, trail, &fail);
         self.scope = outer;
         trail.pop();
@@ -212,7 +279,12 @@ impl<'a> Resolver<'a> {
 
     /// Replaces every name in the tree; a replacement is already resolved,
     /// so visiting its parts afterwards changes nothing.
-    fn walk(&mut self, mut e: Expr, trail: &mut Vec<String>, fail: &dyn Fn(Span, &str) -> Error) -> Result<Expr> {
+    fn walk(
+        &mut self,
+        mut e: Expr,
+        trail: &mut Vec<String>,
+        fail: &dyn Fn(Span, &str) -> Error,
+    ) -> Result<Expr> {
         let mut failure = None;
         expr::for_each_node_mut(&mut e, &mut |node| {
             if let (None, Node::Symbol(name)) = (&failure, &node.node) {
@@ -225,9 +297,18 @@ impl<'a> Resolver<'a> {
         failure.map_or(Ok(e), Err)
     }
 
-    fn name(&mut self, name: String, span: Span, trail: &mut Vec<String>, fail: &dyn Fn(Span, &str) -> Error) -> Result<Expr> {
+    fn name(
+        &mut self,
+        name: String,
+        span: Span,
+        trail: &mut Vec<String>,
+        fail: &dyn Fn(Span, &str) -> Error,
+    ) -> Result<Expr> {
         if name == COUPLING || self.scope.symbols.contains(&name) {
-            return Ok(Expr { node: Node::Symbol(name), span });
+            return Ok(Expr {
+                node: Node::Symbol(name),
+                span,
+            });
         }
         if let Some((_, e)) = self.scope.local.iter().find(|(n, _)| *n == name) {
             return Ok(respan(e.clone(), span));
@@ -251,10 +332,7 @@ impl<'a> Resolver<'a> {
         };
         Err(fail(
             span,
-            &format!(
-                "unknown name `{name}`: not a catalogue quantity{declared}{}; `loopwise list` shows the catalogue",
-                did_you_mean(&name, known)
-            ),
+            &format!("unknown name `{name}`: not a catalogue quantity{declared}{}; `loopwise list` shows the catalogue", did_you_mean(&name, known)),
         ))
     }
 }
@@ -290,18 +368,12 @@ impl Expander<'_> {
         Ok(match &e.node {
             Node::Integer(i) => self.constant(Exact::from(Rational::from(i))),
             Node::Decimal { text, .. } => {
-                return Err(self.fail(e.span, &format!(
-                    "the decimal {text} is not exact; write it as a fraction in an exact prediction"
-                )))
+                return Err(self.fail(e.span, &format!("the decimal {text} is not exact; write it as a fraction in an exact prediction")))
             }
             Node::Pi => self.constant(Exact::pi()),
             Node::Catalan => return Err(self.fail(e.span, "Catalan's constant is not in the exact ring of predictions")),
-            Node::Zeta(args) if args.len() == 1 => {
-                self.constant(Exact::zeta(args[0]).map_err(|err| self.fail(e.span, err.message()))?)
-            }
-            Node::Zeta(_) => {
-                return Err(self.fail(e.span, "multiple zeta values are not in the exact ring of predictions"))
-            }
+            Node::Zeta(args) if args.len() == 1 => self.constant(Exact::zeta(args[0]).map_err(|err| self.fail(e.span, err.message()))?),
+            Node::Zeta(_) => return Err(self.fail(e.span, "multiple zeta values are not in the exact ring of predictions")),
             Node::Log(_) => return Err(self.fail(e.span, "logarithms are not in the exact ring of predictions")),
             Node::Symbol(name) if name == COUPLING => {
                 return Err(self.fail(e.span, "the coupling enters as even powers g^2, g^4, ...: these expansions have no odd powers of g"))
@@ -331,9 +403,7 @@ impl Expander<'_> {
                     }
                     let mut s = Series::zero(n);
                     if (k / 2) as usize <= n {
-                        s = &s + &Series::new(
-                            (0..=n).map(|i| if i == (k / 2) as usize { Exact::one() } else { Exact::zero() }).collect(),
-                        );
+                        s = &s + &Series::new((0..=n).map(|i| if i == (k / 2) as usize { Exact::one() } else { Exact::zero() }).collect());
                     }
                     s
                 } else {
@@ -381,7 +451,9 @@ impl Expander<'_> {
         }
         let label = format!("{}({})", f.name(), tilt.label());
         let progress = &mut *self.progress;
-        let s = kernel::expand(f, &tilt, self.loops, &mut |done, total| progress(&label, done, total))?;
+        let s = kernel::expand(f, &tilt, self.loops, &mut |done, total| {
+            progress(&label, done, total)
+        })?;
         self.cache.insert((f, tilt), s.clone());
         Ok(s)
     }
@@ -401,7 +473,12 @@ impl Expander<'_> {
     /// A subexpression that must be a plain rational number.
     fn rational_constant(&self, e: &Expr) -> Result<Rational> {
         let c = self.constant_value(e)?;
-        c.as_rational().ok_or_else(|| self.fail(e.span, &format!("expected a rational number here, found {c}")))
+        c.as_rational().ok_or_else(|| {
+            self.fail(
+                e.span,
+                &format!("expected a rational number here, found {c}"),
+            )
+        })
     }
 
     /// A subexpression without the coupling or functionals, as a ring element.
@@ -449,7 +526,11 @@ impl Expander<'_> {
 }
 
 fn contains_functional_or_coupling(e: &Expr) -> bool {
-    expr::find(e, &mut |x| matches!(&x.node, Node::Functional { .. }) || matches!(&x.node, Node::Symbol(s) if s == COUPLING)).is_some()
+    expr::find(e, &mut |x| {
+        matches!(&x.node, Node::Functional { .. })
+            || matches!(&x.node, Node::Symbol(s) if s == COUPLING)
+    })
+    .is_some()
 }
 
 #[cfg(test)]

@@ -72,7 +72,14 @@ pub const MAX_FILE_BYTES: usize = 16 << 20;
 /// Highest loop order a file may give.
 pub const MAX_LOOP: u32 = 200;
 
-const TOP_KEYS: [&str; 6] = ["prediction", "coupling", "normalisation", "symbols", "about", "orders"];
+const TOP_KEYS: [&str; 6] = [
+    "prediction",
+    "coupling",
+    "normalisation",
+    "symbols",
+    "about",
+    "orders",
+];
 const ORDER_KEYS: [&str; 5] = ["loop", "exact", "value", "uncertainty", "label"];
 
 /// The contents of one series file, checked.
@@ -132,12 +139,22 @@ impl Located {
     /// Wraps a text that stands on its own (an argument, a test), as if it
     /// were a one-line file.
     pub fn standalone(text: &str, expr: Expr) -> Located {
-        Located { text: text.to_string(), expr, line: 1, column: 1, site: Site { file: Arc::from(text), start: 0 } }
+        Located {
+            text: text.to_string(),
+            expr,
+            line: 1,
+            column: 1,
+            site: Site {
+                file: Arc::from(text),
+                start: 0,
+            },
+        }
     }
 
     /// An error at a span of this expression, shown on the file's own line.
     pub fn error_at(&self, origin: &str, span: expr::Span, message: &str) -> Error {
-        self.site.render(ErrorKind::Input, &self.text, origin, span, message)
+        self.site
+            .render(ErrorKind::Input, &self.text, origin, span, message)
     }
 }
 
@@ -177,17 +194,28 @@ pub fn read_input(path: &Path) -> Result<(String, String)> {
         (bytes, STDIN_NAME.to_string())
     } else {
         let origin = path.display().to_string();
-        let meta = std::fs::metadata(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
+        let meta =
+            std::fs::metadata(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?;
         if meta.len() > MAX_FILE_BYTES as u64 {
-            return Err(Error::input(format!("{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?")));
+            return Err(Error::input(format!(
+                "{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?"
+            )));
         }
-        (std::fs::read(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?, origin)
+        (
+            std::fs::read(path).map_err(|e| Error::io(format!("cannot read {origin}: {e}")))?,
+            origin,
+        )
     };
     if bytes.len() > MAX_FILE_BYTES {
-        return Err(Error::input(format!("{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?")));
+        return Err(Error::input(format!(
+            "{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?"
+        )));
     }
     let text = String::from_utf8(bytes).map_err(|e| {
-        Error::input(format!("{origin} is not UTF-8 text (bad byte at offset {})", e.utf8_error().valid_up_to()))
+        Error::input(format!(
+            "{origin} is not UTF-8 text (bad byte at offset {})",
+            e.utf8_error().valid_up_to()
+        ))
     })?;
     Ok((text, origin))
 }
@@ -195,9 +223,14 @@ pub fn read_input(path: &Path) -> Result<(String, String)> {
 /// Checks a series file given as text; `origin` names it in messages.
 pub fn parse_series_text(text: &str, origin: &str) -> Result<SeriesFile> {
     if text.len() > MAX_FILE_BYTES {
-        return Err(Error::input(format!("{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?")));
+        return Err(Error::input(format!(
+            "{origin} is larger than {MAX_FILE_BYTES} bytes; is it really a series file?"
+        )));
     }
-    if text.lines().all(|l| l.trim().is_empty() || l.trim_start().starts_with('#')) {
+    if text
+        .lines()
+        .all(|l| l.trim().is_empty() || l.trim_start().starts_with('#'))
+    {
         return Err(Error::input(format!(
             "{origin} is empty; a series file needs at least `coupling` and `orders`"
         )));
@@ -206,8 +239,14 @@ pub fn parse_series_text(text: &str, origin: &str) -> Result<SeriesFile> {
     // is not part of the YAML, and left in it hides the real content.
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     check_depth(text, origin)?;
-    let raw: RawFile<'_> = serde_yaml::from_str(text).map_err(|e| Error::input(format!("{origin}: {e}")))?;
-    Reader { text, origin, file: Arc::from(text) }.check(raw)
+    let raw: RawFile<'_> =
+        serde_yaml::from_str(text).map_err(|e| Error::input(format!("{origin}: {e}")))?;
+    Reader {
+        text,
+        origin,
+        file: Arc::from(text),
+    }
+    .check(raw)
 }
 
 /// Deepest nesting of YAML collections accepted. A series file needs three
@@ -244,7 +283,11 @@ pub(crate) fn check_depth(text: &str, origin: &str) -> Result<()> {
                 Some(_) => {}
                 // A quote opens a quoted scalar only where a token starts;
                 // elsewhere (`group's`) it is part of plain text.
-                None if (c == '"' || c == '\'') && (previous.is_whitespace() || "[{,:".contains(previous)) => quote = Some(c),
+                None if (c == '"' || c == '\'')
+                    && (previous.is_whitespace() || "[{,:".contains(previous)) =>
+                {
+                    quote = Some(c)
+                }
                 None if c == '#' && previous.is_whitespace() => break,
                 None if c == '[' || c == '{' => {
                     flow += 1;
@@ -301,7 +344,10 @@ impl<'de> Deserialize<'de> for Tok<'de> {
             fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
                 f.write_str("a single value (text or a number)")
             }
-            fn visit_borrowed_str<E: de::Error>(self, v: &'de str) -> std::result::Result<Tok<'de>, E> {
+            fn visit_borrowed_str<E: de::Error>(
+                self,
+                v: &'de str,
+            ) -> std::result::Result<Tok<'de>, E> {
                 Ok(Tok::Lent(v))
             }
             fn visit_str<E: de::Error>(self, v: &str) -> std::result::Result<Tok<'de>, E> {
@@ -342,11 +388,16 @@ impl<'de> Deserialize<'de> for RawFile<'de> {
             fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
                 f.write_str("a series file: keys such as `coupling:` and `orders:`")
             }
-            fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> std::result::Result<RawFile<'de>, A::Error> {
+            fn visit_map<A: MapAccess<'de>>(
+                self,
+                mut map: A,
+            ) -> std::result::Result<RawFile<'de>, A::Error> {
                 let mut fields = Vec::new();
                 while let Some(key) = map.next_key::<Tok<'de>>()? {
                     let field = match key.text() {
-                        "prediction" | "coupling" | "normalisation" => RawField::Scalar(map.next_value()?),
+                        "prediction" | "coupling" | "normalisation" => {
+                            RawField::Scalar(map.next_value()?)
+                        }
                         "symbols" => RawField::Symbols(map.next_value()?),
                         "about" => RawField::About(map.next_value::<AboutMap<'de>>()?.0),
                         "orders" => RawField::Orders(map.next_value()?),
@@ -374,7 +425,10 @@ impl<'de> Deserialize<'de> for AboutMap<'de> {
             fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
                 f.write_str("free-form `key: value` lines")
             }
-            fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> std::result::Result<AboutMap<'de>, A::Error> {
+            fn visit_map<A: MapAccess<'de>>(
+                self,
+                mut map: A,
+            ) -> std::result::Result<AboutMap<'de>, A::Error> {
                 let mut out = Vec::new();
                 while let Some(key) = map.next_key::<Tok<'de>>()? {
                     out.push((key, map.next_value()?));
@@ -394,7 +448,10 @@ impl<'de> Deserialize<'de> for RawOrder<'de> {
             fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
                 f.write_str("an order entry: `loop:` with `exact:` and/or `value:`")
             }
-            fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> std::result::Result<RawOrder<'de>, A::Error> {
+            fn visit_map<A: MapAccess<'de>>(
+                self,
+                mut map: A,
+            ) -> std::result::Result<RawOrder<'de>, A::Error> {
                 let mut fields = Vec::new();
                 while let Some(key) = map.next_key::<Tok<'de>>()? {
                     let value = if ORDER_KEYS.contains(&key.text()) {
@@ -439,7 +496,11 @@ fn suggestion(key: &str, known: &[&str]) -> String {
         Some((d, k)) if d <= 2.max(k.len() / 3) => format!("; did you mean `{k}`?"),
         _ => format!(
             "; the keys here are {}",
-            known.iter().map(|k| format!("`{k}`")).collect::<Vec<_>>().join(", ")
+            known
+                .iter()
+                .map(|k| format!("`{k}`"))
+                .collect::<Vec<_>>()
+                .join(", ")
         ),
     }
 }
@@ -502,7 +563,9 @@ impl<'a> Reader<'a> {
             .map_err(|f| self.error_in_file(ErrorKind::Parse, start, &text, f.span, &f.message))?;
         if let Names::Coefficient(symbols) = names {
             self.check_symbols(start, &text, &expr, symbols)?;
-            if let Some(functional) = expr::find(&expr, &mut |x| matches!(x.node, Node::Functional { .. })) {
+            if let Some(functional) =
+                expr::find(&expr, &mut |x| matches!(x.node, Node::Functional { .. }))
+            {
                 let span = functional.span;
                 return Err(self.error_in_file(
                     ErrorKind::Input,
@@ -514,18 +577,44 @@ impl<'a> Reader<'a> {
                 ));
             }
         }
-        Ok(Located { text, expr, line, column, site: Site { file: self.file.clone(), start } })
+        Ok(Located {
+            text,
+            expr,
+            line,
+            column,
+            site: Site {
+                file: self.file.clone(),
+                start,
+            },
+        })
     }
 
     /// Renders an error at a span of a value's text, shown on the line of
     /// the file where that text sits.
-    fn error_in_file(&self, kind: ErrorKind, start: usize, text: &str, span: Span, message: &str) -> Error {
-        Site { file: self.file.clone(), start }.render(kind, text, self.origin, span, message)
+    fn error_in_file(
+        &self,
+        kind: ErrorKind,
+        start: usize,
+        text: &str,
+        span: Span,
+        message: &str,
+    ) -> Error {
+        Site {
+            file: self.file.clone(),
+            start,
+        }
+        .render(kind, text, self.origin, span, message)
     }
 
     /// A loop coefficient multiplies a fixed power of the coupling, so it is
     /// a number: it may use the declared kinematic symbols, not `g`.
-    fn check_symbols(&self, start: usize, text: &str, expr: &Expr, symbols: &[String]) -> Result<()> {
+    fn check_symbols(
+        &self,
+        start: usize,
+        text: &str,
+        expr: &Expr,
+        symbols: &[String],
+    ) -> Result<()> {
         let mut bad = None;
         expr::for_each_symbol(expr, &mut |name, span| {
             if bad.is_none() && !symbols.iter().any(|s| s == name) {
@@ -543,11 +632,7 @@ impl<'a> Reader<'a> {
                  the power of the coupling named by `loop` (write the g^2 and g^4 terms as separate orders)",
             )),
             Some((name, span)) => {
-                let declared = if symbols.is_empty() {
-                    "none are declared".to_string()
-                } else {
-                    format!("declared: {}", symbols.join(", "))
-                };
+                let declared = if symbols.is_empty() { "none are declared".to_string() } else { format!("declared: {}", symbols.join(", ")) };
                 Err(self.error_in_file(
                     ErrorKind::Input,
                     start,
@@ -593,12 +678,18 @@ impl<'a> Reader<'a> {
         }
 
         let (ckey, cvalue) = coupling.ok_or_else(|| {
-            Error::input(format!("{}: missing `coupling:` (g2, a or lambda: what one loop order multiplies)", self.origin))
+            Error::input(format!(
+                "{}: missing `coupling:` (g2, a or lambda: what one loop order multiplies)",
+                self.origin
+            ))
         })?;
-        let coupling: Coupling = cvalue
-            .text()
-            .parse()
-            .map_err(|e: Error| Error::input(format!("{} {}", e.message(), self.at(self.position(self.value_offset(ckey, cvalue))))))?;
+        let coupling: Coupling = cvalue.text().parse().map_err(|e: Error| {
+            Error::input(format!(
+                "{} {}",
+                e.message(),
+                self.at(self.position(self.value_offset(ckey, cvalue)))
+            ))
+        })?;
 
         let normalisation = match normalisation {
             None => None,
@@ -632,7 +723,10 @@ impl<'a> Reader<'a> {
                 )));
             }
             if symbols.iter().any(|t| t == name) {
-                return Err(Error::input(format!("symbol `{name}` listed twice ({})", self.at(here))));
+                return Err(Error::input(format!(
+                    "symbol `{name}` listed twice ({})",
+                    self.at(here)
+                )));
             }
             symbols.push(name.to_string());
         }
@@ -642,10 +736,17 @@ impl<'a> Reader<'a> {
             Some((k, v)) => Some(self.expression(k, v, Names::Later)?),
         };
 
-        let (okey, list) = orders_raw
-            .ok_or_else(|| Error::input(format!("{}: missing `orders:` (the list of loop coefficients)", self.origin)))?;
+        let (okey, list) = orders_raw.ok_or_else(|| {
+            Error::input(format!(
+                "{}: missing `orders:` (the list of loop coefficients)",
+                self.origin
+            ))
+        })?;
         if list.is_empty() {
-            return Err(Error::input(format!("`orders` {} has no entries", self.at(self.key_position(okey)))));
+            return Err(Error::input(format!(
+                "`orders` {} has no entries",
+                self.at(self.key_position(okey))
+            )));
         }
         let mut orders: Vec<OrderEntry> = Vec::with_capacity(list.len());
         for (index, raw) in list.iter().enumerate() {
@@ -670,7 +771,13 @@ impl<'a> Reader<'a> {
         })
     }
 
-    fn order(&self, index: usize, okey: &Tok<'_>, raw: &RawOrder<'_>, symbols: &[String]) -> Result<OrderEntry> {
+    fn order(
+        &self,
+        index: usize,
+        okey: &Tok<'_>,
+        raw: &RawOrder<'_>,
+        symbols: &[String],
+    ) -> Result<OrderEntry> {
         let start = match raw.fields.first() {
             Some((k, _)) => self.key_position(k),
             None => self.key_position(okey),
@@ -687,7 +794,11 @@ impl<'a> Reader<'a> {
                 return Err(self.unknown_key(key, &ORDER_KEYS));
             };
             if seen.contains(&key.text()) {
-                return Err(Error::input(format!("key `{}` given twice in {entry_name} of {}", key.text(), self.origin)));
+                return Err(Error::input(format!(
+                    "key `{}` given twice in {entry_name} of {}",
+                    key.text(),
+                    self.origin
+                )));
             }
             seen.push(key.text());
             match key.text() {
@@ -698,7 +809,9 @@ impl<'a> Reader<'a> {
                 _ => label = Some(v.text().to_string()),
             }
         }
-        let (lk, lv) = loop_tok.ok_or_else(|| Error::input(format!("{entry_name} of {} has no `loop:`", self.origin)))?;
+        let (lk, lv) = loop_tok.ok_or_else(|| {
+            Error::input(format!("{entry_name} of {} has no `loop:`", self.origin))
+        })?;
         let loop_at = self.at(self.position(self.value_offset(lk, lv)));
         let loop_text = lv.text().trim();
         let loop_order = match loop_text.parse::<i64>() {
@@ -709,7 +822,9 @@ impl<'a> Reader<'a> {
                 )))
             }
             Err(_) if !loop_text.is_empty() && loop_text.bytes().all(|b| b.is_ascii_digit()) => {
-                return Err(Error::range(format!("loop order {loop_text} {loop_at} is outside 1..{MAX_LOOP}")))
+                return Err(Error::range(format!(
+                    "loop order {loop_text} {loop_at} is outside 1..{MAX_LOOP}"
+                )))
             }
             Err(_) => {
                 return Err(Error::input(format!(
@@ -738,19 +853,35 @@ impl<'a> Reader<'a> {
             }
             (None, None) => None,
         };
-        Ok(OrderEntry { loop_order, exact, value, label, line: start.0 })
+        Ok(OrderEntry {
+            loop_order,
+            exact,
+            value,
+            label,
+            line: start.0,
+        })
     }
 
     /// `value: -1240.9` with `uncertainty: 0.2` becomes the literal
     /// `-1240.9 ± 0.2`.
-    fn value_with_uncertainty(&self, k: &Tok<'_>, v: &Tok<'_>, uk: &Tok<'_>, uv: &Tok<'_>) -> Result<Located> {
+    fn value_with_uncertainty(
+        &self,
+        k: &Tok<'_>,
+        v: &Tok<'_>,
+        uk: &Tok<'_>,
+        uv: &Tok<'_>,
+    ) -> Result<Located> {
         let mut located = self.expression(k, v, Names::Coefficient(&[]))?;
         let u = self.expression(uk, uv, Names::Coefficient(&[]))?;
         let (uline, ucolumn) = (u.line, u.column);
         let u = u.expr;
         let u_value = match u.node {
             Node::Integer(n) => rug::Rational::from(n),
-            Node::Decimal { value, uncertainty: None, .. } => value,
+            Node::Decimal {
+                value,
+                uncertainty: None,
+                ..
+            } => value,
             _ => {
                 return Err(Error::input(format!(
                     "`uncertainty` {} must be a plain non-negative number",
@@ -813,7 +944,10 @@ impl<'a> Reader<'a> {
 /// The literal text of a negated integer given with a separate uncertainty:
 /// the sign belongs to the enclosing node, not the literal.
 fn combined_literal(combined: &str) -> String {
-    combined.trim_start_matches(['-', '+']).trim_start().to_string()
+    combined
+        .trim_start_matches(['-', '+'])
+        .trim_start()
+        .to_string()
 }
 
 fn flatten(prefix: &str, value: &serde_yaml::Value, out: &mut Vec<(String, String)>) {
@@ -853,8 +987,14 @@ mod tests {
     #[test]
     fn suggestions_pick_the_nearest_key() {
         assert_eq!(suggestion("exat", &ORDER_KEYS), "; did you mean `exact`?");
-        assert_eq!(suggestion("normalization", &TOP_KEYS), "; did you mean `normalisation`?");
-        assert_eq!(suggestion("Coupling", &TOP_KEYS), "; did you mean `coupling`?");
+        assert_eq!(
+            suggestion("normalization", &TOP_KEYS),
+            "; did you mean `normalisation`?"
+        );
+        assert_eq!(
+            suggestion("Coupling", &TOP_KEYS),
+            "; did you mean `coupling`?"
+        );
         assert!(suggestion("zzzzzz", &ORDER_KEYS).starts_with("; the keys here are `loop`"));
     }
 }

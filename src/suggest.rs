@@ -9,7 +9,9 @@ pub fn edit_distance(a: &str, b: &str) -> usize {
         let mut diagonal = row[0];
         row[0] = i + 1;
         for (j, &cb) in b.iter().enumerate() {
-            let next = (row[j + 1] + 1).min(row[j] + 1).min(diagonal + usize::from(ca != cb));
+            let next = (row[j + 1] + 1)
+                .min(row[j] + 1)
+                .min(diagonal + usize::from(ca != cb));
             diagonal = row[j + 1];
             row[j + 1] = next;
         }

@@ -10,7 +10,6 @@ mod common;
 
 use common::{loopwise, loopwise_with_stdin};
 
-
 fn write(name: &str, text: &str) -> PathBuf {
     let dir = std::env::temp_dir().join(format!("loopwise-check-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
@@ -23,7 +22,10 @@ fn check_json(name: &str, text: &str) -> (i32, serde_json::Value) {
     let path = write(name, text);
     let (code, out, err) = loopwise(&["check", path.to_str().unwrap(), "--format", "json"]);
     assert!(code == 0 || code == 1, "{err}");
-    (code, serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}")))
+    (
+        code,
+        serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}")),
+    )
 }
 
 const FOUR: &str = "-876*zeta(6) - 32*zeta(3)^2";
@@ -40,7 +42,16 @@ fn cusp_file(coupling: &str, orders: &[(u32, &str, &str)]) -> String {
 /// The exact four- and five-loop coefficients of hep-th/0610251 agree exactly.
 #[test]
 fn published_cusp_coefficients_agree_exactly() {
-    let text = cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)"), (3, "exact", "88 zeta(4)"), (4, "exact", FOUR), (5, "exact", FIVE)]);
+    let text = cusp_file(
+        "g2",
+        &[
+            (1, "exact", "4"),
+            (2, "exact", "-8 zeta(2)"),
+            (3, "exact", "88 zeta(4)"),
+            (4, "exact", FOUR),
+            (5, "exact", FIVE),
+        ],
+    );
     let (code, v) = check_json("published.yaml", &text);
     assert_eq!(code, 0);
     assert_eq!(v["agrees"], true);
@@ -63,7 +74,10 @@ fn decimal_with_uncertainty_agrees_numerically() {
     assert_eq!(o["digits_agreeing"], 7);
     assert_eq!(v["orders"][0]["verdict"], "not-supplied");
     // The same number off by about 10 sigma differs, in units of the uncertainty.
-    let (code, v) = check_json("numerical-off.yaml", &cusp_file("g2", &[(4, "value", "-937.4286(2)")]));
+    let (code, v) = check_json(
+        "numerical-off.yaml",
+        &cusp_file("g2", &[(4, "value", "-937.4286(2)")]),
+    );
     assert_eq!(code, 1);
     let o = &v["orders"][3];
     assert_eq!(o["verdict"], "differs-numerically");
@@ -77,7 +91,16 @@ fn decimal_with_uncertainty_agrees_numerically() {
 #[test]
 fn wrong_value_differs_with_the_exact_difference() {
     let wrong = FIVE.replace("640", "620");
-    let text = cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-4/3 pi^2"), (3, "exact", "88 zeta(4)"), (4, "exact", FOUR), (5, "exact", &wrong)]);
+    let text = cusp_file(
+        "g2",
+        &[
+            (1, "exact", "4"),
+            (2, "exact", "-4/3 pi^2"),
+            (3, "exact", "88 zeta(4)"),
+            (4, "exact", FOUR),
+            (5, "exact", &wrong),
+        ],
+    );
     let (code, v) = check_json("wrong.yaml", &text);
     assert_eq!(code, 1);
     let o = &v["orders"][4];
@@ -85,38 +108,94 @@ fn wrong_value_differs_with_the_exact_difference() {
     assert_eq!(o["difference"], "-20*zeta(3)*zeta(5)");
     assert_eq!(v["summary"], "orders 1-4 agree, order 5 differs");
     let d = v["diagnoses"][0].as_str().unwrap();
-    assert!(d.contains("order 5") && d.contains("other 4 orders agree"), "{d}");
+    assert!(
+        d.contains("order 5") && d.contains("other 4 orders agree"),
+        "{d}"
+    );
 }
 
 /// Coefficients in a = 2 g^2 (c_L / 2^L, docs/conventions.md section 1) but declared
 /// as g2 are recognised; declared as a, they agree.
 #[test]
 fn convention_a_is_recognised() {
-    let a_orders = [(1, "exact", "2"), (2, "exact", "-2 zeta(2)"), (3, "exact", "11 zeta(4)"), (4, "exact", "-219/4 zeta(6) - 2 zeta(3)^2")];
+    let a_orders = [
+        (1, "exact", "2"),
+        (2, "exact", "-2 zeta(2)"),
+        (3, "exact", "11 zeta(4)"),
+        (4, "exact", "-219/4 zeta(6) - 2 zeta(3)^2"),
+    ];
     let (code, v) = check_json("a-declared-g2.yaml", &cusp_file("g2", &a_orders));
     assert_eq!(code, 1);
-    let d: Vec<&str> = v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap()).collect();
-    assert!(d.iter().any(|d| d.contains("convention a") && d.contains("`coupling: g2`")), "{d:?}");
-    assert_eq!(d.len(), 1, "only the explanation that fits every order: {d:?}");
+    let d: Vec<&str> = v["diagnoses"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|d| d.as_str().unwrap())
+        .collect();
+    assert!(
+        d.iter()
+            .any(|d| d.contains("convention a") && d.contains("`coupling: g2`")),
+        "{d:?}"
+    );
+    assert_eq!(
+        d.len(),
+        1,
+        "only the explanation that fits every order: {d:?}"
+    );
     let (code, v) = check_json("a-declared-a.yaml", &cusp_file("a", &a_orders));
     assert_eq!(code, 0, "{v}");
 }
 
 #[test]
 fn scaling_function_sign_and_shift_slips_are_recognised() {
-    let twice = [(1, "exact", "8"), (2, "exact", "-16 zeta(2)"), (3, "exact", "176 zeta(4)")];
+    let twice = [
+        (1, "exact", "8"),
+        (2, "exact", "-16 zeta(2)"),
+        (3, "exact", "176 zeta(4)"),
+    ];
     let (_, v) = check_json("twice.yaml", &cusp_file("g2", &twice));
-    assert!(v["diagnoses"][0].as_str().unwrap().contains("scaling function"), "{v}");
-    let minus = [(1, "exact", "-4"), (2, "exact", "8 zeta(2)"), (3, "exact", "-88 zeta(4)")];
+    assert!(
+        v["diagnoses"][0]
+            .as_str()
+            .unwrap()
+            .contains("scaling function"),
+        "{v}"
+    );
+    let minus = [
+        (1, "exact", "-4"),
+        (2, "exact", "8 zeta(2)"),
+        (3, "exact", "-88 zeta(4)"),
+    ];
     let (_, v) = check_json("minus.yaml", &cusp_file("g2", &minus));
-    assert!(v["diagnoses"][0].as_str().unwrap().contains("opposite sign"), "{v}");
-    let shifted = [(1, "exact", "-8 zeta(2)"), (2, "exact", "88 zeta(4)"), (3, "exact", FOUR)];
+    assert!(
+        v["diagnoses"][0]
+            .as_str()
+            .unwrap()
+            .contains("opposite sign"),
+        "{v}"
+    );
+    let shifted = [
+        (1, "exact", "-8 zeta(2)"),
+        (2, "exact", "88 zeta(4)"),
+        (3, "exact", FOUR),
+    ];
     let (_, v) = check_json("shifted.yaml", &cusp_file("g2", &shifted));
-    assert!(v["diagnoses"][0].as_str().unwrap().contains("shifted by one"), "{v}");
+    assert!(
+        v["diagnoses"][0]
+            .as_str()
+            .unwrap()
+            .contains("shifted by one"),
+        "{v}"
+    );
 }
 
 fn diagnoses(v: &serde_json::Value) -> Vec<String> {
-    v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap().to_string()).collect()
+    v["diagnoses"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|d| d.as_str().unwrap().to_string())
+        .collect()
 }
 
 /// Item 9 of issue 8: a file with one supplied order still gets the slip
@@ -130,24 +209,53 @@ fn single_order_slip_is_diagnosed_and_says_it_rests_on_one_order() {
     assert_eq!(code, 1);
     let d = diagnoses(&v);
     assert_eq!(d.len(), 1, "{d:?}");
-    assert!(d[0].contains("convention a") && d[0].contains("rests on one supplied order"), "{d:?}");
+    assert!(
+        d[0].contains("convention a") && d[0].contains("rests on one supplied order"),
+        "{d:?}"
+    );
     let flipped = format!("-({FOUR})");
-    let (code, v) = check_json("one-order-sign.yaml", &cusp_file("g2", &[(4, "exact", &flipped)]));
+    let (code, v) = check_json(
+        "one-order-sign.yaml",
+        &cusp_file("g2", &[(4, "exact", &flipped)]),
+    );
     assert_eq!(code, 1);
     let d = diagnoses(&v);
     assert_eq!(d.len(), 1, "{d:?}");
-    assert!(d[0].contains("opposite sign") && d[0].contains("rests on one supplied order"), "{d:?}");
+    assert!(
+        d[0].contains("opposite sign") && d[0].contains("rests on one supplied order"),
+        "{d:?}"
+    );
     // A number known to its written digits: -937.43062784825 / 16 = -58.589414240516 (by hand).
-    let (_, v) = check_json("one-order-a-value.yaml", &cusp_file("g2", &[(4, "value", "-58.5894142405(1)")]));
-    assert!(diagnoses(&v).iter().any(|d| d.contains("convention a")), "{v}");
+    let (_, v) = check_json(
+        "one-order-a-value.yaml",
+        &cusp_file("g2", &[(4, "value", "-58.5894142405(1)")]),
+    );
+    assert!(
+        diagnoses(&v).iter().any(|d| d.contains("convention a")),
+        "{v}"
+    );
     // Nothing is claimed when no slip makes the order agree.
-    let (code, v) = check_json("one-order-wrong.yaml", &cusp_file("g2", &[(4, "exact", "-877*zeta(6) - 32*zeta(3)^2")]));
+    let (code, v) = check_json(
+        "one-order-wrong.yaml",
+        &cusp_file("g2", &[(4, "exact", "-877*zeta(6) - 32*zeta(3)^2")]),
+    );
     assert_eq!(code, 1);
-    assert!(diagnoses(&v).iter().all(|d| !d.contains("convention") && !d.contains("sign")), "{v}");
+    assert!(
+        diagnoses(&v)
+            .iter()
+            .all(|d| !d.contains("convention") && !d.contains("sign")),
+        "{v}"
+    );
     // With two orders the caveat is not printed.
-    let (_, v) = check_json("two-orders-a.yaml", &cusp_file("g2", &[(1, "exact", "2"), (4, "exact", &in_a)]));
+    let (_, v) = check_json(
+        "two-orders-a.yaml",
+        &cusp_file("g2", &[(1, "exact", "2"), (4, "exact", &in_a)]),
+    );
     let d = diagnoses(&v);
-    assert!(d.iter().any(|d| d.contains("convention a")) && d.iter().all(|d| !d.contains("rests on")), "{d:?}");
+    assert!(
+        d.iter().any(|d| d.contains("convention a")) && d.iter().all(|d| !d.contains("rests on")),
+        "{d:?}"
+    );
 }
 
 /// Item 17 of issue 8: coefficients in g^2 declared as lambda are explained
@@ -156,16 +264,31 @@ fn single_order_slip_is_diagnosed_and_says_it_rests_on_one_order() {
 /// cusp has uniform weight 2L - 2 (hep-th/0610251), not as "weight -2".
 #[test]
 fn lambda_convention_diagnosis_has_no_weight_noise() {
-    let g2_orders = [(1, "exact", "4"), (2, "exact", "-8 zeta(2)"), (3, "exact", "88 zeta(4)")];
+    let g2_orders = [
+        (1, "exact", "4"),
+        (2, "exact", "-8 zeta(2)"),
+        (3, "exact", "88 zeta(4)"),
+    ];
     let (code, v) = check_json("g2-declared-lambda.yaml", &cusp_file("lambda", &g2_orders));
     assert_eq!(code, 1);
     let d = diagnoses(&v);
     assert_eq!(d.len(), 1, "{d:?}");
-    assert!(d[0].contains("convention g2") && d[0].contains("`coupling: lambda`"), "{d:?}");
-    let lambda_orders = [(1, "exact", "4/(16 pi^2)"), (2, "exact", "-8 zeta(2)/(16 pi^2)^2"), (3, "exact", "(88 zeta(4) + zeta(3))/(16 pi^2)^3")];
+    assert!(
+        d[0].contains("convention g2") && d[0].contains("`coupling: lambda`"),
+        "{d:?}"
+    );
+    let lambda_orders = [
+        (1, "exact", "4/(16 pi^2)"),
+        (2, "exact", "-8 zeta(2)/(16 pi^2)^2"),
+        (3, "exact", "(88 zeta(4) + zeta(3))/(16 pi^2)^3"),
+    ];
     let (_, v) = check_json("lambda-weight.yaml", &cusp_file("lambda", &lambda_orders));
     let d = diagnoses(&v);
-    assert!(d.iter().any(|d| d.contains("order 3 mixes transcendental weights 3, 4; the prediction has weight 4")), "{d:?}");
+    assert!(
+        d.iter().any(|d| d
+            .contains("order 3 mixes transcendental weights 3, 4; the prediction has weight 4")),
+        "{d:?}"
+    );
     assert!(d.iter().all(|d| !d.contains("weight -2")), "{d:?}");
 }
 
@@ -173,18 +296,38 @@ fn lambda_convention_diagnosis_has_no_weight_noise() {
 /// section 1: uniform weight 2L - 2).
 #[test]
 fn non_uniform_weight_is_reported() {
-    let text = cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)"), (3, "exact", "88 zeta(4) + zeta(3)")]);
+    let text = cusp_file(
+        "g2",
+        &[
+            (1, "exact", "4"),
+            (2, "exact", "-8 zeta(2)"),
+            (3, "exact", "88 zeta(4) + zeta(3)"),
+        ],
+    );
     let (code, v) = check_json("weight.yaml", &text);
     assert_eq!(code, 1);
-    let d: Vec<&str> = v["diagnoses"].as_array().unwrap().iter().map(|d| d.as_str().unwrap()).collect();
-    assert!(d.iter().any(|d| d.contains("mixes transcendental weights 3, 4")), "{d:?}");
+    let d: Vec<&str> = v["diagnoses"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|d| d.as_str().unwrap())
+        .collect();
+    assert!(
+        d.iter()
+            .any(|d| d.contains("mixes transcendental weights 3, 4")),
+        "{d:?}"
+    );
 }
 
 #[test]
 fn numbers_without_stated_uncertainty_use_the_written_digits() {
     // -13.1594725347858 is zeta-exact to all 15 written digits; -13.15947 rounds
     // correctly; -13.15948 is outside half a unit of its last digit.
-    for (value, verdict) in [("-13.1594725347858", "agrees-numerically"), ("-13.15947", "agrees-numerically"), ("-13.15948", "differs-numerically")] {
+    for (value, verdict) in [
+        ("-13.1594725347858", "agrees-numerically"),
+        ("-13.15947", "agrees-numerically"),
+        ("-13.15948", "differs-numerically"),
+    ] {
         let (_, v) = check_json("digits.yaml", &cusp_file("g2", &[(2, "value", value)]));
         assert_eq!(v["orders"][1]["verdict"], verdict, "{value}");
     }
@@ -207,9 +350,18 @@ fn value_disagreeing_with_its_own_exact_shows_the_size() {
     let path = write("gap.yaml", text);
     let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 1);
-    let row = out.lines().find(|l| l.trim_start().starts_with("2 ")).unwrap();
-    assert!(row.contains("DIFF") && row.contains("value -13.5(1) disagrees with its exact"), "{row}");
-    assert!(row.contains("value - exact = -0.340527 = 3.41 sigma"), "{row}");
+    let row = out
+        .lines()
+        .find(|l| l.trim_start().starts_with("2 "))
+        .unwrap();
+    assert!(
+        row.contains("DIFF") && row.contains("value -13.5(1) disagrees with its exact"),
+        "{row}"
+    );
+    assert!(
+        row.contains("value - exact = -0.340527 = 3.41 sigma"),
+        "{row}"
+    );
     assert!(!row.contains(" ; "), "{row}");
     let (_, v) = check_json("gap.yaml", text);
     let gap = &v["orders"][1]["inconsistency"];
@@ -225,20 +377,42 @@ fn value_disagreeing_with_its_own_exact_shows_the_size() {
 /// its bound 5e-6 (differs); -13.159 is 0.95 of 5e-4 (agrees).
 #[test]
 fn implied_uncertainty_is_worded_as_a_rounding_bound_not_sigma() {
-    let path = write("bound-differs.yaml", &cusp_file("g2", &[(2, "value", "-13.15948")]));
+    let path = write(
+        "bound-differs.yaml",
+        &cusp_file("g2", &[(2, "value", "-13.15948")]),
+    );
     let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 1);
-    let row = out.lines().find(|l| l.trim_start().starts_with("2 ")).unwrap();
-    assert!(row.contains("= 1.49 times the rounding bound of the written digits") && !row.contains("sigma"), "{row}");
-    let (_, v) = check_json("bound-differs.yaml", &cusp_file("g2", &[(2, "value", "-13.15948")]));
+    let row = out
+        .lines()
+        .find(|l| l.trim_start().starts_with("2 "))
+        .unwrap();
+    assert!(
+        row.contains("= 1.49 times the rounding bound of the written digits")
+            && !row.contains("sigma"),
+        "{row}"
+    );
+    let (_, v) = check_json(
+        "bound-differs.yaml",
+        &cusp_file("g2", &[(2, "value", "-13.15948")]),
+    );
     assert_eq!(v["orders"][1]["rounding_bounds"], "1.493");
     assert!(v["orders"][1].get("sigmas").is_none(), "{v}");
-    let path = write("bound-agrees.yaml", &cusp_file("g2", &[(2, "value", "-13.159")]));
+    let path = write(
+        "bound-agrees.yaml",
+        &cusp_file("g2", &[(2, "value", "-13.159")]),
+    );
     let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 0);
-    assert!(out.contains("supplied -13.159, 0.95 times the rounding bound of the written digits"), "{out}");
+    assert!(
+        out.contains("supplied -13.159, 0.95 times the rounding bound of the written digits"),
+        "{out}"
+    );
     // A stated uncertainty is a standard deviation: 1.7 sigma agrees and says so.
-    let (code, v) = check_json("stated.yaml", &cusp_file("g2", &[(2, "value", "-13.15949(1)")]));
+    let (code, v) = check_json(
+        "stated.yaml",
+        &cusp_file("g2", &[(2, "value", "-13.15949(1)")]),
+    );
     assert_eq!(code, 0);
     assert_eq!(v["orders"][1]["sigmas"], "1.747");
     assert!(v["orders"][1].get("rounding_bounds").is_none(), "{v}");
@@ -266,11 +440,17 @@ fn orders_beyond_the_engine_are_not_compared_and_not_a_pass() {
     assert_eq!(code, 1, "{v}");
     assert_eq!(v["agrees"], false);
     assert_eq!(v["not_compared"], serde_json::json!([51]));
-    assert_eq!(v["summary"], "orders 1-50 not supplied, order 51 not compared");
+    assert_eq!(
+        v["summary"],
+        "orders 1-50 not supplied, order 51 not compared"
+    );
     let path = write("loop51.yaml", text);
     let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 1);
-    assert!(out.contains("not compared: order 51 is beyond the 50 loops"), "{out}");
+    assert!(
+        out.contains("not compared: order 51 is beyond the 50 loops"),
+        "{out}"
+    );
     // Agreeing orders next to uncompared ones: still not a pass, and only the uncompared are listed.
     let text = "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n  - loop: 52\n    value: \"1.0\"\n  - loop: 53\n    value: \"2.0\"\n";
     let (code, v) = check_json("loop53.yaml", text);
@@ -285,27 +465,42 @@ fn orders_beyond_the_engine_are_not_compared_and_not_a_pass() {
 
 #[test]
 fn text_report_has_marks_and_summary() {
-    let path = write("text.yaml", &cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(3)")]));
+    let path = write(
+        "text.yaml",
+        &cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(3)")]),
+    );
     let (code, out, _) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 1);
-    assert!(out.contains("DIFF") && out.contains("summary: order 1 agrees, order 2 differs"), "{out}");
+    assert!(
+        out.contains("DIFF") && out.contains("summary: order 1 agrees, order 2 differs"),
+        "{out}"
+    );
 }
 
 #[test]
 fn unreadable_input_exits_two_with_file_line_and_column() {
-    let path = write("broken.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 2\n    exact: \"-8 zeta(2\"\n");
+    let path = write(
+        "broken.yaml",
+        "prediction: cusp\ncoupling: g2\norders:\n  - loop: 2\n    exact: \"-8 zeta(2\"\n",
+    );
     let (code, out, err) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 2);
     assert!(out.is_empty());
     assert!(err.contains("broken.yaml:5:"), "{err}");
-    let path = write("unknown.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exat: \"4\"\n");
+    let path = write(
+        "unknown.yaml",
+        "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exat: \"4\"\n",
+    );
     let (code, _, err) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 2);
     assert!(err.contains("did you mean `exact`"), "{err}");
     let (code, _, err) = loopwise(&["check", "/nonexistent/file.yaml"]);
     assert_eq!(code, 2);
     assert!(err.contains("/nonexistent/file.yaml"), "{err}");
-    let path = write("noprediction.yaml", "coupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n");
+    let path = write(
+        "noprediction.yaml",
+        "coupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n",
+    );
     let (code, _, err) = loopwise(&["check", path.to_str().unwrap()]);
     assert_eq!(code, 2);
     assert!(err.contains("names no `prediction`"), "{err}");
@@ -315,7 +510,13 @@ fn unreadable_input_exits_two_with_file_line_and_column() {
 fn several_files_give_a_json_array_and_the_worst_exit_code() {
     let good = write("good.yaml", &cusp_file("g2", &[(1, "exact", "4")]));
     let bad = write("bad.yaml", &cusp_file("g2", &[(1, "exact", "5")]));
-    let (code, out, _) = loopwise(&["check", good.to_str().unwrap(), bad.to_str().unwrap(), "--format", "json"]);
+    let (code, out, _) = loopwise(&[
+        "check",
+        good.to_str().unwrap(),
+        bad.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
     assert_eq!(code, 1);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v.as_array().unwrap().len(), 2);
@@ -327,15 +528,38 @@ fn several_files_give_a_json_array_and_the_worst_exit_code() {
 #[test]
 fn unreadable_file_among_many_is_reported_and_exits_2() {
     let good = write("many-good.yaml", &cusp_file("g2", &[(1, "exact", "4")]));
-    let bad = write("many-bad.yaml", "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exat: \"4\"\n");
-    let slip = write("many-slip.yaml", &cusp_file("g2", &[(1, "exact", "2"), (2, "exact", "-2 zeta(2)")]));
-    let paths = [good.to_str().unwrap(), bad.to_str().unwrap(), slip.to_str().unwrap()];
+    let bad = write(
+        "many-bad.yaml",
+        "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exat: \"4\"\n",
+    );
+    let slip = write(
+        "many-slip.yaml",
+        &cusp_file("g2", &[(1, "exact", "2"), (2, "exact", "-2 zeta(2)")]),
+    );
+    let paths = [
+        good.to_str().unwrap(),
+        bad.to_str().unwrap(),
+        slip.to_str().unwrap(),
+    ];
     let (code, out, err) = loopwise(&["check", paths[0], paths[1], paths[2]]);
     assert_eq!(code, 2, "{out}");
-    assert!(err.contains("many-bad.yaml") && err.contains("did you mean `exact`"), "{err}");
-    assert!(out.contains("many-good.yaml: checked against") && out.contains("many-slip.yaml: checked against"), "{out}");
-    assert!(out.contains("many-bad.yaml: not checked") && out.contains("line 5 column 5"), "{out}");
-    assert!(out.contains("convention a"), "the file after the bad one is diagnosed: {out}");
+    assert!(
+        err.contains("many-bad.yaml") && err.contains("did you mean `exact`"),
+        "{err}"
+    );
+    assert!(
+        out.contains("many-good.yaml: checked against")
+            && out.contains("many-slip.yaml: checked against"),
+        "{out}"
+    );
+    assert!(
+        out.contains("many-bad.yaml: not checked") && out.contains("line 5 column 5"),
+        "{out}"
+    );
+    assert!(
+        out.contains("convention a"),
+        "the file after the bad one is diagnosed: {out}"
+    );
 
     let (code, out, _) = loopwise(&["check", paths[0], paths[1], paths[2], "--format", "json"]);
     assert_eq!(code, 2);
@@ -344,17 +568,38 @@ fn unreadable_file_among_many_is_reported_and_exits_2() {
     assert_eq!(entries.len(), 3);
     assert_eq!(entries[0]["agrees"], true);
     assert_eq!(entries[1]["agrees"], false);
-    assert!(entries[1]["file"].as_str().unwrap().ends_with("many-bad.yaml"));
-    assert!(entries[1]["error"].as_str().unwrap().contains("unknown key `exat`"), "{v}");
+    assert!(entries[1]["file"]
+        .as_str()
+        .unwrap()
+        .ends_with("many-bad.yaml"));
+    assert!(
+        entries[1]["error"]
+            .as_str()
+            .unwrap()
+            .contains("unknown key `exat`"),
+        "{v}"
+    );
     assert_eq!(entries[2]["orders"][0]["verdict"], "differs-exactly");
 
     let (code, out, _) = loopwise(&["check", paths[0], paths[1], "--format", "yaml"]);
     assert_eq!(code, 2);
-    let docs: Vec<&str> = out.split("---\n").filter(|d| !d.trim().is_empty()).collect();
+    let docs: Vec<&str> = out
+        .split("---\n")
+        .filter(|d| !d.trim().is_empty())
+        .collect();
     assert_eq!(docs.len(), 2, "{out}");
-    assert!(docs[1].contains("agrees: false") && docs[1].contains("error:"), "{out}");
+    assert!(
+        docs[1].contains("agrees: false") && docs[1].contains("error:"),
+        "{out}"
+    );
     // A missing file among good ones is an entry too.
-    let (code, out, _) = loopwise(&["check", paths[0], "/nonexistent/many.yaml", "--format", "json"]);
+    let (code, out, _) = loopwise(&[
+        "check",
+        paths[0],
+        "/nonexistent/many.yaml",
+        "--format",
+        "json",
+    ]);
     assert_eq!(code, 2);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v[1]["file"], "/nonexistent/many.yaml");
@@ -364,12 +609,18 @@ fn unreadable_file_among_many_is_reported_and_exits_2() {
 /// input, named `<stdin>` in messages and reports.
 #[test]
 fn dash_reads_the_series_file_from_standard_input() {
-    let (code, out, err) = loopwise_with_stdin(&["check", "-", "--format", "json"], &cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)")]));
+    let (code, out, err) = loopwise_with_stdin(
+        &["check", "-", "--format", "json"],
+        &cusp_file("g2", &[(1, "exact", "4"), (2, "exact", "-8 zeta(2)")]),
+    );
     assert_eq!(code, 0, "{err}");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["file"], "<stdin>");
     assert_eq!(v["summary"], "orders 1-2 agree");
-    let (code, _, err) = loopwise_with_stdin(&["check", "-"], "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4 +\"\n");
+    let (code, _, err) = loopwise_with_stdin(
+        &["check", "-"],
+        "prediction: cusp\ncoupling: g2\norders:\n  - loop: 1\n    exact: \"4 +\"\n",
+    );
     assert_eq!(code, 2);
     assert!(err.contains("<stdin>:5:"), "{err}");
     let (code, _, err) = loopwise_with_stdin(&["check", "-", "-"], "");
@@ -384,7 +635,10 @@ fn demo_finds_the_planted_mistake() {
     assert_eq!(code, 0);
     assert!(out.contains("fictional"), "{out}");
     assert!(out.contains("order 5 looks like a slip"), "{out}");
-    assert!(out.contains("summary: orders 1-4 agree, order 5 differs, orders 6-7 agree"), "{out}");
+    assert!(
+        out.contains("summary: orders 1-4 agree, order 5 differs, orders 6-7 agree"),
+        "{out}"
+    );
     assert!(out.contains("agrees to 9 digits"), "{out}");
 }
 
@@ -409,7 +663,14 @@ fn eval_prints_one_value() {
 fn multiple_zeta_values_check_numerically() {
     let text = cusp_file("g2", &[(4, "exact", "-876 zeta(6) - 32 zeta(2,1)^2")]);
     let path = write("mzv.yaml", &text);
-    let (code, out, err) = loopwise(&["check", path.to_str().unwrap(), "--format", "json", "--digits", "200"]);
+    let (code, out, err) = loopwise(&[
+        "check",
+        path.to_str().unwrap(),
+        "--format",
+        "json",
+        "--digits",
+        "200",
+    ]);
     assert_eq!(code, 0, "{err}");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["orders"][3]["verdict"], "agrees-numerically");
@@ -433,7 +694,16 @@ fn long_pasted_coefficients_check() {
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     let thirty = v["orders"][29]["exact"].as_str().unwrap();
     assert!(thirty.matches(" + ").count() + thirty.matches(" - ").count() > 4000);
-    let (code, v) = check_json("thirty.yaml", &cusp_file("g2", &[(29, "exact", v["orders"][28]["exact"].as_str().unwrap()), (30, "exact", thirty)]));
+    let (code, v) = check_json(
+        "thirty.yaml",
+        &cusp_file(
+            "g2",
+            &[
+                (29, "exact", v["orders"][28]["exact"].as_str().unwrap()),
+                (30, "exact", thirty),
+            ],
+        ),
+    );
     assert_eq!(code, 0, "{v}");
     assert_eq!(v["orders"][29]["verdict"], "agrees-exactly");
 }

@@ -13,7 +13,9 @@ const PREC: u32 = 256;
 /// The power of ten of the last written digit of a decimal such as
 /// `0.00377`, `-1240.90` or `1.00e-30`.
 fn last_place(text: &str) -> i32 {
-    let (mantissa, exp) = text.split_once('e').map_or((text, 0), |(m, e)| (m, e.parse::<i32>().unwrap()));
+    let (mantissa, exp) = text
+        .split_once('e')
+        .map_or((text, 0), |(m, e)| (m, e.parse::<i32>().unwrap()));
     let decimals = mantissa.split_once('.').map_or(0, |(_, d)| d.len() as i32);
     exp - decimals
 }
@@ -21,12 +23,19 @@ fn last_place(text: &str) -> i32 {
 /// Significant digits written in a decimal: leading zeros do not count.
 fn significant(text: &str) -> usize {
     let mantissa = text.split('e').next().unwrap();
-    mantissa.chars().filter(char::is_ascii_digit).skip_while(|&c| c == '0').count()
+    mantissa
+        .chars()
+        .filter(char::is_ascii_digit)
+        .skip_while(|&c| c == '0')
+        .count()
 }
 
 /// `VALUE ± UNCERTAINTY` from one line of output.
 fn split(out: &str) -> (String, String) {
-    let (v, u) = out.trim().split_once(" ± ").unwrap_or_else(|| panic!("no uncertainty in `{out}`"));
+    let (v, u) = out
+        .trim()
+        .split_once(" ± ")
+        .unwrap_or_else(|| panic!("no uncertainty in `{out}`"));
     (v.to_string(), u.to_string())
 }
 
@@ -42,9 +51,17 @@ fn float(text: &str) -> Float {
 fn eval_prints_only_digits_its_uncertainty_supports() {
     let pi = Float::with_val(PREC, Constant::Pi);
     let cases = [
-        ("(1.2e-3 ± 1e-4) * pi", float("1.2e-3") * pi.clone(), float("1e-4") * pi.clone()),
+        (
+            "(1.2e-3 ± 1e-4) * pi",
+            float("1.2e-3") * pi.clone(),
+            float("1e-4") * pi.clone(),
+        ),
         ("-1240.9(2)", float("-1240.9"), float("0.2")),
-        ("(1e-30 ± 1e-31) * pi", float("1e-30") * pi.clone(), float("1e-31") * pi.clone()),
+        (
+            "(1e-30 ± 1e-31) * pi",
+            float("1e-30") * pi.clone(),
+            float("1e-31") * pi.clone(),
+        ),
         ("(123456 ± 7000)", float("123456"), float("7000")),
     ];
     for (expr, value, uncertainty) in cases {
@@ -52,12 +69,22 @@ fn eval_prints_only_digits_its_uncertainty_supports() {
         assert_eq!(code, 0, "{expr}: {err}");
         let (v, u) = split(&out);
         assert_eq!(significant(&u), 2, "{expr}: uncertainty `{u}`");
-        assert_eq!(last_place(&v), last_place(&u), "{expr}: `{v}` is not rounded where `{u}` ends");
+        assert_eq!(
+            last_place(&v),
+            last_place(&u),
+            "{expr}: `{v}` is not rounded where `{u}` ends"
+        );
         let unit = Float::with_val(PREC, Float::with_val(PREC, 10u32).pow_ref_i(last_place(&u)));
         let off = Float::with_val(PREC, float(&v) - &value).abs();
-        assert!(off <= Float::with_val(PREC, &unit / 2u32) * 1.000001, "{expr}: {v} is not {value} rounded");
+        assert!(
+            off <= Float::with_val(PREC, &unit / 2u32) * 1.000001,
+            "{expr}: {v} is not {value} rounded"
+        );
         let u_off = Float::with_val(PREC, float(&u) - &uncertainty).abs();
-        assert!(u_off <= Float::with_val(PREC, &unit / 2u32) * 1.000001, "{expr}: {u} is not {uncertainty} rounded");
+        assert!(
+            u_off <= Float::with_val(PREC, &unit / 2u32) * 1.000001,
+            "{expr}: {u} is not {uncertainty} rounded"
+        );
     }
     // The case of the report, whatever reading of `1.2e-3(1)` the parser settles on.
     let (v, u) = split(&loopwise(&["eval", "1.2e-3(1) * pi"]).1);
@@ -65,7 +92,10 @@ fn eval_prints_only_digits_its_uncertainty_supports() {
     // A value uncertain only far below the requested digits keeps those digits.
     let (v, _) = split(&loopwise(&["eval", "(1 ± 1e-25) * pi", "--digits", "10"]).1);
     assert_eq!(significant(&v), 10, "{v}");
-    assert!(Float::with_val(PREC, float(&v) - &pi).abs() < 5.000001e-10, "{v}");
+    assert!(
+        Float::with_val(PREC, float(&v) - &pi).abs() < 5.000001e-10,
+        "{v}"
+    );
     // A value whose uncertainty exceeds it is still written with both.
     let (v, u) = split(&loopwise(&["eval", "1.2(1) - 1.2(1)"]).1);
     assert_eq!(last_place(&v), last_place(&u), "`{v} ± {u}`");

@@ -8,7 +8,6 @@ use common::loopwise;
 use rug::ops::Pow;
 use rug::Float;
 
-
 fn json(args: &[&str]) -> serde_json::Value {
     let (code, stdout, stderr) = loopwise(args);
     assert_eq!(code, 0, "{stderr}");
@@ -45,7 +44,9 @@ fn json_shape() {
 #[test]
 fn values_match_an_independent_mpfr_evaluation() {
     let digits = 60;
-    let v = json(&["expand", "cusp", "--loops", "5", "--format", "json", "--digits", "60"]);
+    let v = json(&[
+        "expand", "cusp", "--loops", "5", "--format", "json", "--digits", "60",
+    ]);
     let prec = 300;
     let z = |n: u32| Float::with_val(prec, Float::zeta_u(n));
     let pi = Float::with_val(prec, rug::float::Constant::Pi);
@@ -57,8 +58,16 @@ fn values_match_an_independent_mpfr_evaluation() {
         let text = v["orders"][order]["value"].as_str().unwrap();
         let printed = Float::with_val(prec, Float::parse(text).unwrap());
         let rel = Float::with_val(prec, (printed - &reference) / &reference).abs();
-        assert!(rel < Float::with_val(64, Float::i_exp(1, -(digits as i32 * 3))), "order {}: {text}", order + 1);
-        assert_eq!(text.trim_start_matches('-').replace('.', "").len(), digits, "{text}");
+        assert!(
+            rel < Float::with_val(64, Float::i_exp(1, -(digits as i32 * 3))),
+            "order {}: {text}",
+            order + 1
+        );
+        assert_eq!(
+            text.trim_start_matches('-').replace('.', "").len(),
+            digits,
+            "{text}"
+        );
     }
 }
 
@@ -66,13 +75,27 @@ fn values_match_an_independent_mpfr_evaluation() {
 /// with --even zeta the four-loop cusp reads as in hep-th/0610251.
 #[test]
 fn coupling_and_even_zeta_options() {
-    let v = json(&["expand", "cusp", "--loops", "4", "--format", "json", "--coupling", "a", "--even", "zeta"]);
+    let v = json(&[
+        "expand",
+        "cusp",
+        "--loops",
+        "4",
+        "--format",
+        "json",
+        "--coupling",
+        "a",
+        "--even",
+        "zeta",
+    ]);
     assert_eq!(v["coupling"], "a");
     assert_eq!(v["orders"][0]["exact"], "2");
     assert_eq!(v["orders"][1]["exact"], "-2*zeta(2)");
     assert_eq!(v["orders"][3]["exact"], "-219/4*zeta(6) - 2*zeta(3)^2");
     let y = loopwise(&["expand", "octagon", "--loops", "2", "--format", "yaml"]).1;
-    assert!(y.contains("quantity: octagon") && y.contains("exact: -8/3*pi^2"), "{y}");
+    assert!(
+        y.contains("quantity: octagon") && y.contains("exact: -8/3*pi^2"),
+        "{y}"
+    );
 }
 
 #[test]
@@ -86,7 +109,11 @@ fn symbolic_tilt_has_no_value() {
 fn latex_is_a_table_environment() {
     let (code, out, _) = loopwise(&["expand", "hexagon", "--loops", "4", "--format", "latex"]);
     assert_eq!(code, 0);
-    assert!(out.contains("\\begin{table}") && out.contains("\\end{tabular}") && out.contains("\\end{table}"));
+    assert!(
+        out.contains("\\begin{table}")
+            && out.contains("\\end{tabular}")
+            && out.contains("\\end{table}")
+    );
     // -603/2 zeta(6) = -67/210 pi^6 (docs/conventions.md section 4, zeta(6) = pi^6/945).
     assert!(out.contains("-\\frac{67}{210}\\,\\pi^{6}"), "{out}");
     assert!(out.contains("conjecture"), "hexagon is flagged: {out}");
@@ -107,7 +134,10 @@ fn bad_input_is_one_line_and_exit_code_two() {
         (vec!["expand", "Gamma(pi/5)"], "irrational"),
         (vec!["expand", "Gamma(pi/4"], "1:11"),
         (vec!["expand", "cusp", "--digits", "0"], "out of range"),
-        (vec!["--catalog", "/nonexistent-dir", "list"], "cannot read catalogue directory"),
+        (
+            vec!["--catalog", "/nonexistent-dir", "list"],
+            "cannot read catalogue directory",
+        ),
     ] {
         let (code, out, err) = loopwise(&args);
         assert_eq!(code, 2, "{args:?}: {err}");
@@ -122,13 +152,33 @@ fn bad_input_is_one_line_and_exit_code_two() {
 fn broken_catalogue_file_names_file_and_line() {
     let dir = std::env::temp_dir().join(format!("loopwise-cat-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    std::fs::write(dir.join("mine.yaml"), "name: mine\nsummary: s\ndefinition: Gamma(0)\nstatuss: established\n").unwrap();
+    std::fs::write(
+        dir.join("mine.yaml"),
+        "name: mine\nsummary: s\ndefinition: Gamma(0)\nstatuss: established\n",
+    )
+    .unwrap();
     let (code, _, err) = loopwise(&["--catalog", dir.to_str().unwrap(), "list"]);
-    std::fs::write(dir.join("mine.yaml"), "name: mine\nsummary: mine\ndefinition: 3*Gamma(pi/6)\ncoupling: a\nstatus: conjecture\n").unwrap();
-    let (code2, out2, _) = loopwise(&["--catalog", dir.to_str().unwrap(), "expand", "mine", "--loops", "2", "--format", "json"]);
+    std::fs::write(
+        dir.join("mine.yaml"),
+        "name: mine\nsummary: mine\ndefinition: 3*Gamma(pi/6)\ncoupling: a\nstatus: conjecture\n",
+    )
+    .unwrap();
+    let (code2, out2, _) = loopwise(&[
+        "--catalog",
+        dir.to_str().unwrap(),
+        "expand",
+        "mine",
+        "--loops",
+        "2",
+        "--format",
+        "json",
+    ]);
     std::fs::remove_dir_all(&dir).ok();
     assert_eq!(code, 2);
-    assert!(err.contains("mine.yaml:4:") && err.contains("did you mean `status`"), "{err}");
+    assert!(
+        err.contains("mine.yaml:4:") && err.contains("did you mean `status`"),
+        "{err}"
+    );
     assert_eq!(code2, 0);
     let v: serde_json::Value = serde_json::from_str(&out2).unwrap();
     // 3 Gamma(pi/6) at two loops is 3 * (-16 * 3/4 * zeta(2)) = -6 pi^2 in g^2; the
@@ -156,6 +206,15 @@ fn closed_stdout_pipe_is_a_normal_end() {
     drop(reader);
     let out = child.wait_with_output().unwrap();
     assert!(first.starts_with("cusp = Gamma(pi/4)"), "{first}");
-    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stderr));
-    assert!(out.stderr.is_empty(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert!(
+        out.stderr.is_empty(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
 }

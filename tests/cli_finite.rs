@@ -9,7 +9,6 @@ use common::loopwise;
 use rug::float::Constant;
 use rug::Float;
 
-
 fn at_json(args: &[&str]) -> serde_json::Value {
     let mut all = vec!["at"];
     all.extend_from_slice(args);
@@ -37,8 +36,13 @@ fn assert_honest(v: &serde_json::Value, reference: impl Fn(&Float) -> Float, min
         // The printed value is rounded to its supported digits: allow half a unit of the last one.
         let digits = row["digits"].as_u64().unwrap() as i32;
         let lead = truth.clone().abs().log10().floor().to_f64() as i32;
-        let half_unit = Float::with_val(PREC, Float::i_exp(1, 0)) * Float::with_val(PREC, 10u32).pow_ref_i(lead - digits + 1) / 2u32;
-        assert!(actual <= Float::with_val(PREC, &error + &half_unit), "g = {g}: |{value} - truth| = {actual} > {error}");
+        let half_unit = Float::with_val(PREC, Float::i_exp(1, 0))
+            * Float::with_val(PREC, 10u32).pow_ref_i(lead - digits + 1)
+            / 2u32;
+        assert!(
+            actual <= Float::with_val(PREC, &error + &half_unit),
+            "g = {g}: |{value} - truth| = {actual} > {error}"
+        );
         assert!(digits as u32 >= min_digits, "g = {g}: only {digits} digits");
     }
 }
@@ -61,7 +65,17 @@ impl PowI for Float {
 fn octagon_against_its_closed_form() {
     let v = at_json(&["octagon", "--g", "0.1,0.5,1,2,4", "--digits", "30"]);
     let pi = Float::with_val(PREC, Constant::Pi);
-    assert_honest(&v, |g| Float::with_val(PREC, Float::with_val(PREC, &pi * g) * 2u32).cosh().ln() * 2u32 / pi.clone().square(), 25);
+    assert_honest(
+        &v,
+        |g| {
+            Float::with_val(PREC, Float::with_val(PREC, &pi * g) * 2u32)
+                .cosh()
+                .ln()
+                * 2u32
+                / pi.clone().square()
+        },
+        25,
+    );
 }
 
 /// Delta(0) = (1/4) ln(sinh(4 pi g)/(4 pi g)) (docs/conventions.md section 4; the
@@ -103,13 +117,20 @@ fn strong_coupling_column() {
     let v = at_json(&["cusp", "--g", "5,10", "--digits", "12"]);
     let diff = |k: usize| {
         let row = &v["values"][k];
-        Float::with_val(PREC, f(row["value"].as_str().unwrap()) - f(row["strong_coupling"].as_str().unwrap())).abs()
+        Float::with_val(
+            PREC,
+            f(row["value"].as_str().unwrap()) - f(row["strong_coupling"].as_str().unwrap()),
+        )
+        .abs()
     };
     let (d5, d10) = (diff(0), diff(1));
     assert!(d5 < 1e-3 && d10 < d5, "{d5} {d10}");
     assert_eq!(v["strong_coupling_status"], "established");
     let (_, text, _) = loopwise(&["at", "hexagon", "--g", "1", "--digits", "8"]);
-    assert!(text.contains("CAUTION"), "the hexagon's strong coupling is a conjecture: {text}");
+    assert!(
+        text.contains("CAUTION"),
+        "the hexagon's strong coupling is a conjecture: {text}"
+    );
 }
 
 #[test]
@@ -120,7 +141,9 @@ fn scan_gives_csv_and_json() {
     assert_eq!(lines[0], "g,value,error");
     assert_eq!(lines.len(), 6, "{out}");
     assert!(lines[1].starts_with("0,0,"), "{out}");
-    let (code, out, _) = loopwise(&["scan", "hexagon", "--g", "0.5:1", "--points", "3", "--format", "json"]);
+    let (code, out, _) = loopwise(&[
+        "scan", "hexagon", "--g", "0.5:1", "--points", "3", "--format", "json",
+    ]);
     assert_eq!(code, 0);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v.as_array().unwrap().len(), 3);
@@ -131,11 +154,29 @@ fn scan_gives_csv_and_json() {
 #[test]
 fn plot_writes_an_svg_with_every_series_named() {
     let path = std::env::temp_dir().join(format!("loopwise-plot-{}.svg", std::process::id()));
-    let (code, _, err) = loopwise(&["plot", "cusp", "octagon", "--g", "0:2", "--points", "21", "--loops", "2,6", "--pade", "4", "--out", path.to_str().unwrap()]);
+    let (code, _, err) = loopwise(&[
+        "plot",
+        "cusp",
+        "octagon",
+        "--g",
+        "0:2",
+        "--points",
+        "21",
+        "--loops",
+        "2,6",
+        "--pade",
+        "4",
+        "--out",
+        path.to_str().unwrap(),
+    ]);
     assert_eq!(code, 0, "{err}");
     let svg = std::fs::read_to_string(&path).unwrap();
     std::fs::remove_file(&path).ok();
-    assert!(svg.trim_start().starts_with("<svg") || svg.trim_start().starts_with("<?xml"), "{}", &svg[..80.min(svg.len())]);
+    assert!(
+        svg.trim_start().starts_with("<svg") || svg.trim_start().starts_with("<?xml"),
+        "{}",
+        &svg[..80.min(svg.len())]
+    );
     assert!(svg.trim_end().ends_with("</svg>"));
     for name in [
         "cusp (finite coupling)",
@@ -147,7 +188,10 @@ fn plot_writes_an_svg_with_every_series_named() {
     ] {
         assert!(svg.contains(name), "missing {name}");
     }
-    assert!(svg.contains("Padé [4/4]") || svg.contains("Pad&#233; [4/4]") || svg.contains("Pad\u{e9}"), "Padé curve named");
+    assert!(
+        svg.contains("Padé [4/4]") || svg.contains("Pad&#233; [4/4]") || svg.contains("Pad\u{e9}"),
+        "Padé curve named"
+    );
 }
 
 /// The ratio test on the octagon's 30 exact orders points to 1/4, the
@@ -156,7 +200,10 @@ fn plot_writes_an_svg_with_every_series_named() {
 fn radius_of_the_octagon_series() {
     let (code, out, _) = loopwise(&["radius", "octagon", "--loops", "30"]);
     assert_eq!(code, 0);
-    let line = out.lines().find(|l| l.starts_with("difference from 1/4:")).unwrap();
+    let line = out
+        .lines()
+        .find(|l| l.starts_with("difference from 1/4:"))
+        .unwrap();
     let d: f64 = line.split(':').nth(1).unwrap().trim().parse().unwrap();
     assert!(d.abs() < 1e-4, "{out}");
 }
@@ -183,7 +230,10 @@ fn bad_input_is_one_message_and_exit_code_two() {
         (vec!["scan", "cusp", "--g", "1:1"], "empty or reversed"),
         (vec!["scan", "cusp", "--g", "0:1:0"], "step"),
         (vec!["plot", "cusp", "--out", unwritable], "does not exist"),
-        (vec!["plot", "cusp", "--loops", "0", "--out", "x.svg"], "loop order"),
+        (
+            vec!["plot", "cusp", "--loops", "0", "--out", "x.svg"],
+            "loop order",
+        ),
     ] {
         let (code, out, err) = loopwise(&args);
         assert_eq!(code, 2, "{args:?}: {err}");
@@ -217,8 +267,18 @@ fn loopwise_within(args: &[&str], seconds: u64) -> (i32, String, String) {
         std::thread::sleep(Duration::from_millis(20));
     };
     let (mut out, mut err) = (String::new(), String::new());
-    child.stdout.take().unwrap().read_to_string(&mut out).unwrap();
-    child.stderr.take().unwrap().read_to_string(&mut err).unwrap();
+    child
+        .stdout
+        .take()
+        .unwrap()
+        .read_to_string(&mut out)
+        .unwrap();
+    child
+        .stderr
+        .take()
+        .unwrap()
+        .read_to_string(&mut err)
+        .unwrap();
     (status.code().unwrap_or(-1), out, err)
 }
 
@@ -229,19 +289,66 @@ fn loopwise_within(args: &[&str], seconds: u64) -> (i32, String, String) {
 fn grid_is_validated_before_any_work() {
     for (args, needle) in [
         (vec!["scan", "cusp", "--g", "0:300:10"], "g <= 200"),
-        (vec!["scan", "cusp", "--g", "190:201", "--points", "3"], "g <= 200"),
+        (
+            vec!["scan", "cusp", "--g", "190:201", "--points", "3"],
+            "g <= 200",
+        ),
         (vec!["at", "cusp", "--g", "0.5,250"], "g <= 200"),
         (vec!["at", "cusp", "--g", "0:1"], "STEP"),
-        (vec!["scan", "cusp", "--g", "0:1", "--points", "0"], "--points 0"),
-        (vec!["scan", "cusp", "--g", "0:1", "--points", "1"], "--points 1"),
-        (vec!["scan", "cusp", "--g", "0:1:0.25", "--points", "7"], "--points 7"),
+        (
+            vec!["scan", "cusp", "--g", "0:1", "--points", "0"],
+            "--points 0",
+        ),
+        (
+            vec!["scan", "cusp", "--g", "0:1", "--points", "1"],
+            "--points 1",
+        ),
+        (
+            vec!["scan", "cusp", "--g", "0:1:0.25", "--points", "7"],
+            "--points 7",
+        ),
         (vec!["scan", "cusp", "--g", "0:3:5"], "single point"),
         (vec!["scan", "cusp", "--g", "0:1:0.000001"], "points"),
-        (vec!["scan", "cusp", "--g", "0:1", "--points", "3", "--digits", "0"], "--digits 0"),
-        (vec!["plot", "cusp", "--g", "0:300", "--out", "never.svg"], "g <= 200"),
-        (vec!["plot", "cusp", "--g", "0:1", "--points", "1", "--out", "never.svg"], "--points 1"),
-        (vec!["plot", "cusp", "--g", "0:1:0.5", "--points", "9", "--out", "never.svg"], "--points 9"),
-        (vec!["plot", "cusp", "--g", "0:1:0.0001", "--out", "never.svg"], "2000"),
+        (
+            vec![
+                "scan", "cusp", "--g", "0:1", "--points", "3", "--digits", "0",
+            ],
+            "--digits 0",
+        ),
+        (
+            vec!["plot", "cusp", "--g", "0:300", "--out", "never.svg"],
+            "g <= 200",
+        ),
+        (
+            vec![
+                "plot",
+                "cusp",
+                "--g",
+                "0:1",
+                "--points",
+                "1",
+                "--out",
+                "never.svg",
+            ],
+            "--points 1",
+        ),
+        (
+            vec![
+                "plot",
+                "cusp",
+                "--g",
+                "0:1:0.5",
+                "--points",
+                "9",
+                "--out",
+                "never.svg",
+            ],
+            "--points 9",
+        ),
+        (
+            vec!["plot", "cusp", "--g", "0:1:0.0001", "--out", "never.svg"],
+            "2000",
+        ),
     ] {
         let (code, out, err) = loopwise_within(&args, 20);
         assert_eq!(code, 2, "{args:?}: {err}");
@@ -250,9 +357,15 @@ fn grid_is_validated_before_any_work() {
     }
     assert!(!std::path::Path::new("never.svg").exists());
     // The count asked for is the count delivered, both ends included.
-    let (code, out, err) = loopwise(&["scan", "octagon", "--g", "0:1", "--points", "4", "--digits", "5"]);
+    let (code, out, err) = loopwise(&[
+        "scan", "octagon", "--g", "0:1", "--points", "4", "--digits", "5",
+    ]);
     assert_eq!(code, 0, "{err}");
-    let gs: Vec<&str> = out.lines().skip(1).map(|l| l.split(',').next().unwrap()).collect();
+    let gs: Vec<&str> = out
+        .lines()
+        .skip(1)
+        .map(|l| l.split(',').next().unwrap())
+        .collect();
     assert_eq!(gs.len(), 4, "{out}");
     assert_eq!((gs[0], gs[3]), ("0", "1"), "{out}");
 }
@@ -263,7 +376,16 @@ fn grid_is_validated_before_any_work() {
 /// leading one.
 #[test]
 fn scan_and_at_print_only_digits_the_error_supports() {
-    let (code, out, err) = loopwise(&["scan", "Gamma(pi/4) - Gamma(c2=1/2)", "--g", "0.5:1", "--points", "2", "--digits", "10"]);
+    let (code, out, err) = loopwise(&[
+        "scan",
+        "Gamma(pi/4) - Gamma(c2=1/2)",
+        "--g",
+        "0.5:1",
+        "--points",
+        "2",
+        "--digits",
+        "10",
+    ]);
     assert_eq!(code, 0, "{err}");
     for line in out.lines().skip(1) {
         let cols: Vec<&str> = line.split(',').collect();
@@ -272,13 +394,19 @@ fn scan_and_at_print_only_digits_the_error_supports() {
         let error = f(cols[2]);
         assert!(Float::with_val(PREC, value.abs_ref()) <= error, "{line}");
         if let Some((_, decimals)) = cols[1].split_once('.') {
-            let unit = Float::with_val(PREC, Float::with_val(PREC, 10u32).pow_ref_i(-(decimals.len() as i32)));
+            let unit = Float::with_val(
+                PREC,
+                Float::with_val(PREC, 10u32).pow_ref_i(-(decimals.len() as i32)),
+            );
             assert!(unit * 10u32 > error, "{line}: digits below the error");
         }
     }
     let v = at_json(&["Gamma(pi/4) - Gamma(c2=1/2)", "--g", "1", "--digits", "10"]);
     assert_eq!(v["values"][0]["digits"], 0);
-    assert!(Float::parse(v["values"][0]["value"].as_str().unwrap()).is_ok(), "{v}");
+    assert!(
+        Float::parse(v["values"][0]["value"].as_str().unwrap()).is_ok(),
+        "{v}"
+    );
 }
 
 /// A plot needs two points of its range at least: a STEP beyond the range
@@ -286,7 +414,14 @@ fn scan_and_at_print_only_digits_the_error_supports() {
 #[test]
 fn one_point_plot_is_refused() {
     let path = std::env::temp_dir().join(format!("loopwise-one-point-{}.svg", std::process::id()));
-    let (code, _, err) = loopwise(&["plot", "cusp", "--g", "0:3:5", "--out", path.to_str().unwrap()]);
+    let (code, _, err) = loopwise(&[
+        "plot",
+        "cusp",
+        "--g",
+        "0:3:5",
+        "--out",
+        path.to_str().unwrap(),
+    ]);
     assert_eq!(code, 2, "{err}");
     assert!(err.contains("single point"), "{err}");
     assert!(!path.exists());
@@ -302,13 +437,35 @@ fn one_point_plot_is_refused() {
 #[test]
 fn plot_skips_the_weak_coupling_series_it_cannot_expand() {
     let path = std::env::temp_dir().join(format!("loopwise-skip-{}.svg", std::process::id()));
-    let (code, _, err) = loopwise(&["plot", "Gamma(0.3)", "cusp", "--g", "0:1", "--points", "11", "--loops", "2,4", "--out", path.to_str().unwrap()]);
+    let (code, _, err) = loopwise(&[
+        "plot",
+        "Gamma(0.3)",
+        "cusp",
+        "--g",
+        "0:1",
+        "--points",
+        "11",
+        "--loops",
+        "2,4",
+        "--out",
+        path.to_str().unwrap(),
+    ]);
     let svg = std::fs::read_to_string(&path).unwrap_or_default();
     std::fs::remove_file(&path).ok();
     assert_eq!(code, 0, "{err}");
-    assert!(err.contains("Gamma(0.3): weak-coupling curves left out"), "{err}");
-    for name in ["Gamma(0.3) (finite coupling)", "cusp (finite coupling)", "cusp weak coupling, 2 loops"] {
+    assert!(
+        err.contains("Gamma(0.3): weak-coupling curves left out"),
+        "{err}"
+    );
+    for name in [
+        "Gamma(0.3) (finite coupling)",
+        "cusp (finite coupling)",
+        "cusp weak coupling, 2 loops",
+    ] {
         assert!(svg.contains(name), "missing {name}");
     }
-    assert!(!svg.contains("Gamma(0.3) weak coupling"), "a curve that cannot exist was drawn");
+    assert!(
+        !svg.contains("Gamma(0.3) weak coupling"),
+        "a curve that cannot exist was drawn"
+    );
 }

@@ -57,9 +57,13 @@ fn cusp_through_five_loops_matches_the_literature() {
     assert_eq!(*s.coeff(1), Exact::from(4));
     assert_eq!(*s.coeff(2), zeta(2).scale(&q(-8, 1)));
     assert_eq!(*s.coeff(3), zeta(4).scale(&q(88, 1)));
-    assert_eq!(*s.coeff(4), &zeta(6).scale(&q(-876, 1)) - &zeta(3).pow(2).scale(&q(32, 1)));
+    assert_eq!(
+        *s.coeff(4),
+        &zeta(6).scale(&q(-876, 1)) - &zeta(3).pow(2).scale(&q(32, 1))
+    );
     let pi = Exact::pi();
-    let five = &(&pi.pow(8).scale(&q(14192, 14175)) + &(&pi.pow(2) * &zeta(3).pow(2)).scale(&q(64, 3)))
+    let five = &(&pi.pow(8).scale(&q(14192, 14175))
+        + &(&pi.pow(2) * &zeta(3).pow(2)).scale(&q(64, 3)))
         + &(&zeta(3) * &zeta(5)).scale(&q(640, 1));
     assert_eq!(*s.coeff(5), five);
 }
@@ -71,7 +75,10 @@ fn hexagon_through_four_loops() {
     let s = gamma(&Tilt::pi_multiple(&q(1, 3)).unwrap(), 4);
     assert_eq!(*s.coeff(2), zeta(2).scale(&q(-4, 1)));
     assert_eq!(*s.coeff(3), zeta(4).scale(&q(34, 1)));
-    assert_eq!(*s.coeff(4), &zeta(6).scale(&q(-603, 2)) - &zeta(3).pow(2).scale(&q(24, 1)));
+    assert_eq!(
+        *s.coeff(4),
+        &zeta(6).scale(&q(-603, 2)) - &zeta(3).pow(2).scale(&q(24, 1))
+    );
 }
 
 /// Gamma_oct = (2/pi^2) ln cosh(2 pi g) to all orders (arXiv:1907.13131,
@@ -116,10 +123,20 @@ fn octagon_constant_matches_log_sinh_through_twenty_loops() {
 }
 
 fn tilts() -> Vec<(Tilt, Exact)> {
-    let mut out: Vec<(Tilt, Exact)> = [(1, 1), (3, 4), (1, 2), (1, 3), (1, 4), (2, 7), (5, 9), (1, 10), (0, 1)]
-        .iter()
-        .map(|&(n, d)| (c2(n, d), Exact::from(q(n, d))))
-        .collect();
+    let mut out: Vec<(Tilt, Exact)> = [
+        (1, 1),
+        (3, 4),
+        (1, 2),
+        (1, 3),
+        (1, 4),
+        (2, 7),
+        (5, 9),
+        (1, 10),
+        (0, 1),
+    ]
+    .iter()
+    .map(|&(n, d)| (c2(n, d), Exact::from(q(n, d))))
+    .collect();
     out.push((Tilt::Symbolic, Exact::symbol(kernel::C2)));
     out
 }
@@ -155,11 +172,17 @@ fn uniform_transcendental_weight() {
         let d = delta(&tilt, 6);
         for l in 1..=9 {
             let w = g.coeff(l).weights();
-            assert!(w.is_empty() || w == vec![2 * l as i64 - 2], "{tilt:?} Gamma L={l}: {w:?}");
+            assert!(
+                w.is_empty() || w == vec![2 * l as i64 - 2],
+                "{tilt:?} Gamma L={l}: {w:?}"
+            );
         }
         for l in 1..=6 {
             let w = d.coeff(l).weights();
-            assert!(w.is_empty() || w == vec![2 * l as i64], "{tilt:?} Delta L={l}: {w:?}");
+            assert!(
+                w.is_empty() || w == vec![2 * l as i64],
+                "{tilt:?} Delta L={l}: {w:?}"
+            );
         }
     }
 }
@@ -172,7 +195,11 @@ fn right_angle_is_trivial() {
     let s = gamma(&t, 12);
     let d = delta(&t, 8);
     for l in 0..=12 {
-        let expected = if l == 1 { Exact::from(4) } else { Exact::zero() };
+        let expected = if l == 1 {
+            Exact::from(4)
+        } else {
+            Exact::zero()
+        };
         assert_eq!(*s.coeff(l), expected);
     }
     for l in 0..=8 {
@@ -191,10 +218,18 @@ fn symbolic_tilt_specialises_to_rational_tilts() {
         let g = gamma(&c2(n, d), 10);
         let dl = delta(&c2(n, d), 7);
         for l in 0..=10 {
-            assert_eq!(g_sym.coeff(l).substitute(kernel::C2, &value), *g.coeff(l), "Gamma c2={n}/{d} L={l}");
+            assert_eq!(
+                g_sym.coeff(l).substitute(kernel::C2, &value),
+                *g.coeff(l),
+                "Gamma c2={n}/{d} L={l}"
+            );
         }
         for l in 0..=7 {
-            assert_eq!(d_sym.coeff(l).substitute(kernel::C2, &value), *dl.coeff(l), "Delta c2={n}/{d} L={l}");
+            assert_eq!(
+                d_sym.coeff(l).substitute(kernel::C2, &value),
+                *dl.coeff(l),
+                "Delta c2={n}/{d} L={l}"
+            );
         }
     }
 }

@@ -26,7 +26,9 @@ fn rat(n: i64, d: i64) -> Rational {
 
 fn decimal(e: &Expr) -> (Rational, Option<Rational>) {
     match &e.node {
-        Node::Decimal { value, uncertainty, .. } => (value.clone(), uncertainty.clone()),
+        Node::Decimal {
+            value, uncertainty, ..
+        } => (value.clone(), uncertainty.clone()),
         other => panic!("not a decimal: {other:?}"),
     }
 }
@@ -79,7 +81,10 @@ fn spellings_give_the_documented_structure() {
         ("1.5 (3 + 1)", "1.5*(3 + 1)"),
         ("3 × 4 · 5", "3*4*5"),
         ("\u{2212}1", "-1"),
-        ("-876*zeta(6)\n  - 32*zeta(3)^2", "(-876*zeta(6)) - 32*zeta(3)^2"),
+        (
+            "-876*zeta(6)\n  - 32*zeta(3)^2",
+            "(-876*zeta(6)) - 32*zeta(3)^2",
+        ),
         ("x2", "x2"),
         ("pix", "pix"),
         ("z3x", "z3x"),
@@ -87,7 +92,12 @@ fn spellings_give_the_documented_structure() {
     for (a, b) in same {
         assert_eq!(p(a), p(b), "{a:?} versus {b:?}");
     }
-    let differ = [("2^3^2", "(2^3)^2"), ("-pi^2", "(-pi)^2"), ("1.5(3)", "1.5*3"), ("L1", "l1")];
+    let differ = [
+        ("2^3^2", "(2^3)^2"),
+        ("-pi^2", "(-pi)^2"),
+        ("1.5(3)", "1.5*3"),
+        ("L1", "l1"),
+    ];
     for (a, b) in differ {
         assert_ne!(p(a), p(b), "{a:?} versus {b:?}");
     }
@@ -102,18 +112,39 @@ fn nodes_of_simple_inputs() {
     assert_eq!(p("g").node, Node::Symbol("g".into()));
     assert_eq!(p("L1").node, Node::Symbol("L1".into()));
     match p("Gamma(pi/4)").node {
-        Node::Functional { kind: FunctionalKind::Gamma, angle: Angle::Radians(a) } => assert_eq!(*a, p("pi/4")),
+        Node::Functional {
+            kind: FunctionalKind::Gamma,
+            angle: Angle::Radians(a),
+        } => assert_eq!(*a, p("pi/4")),
         other => panic!("{other:?}"),
     }
     match p("Delta(c2=1/3)").node {
-        Node::Functional { kind: FunctionalKind::Delta, angle: Angle::Cos2(a) } => assert_eq!(*a, p("1/3")),
+        Node::Functional {
+            kind: FunctionalKind::Delta,
+            angle: Angle::Cos2(a),
+        } => assert_eq!(*a, p("1/3")),
         other => panic!("{other:?}"),
     }
-    assert_eq!(p("Gamma(c2)").node, Node::Functional { kind: FunctionalKind::Gamma, angle: Angle::SymbolicCos2 });
-    assert_eq!(p("Gamma[C2]").node, Node::Functional { kind: FunctionalKind::Gamma, angle: Angle::SymbolicCos2 });
+    assert_eq!(
+        p("Gamma(c2)").node,
+        Node::Functional {
+            kind: FunctionalKind::Gamma,
+            angle: Angle::SymbolicCos2
+        }
+    );
+    assert_eq!(
+        p("Gamma[C2]").node,
+        Node::Functional {
+            kind: FunctionalKind::Gamma,
+            angle: Angle::SymbolicCos2
+        }
+    );
     // A bracketed c2 is an angle in radians that happens to be a symbol.
     match p("Gamma((c2))").node {
-        Node::Functional { angle: Angle::Radians(a), .. } => assert_eq!(a.node, Node::Symbol("c2".into())),
+        Node::Functional {
+            angle: Angle::Radians(a),
+            ..
+        } => assert_eq!(a.node, Node::Symbol("c2".into())),
         other => panic!("{other:?}"),
     }
 }
@@ -127,17 +158,44 @@ fn decimal_values_and_uncertainties() {
     assert_eq!(decimal(&p("1240.9(2)")), (rat(12409, 10), Some(rat(2, 10))));
     assert_eq!(decimal(&p("1.5(13)")), (rat(3, 2), Some(rat(13, 10))));
     assert_eq!(decimal(&p("15(3)")), (rat(15, 1), Some(rat(3, 1))));
-    assert_eq!(decimal(&p("6.67430(15)e-11")), (Rational::from((667430, Integer::from(10).pow(16u32))), Some(Rational::from((15, Integer::from(10).pow(16u32))))));
-    assert_eq!(decimal(&p("1.2e-3 ± 1e-4")), (rat(12, 10000), Some(rat(1, 10000))));
-    assert_eq!(decimal(&p("1.2e-3 +- 1e-4")), (rat(12, 10000), Some(rat(1, 10000))));
-    assert_eq!(decimal(&p("1.2e-3+/-1e-4")), (rat(12, 10000), Some(rat(1, 10000))));
-    assert_eq!(decimal(&p("-1240.9 ± 0.2").node_neg()), (rat(12409, 10), Some(rat(1, 5))));
+    assert_eq!(
+        decimal(&p("6.67430(15)e-11")),
+        (
+            Rational::from((667430, Integer::from(10).pow(16u32))),
+            Some(Rational::from((15, Integer::from(10).pow(16u32))))
+        )
+    );
+    assert_eq!(
+        decimal(&p("1.2e-3 ± 1e-4")),
+        (rat(12, 10000), Some(rat(1, 10000)))
+    );
+    assert_eq!(
+        decimal(&p("1.2e-3 +- 1e-4")),
+        (rat(12, 10000), Some(rat(1, 10000)))
+    );
+    assert_eq!(
+        decimal(&p("1.2e-3+/-1e-4")),
+        (rat(12, 10000), Some(rat(1, 10000)))
+    );
+    assert_eq!(
+        decimal(&p("-1240.9 ± 0.2").node_neg()),
+        (rat(12409, 10), Some(rat(1, 5)))
+    );
     assert_eq!(decimal(&p("1.2E+3")), (rat(1200, 1), None));
     assert_eq!(decimal(&p("1.2*^-3")), (rat(12, 10000), None));
     assert_eq!(decimal(&p("2e3")), (rat(2000, 1), None));
     assert_eq!(decimal(&p(".5")), (rat(1, 2), None));
     assert_eq!(decimal(&p("2.")), (rat(2, 1), None));
-    assert_eq!(decimal(&p("0.1000000000000000000001")), (Rational::from((Integer::from(10).pow(21u32) + 1, Integer::from(10).pow(22u32))), None));
+    assert_eq!(
+        decimal(&p("0.1000000000000000000001")),
+        (
+            Rational::from((
+                Integer::from(10).pow(21u32) + 1,
+                Integer::from(10).pow(22u32)
+            )),
+            None
+        )
+    );
     match p("-1240.9").node {
         Node::Neg(inner) => assert_eq!(decimal(&inner), (rat(-(-12409), 10), None)),
         other => panic!("{other:?}"),
@@ -209,7 +267,10 @@ fn rejected_inputs_and_their_messages() {
     ];
     for (input, at, phrase) in cases {
         let m = err(input);
-        assert!(m.starts_with(&format!("<test>:{at}: ")), "{input:?}: wrong place in\n{m}");
+        assert!(
+            m.starts_with(&format!("<test>:{at}: ")),
+            "{input:?}: wrong place in\n{m}"
+        );
         assert!(m.contains(phrase), "{input:?}: no {phrase:?} in\n{m}");
     }
 }
@@ -223,7 +284,11 @@ fn message_shows_the_line_and_a_caret() {
 #[test]
 fn place_shifts_positions_into_a_larger_file() {
     let m = parse("1 + zeta(1)", "runs/cusp.yaml", Some((7, 12))).unwrap_err();
-    assert!(m.message().starts_with("runs/cusp.yaml:7:16: zeta(1) diverges"), "{m}");
+    assert!(
+        m.message()
+            .starts_with("runs/cusp.yaml:7:16: zeta(1) diverges"),
+        "{m}"
+    );
     let m = parse("1 +\n $", "runs/cusp.yaml", Some((7, 12))).unwrap_err();
     assert!(m.message().starts_with("runs/cusp.yaml:8:2: "), "{m}");
 }
@@ -296,7 +361,10 @@ fn printing_then_parsing_gives_the_same_tree() {
         assert_eq!(p(&printed), e, "{s:?} printed as {printed:?}");
     }
     assert_eq!(p("2pi^2").to_string(), "2*pi^2");
-    assert_eq!(p("-zeta(2)/2*Gamma(pi/4)").to_string(), "-zeta(2)/2*Gamma(pi/4)");
+    assert_eq!(
+        p("-zeta(2)/2*Gamma(pi/4)").to_string(),
+        "-zeta(2)/2*Gamma(pi/4)"
+    );
     assert_eq!(p("a - (b - c)").to_string(), "a - (b - c)");
 }
 
@@ -313,7 +381,11 @@ fn long_sums_parse_as_shallow_trees() {
     fn depth(e: &loopwise::expr::Expr) -> usize {
         use loopwise::expr::Node;
         match &e.node {
-            Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => 1 + depth(a).max(depth(b)),
+            Node::Add(a, b)
+            | Node::Sub(a, b)
+            | Node::Mul(a, b)
+            | Node::Div(a, b)
+            | Node::Pow(a, b) => 1 + depth(a).max(depth(b)),
             Node::Neg(a) | Node::Log(a) => 1 + depth(a),
             _ => 1,
         }

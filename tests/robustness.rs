@@ -65,9 +65,10 @@ orders:
 /// Characters mutations draw from: the language's own tokens, YAML syntax,
 /// and unicode that is not part of either.
 const ALPHABET: &[char] = &[
-    '0', '1', '2', '9', '.', 'e', 'E', '+', '-', '*', '/', '^', '(', ')', '[', ']', ',', '=', ' ', '\n', '\t', 'p', 'i',
-    'z', 'l', 'g', 'c', 'x', '_', 'Z', 'G', 'D', ':', '"', '\'', '#', '{', '}', '&', '!', '|', '>', '-', '±', 'π', 'ζ', 'Γ',
-    'Δ', '−', '×', '\u{a0}', 'é', '日', '🦀', '\u{0}', '\u{feff}', '\u{200b}', '\\',
+    '0', '1', '2', '9', '.', 'e', 'E', '+', '-', '*', '/', '^', '(', ')', '[', ']', ',', '=', ' ',
+    '\n', '\t', 'p', 'i', 'z', 'l', 'g', 'c', 'x', '_', 'Z', 'G', 'D', ':', '"', '\'', '#', '{',
+    '}', '&', '!', '|', '>', '-', '±', 'π', 'ζ', 'Γ', 'Δ', '−', '×', '\u{a0}', 'é', '日', '🦀',
+    '\u{0}', '\u{feff}', '\u{200b}', '\\',
 ];
 
 #[derive(Debug, Clone)]
@@ -116,7 +117,9 @@ fn has_free_parts(text: &str) -> bool {
     };
     let mut free = false;
     loopwise::expr::for_each_symbol(&e, &mut |_, _| free = true);
-    free || text.to_lowercase().contains("gamma") || text.to_lowercase().contains("delta") || text.contains(['Γ', 'Δ'])
+    free || text.to_lowercase().contains("gamma")
+        || text.to_lowercase().contains("delta")
+        || text.contains(['Γ', 'Δ'])
 }
 
 /// The property for expressions: a clean result, a faithful printed form,
@@ -126,13 +129,18 @@ fn check_expression(input: &str) -> Result<(), TestCaseError> {
     let e = match parse(input, "<fuzz>", None) {
         Ok(e) => e,
         Err(err) => {
-            prop_assert!(err.message().starts_with("<fuzz>:1:") || err.message().starts_with("<fuzz>:"), "{}", err);
+            prop_assert!(
+                err.message().starts_with("<fuzz>:1:") || err.message().starts_with("<fuzz>:"),
+                "{}",
+                err
+            );
             return Ok(());
         }
     };
     let printed = e.to_string();
-    let again = parse(&printed, "<printed>", None)
-        .map_err(|err| TestCaseError::fail(format!("{input:?} printed as {printed:?} fails:\n{err}")))?;
+    let again = parse(&printed, "<printed>", None).map_err(|err| {
+        TestCaseError::fail(format!("{input:?} printed as {printed:?} fails:\n{err}"))
+    })?;
     prop_assert_eq!(&again, &e, "{:?} printed as {:?}", input, printed);
     let mzv = |s: &[u32], p: u32| loopwise::mzv::mzv(s, p);
     let evaluate_at = |tree: &loopwise::expr::Expr| {
@@ -143,34 +151,62 @@ fn check_expression(input: &str) -> Result<(), TestCaseError> {
     let numeric = evaluate_at(&e);
     match (&numeric, evaluate_at(&again)) {
         (Ok(a), Ok(b)) => {
-            prop_assert!(a.value.is_finite() && a.uncertainty.is_finite() && a.uncertainty >= 0, "{input:?}: {a:?}");
-            prop_assert_eq!(&a.value, &b.value, "{:?} printed as {:?} changes its value", input, printed);
-            prop_assert_eq!(&a.uncertainty, &b.uncertainty, "{:?} printed as {:?} changes its uncertainty", input, printed);
+            prop_assert!(
+                a.value.is_finite() && a.uncertainty.is_finite() && a.uncertainty >= 0,
+                "{input:?}: {a:?}"
+            );
+            prop_assert_eq!(
+                &a.value,
+                &b.value,
+                "{:?} printed as {:?} changes its value",
+                input,
+                printed
+            );
+            prop_assert_eq!(
+                &a.uncertainty,
+                &b.uncertainty,
+                "{:?} printed as {:?} changes its uncertainty",
+                input,
+                printed
+            );
         }
         (Err((span, message)), Err(_)) => {
-            prop_assert!(span.end <= input.len() && span.start <= span.end, "{input:?}: span {span:?} outside the input");
+            prop_assert!(
+                span.end <= input.len() && span.start <= span.end,
+                "{input:?}: span {span:?} outside the input"
+            );
             prop_assert!(!message.is_empty(), "{input:?}: empty message");
         }
-        (a, b) => prop_assert!(false, "{input:?} and its printed form {printed:?} evaluate differently: {a:?} / {b:?}"),
+        (a, b) => prop_assert!(
+            false,
+            "{input:?} and its printed form {printed:?} evaluate differently: {a:?} / {b:?}"
+        ),
     }
     let catalogue = Catalogue::builtin().map_err(|e| TestCaseError::fail(e.to_string()))?;
     match Quantity::resolve(input, &catalogue) {
         Err(err) => prop_assert!(
-            err.message().starts_with("<quantity>:") || err.message().starts_with("unknown quantity"),
+            err.message().starts_with("<quantity>:")
+                || err.message().starts_with("unknown quantity"),
             "{input:?}: resolution error without a place: {err}"
         ),
         Ok(q) => match q.expand(3, &mut |_, _, _| {}) {
             Err(err) => prop_assert!(
-                err.message().starts_with("<quantity>:") || err.message().starts_with("definition of"),
+                err.message().starts_with("<quantity>:")
+                    || err.message().starts_with("definition of"),
                 "{input:?}: expansion error without a place: {err}"
             ),
             // A constant read exactly and read numerically is one number.
             Ok(series) if !has_free_parts(input) => {
                 if let (Ok(n), Ok(x)) = (&numeric, series.coeff(0).evaluate(128)) {
                     if n.is_exact() && series.coeffs().iter().skip(1).all(|c| c.is_zero()) {
-                        let scale = rug::Float::with_val(128, n.value.abs_ref()).max(&rug::Float::with_val(128, 1));
+                        let scale = rug::Float::with_val(128, n.value.abs_ref())
+                            .max(&rug::Float::with_val(128, 1));
                         let gap = rug::Float::with_val(128, &x - &n.value).abs() / scale;
-                        prop_assert!(gap < 1e-25, "{input:?}: exact {x} against numerical {}", n.value);
+                        prop_assert!(
+                            gap < 1e-25,
+                            "{input:?}: exact {x} against numerical {}",
+                            n.value
+                        );
                     }
                 }
             }
@@ -187,13 +223,20 @@ fn check_file(input: &str) -> Result<(), TestCaseError> {
             let catalogue = Catalogue::builtin().map_err(|e| TestCaseError::fail(e.to_string()))?;
             if file.orders.iter().all(|o| o.loop_order <= 6) {
                 match compare::check(&file, &catalogue, 20, &mut |_, _, _| {}) {
-                    Err(err) => prop_assert!(err.message().contains("fuzz.yaml"), "a check error that names no file: {}", err),
+                    Err(err) => prop_assert!(
+                        err.message().contains("fuzz.yaml"),
+                        "a check error that names no file: {}",
+                        err
+                    ),
                     // Nothing is silently dropped: every supplied order gets a verdict.
                     Ok(c) => {
                         for o in &file.orders {
                             prop_assert!(
-                                c.orders.iter().any(|r| r.loop_order == o.loop_order && r.supplied.is_some()),
-                                "order {} of the file has no verdict", o.loop_order
+                                c.orders
+                                    .iter()
+                                    .any(|r| r.loop_order == o.loop_order && r.supplied.is_some()),
+                                "order {} of the file has no verdict",
+                                o.loop_order
                             );
                         }
                     }
@@ -223,7 +266,11 @@ fn well_formed() -> impl Strategy<Value = String> {
     ];
     leaf.prop_recursive(4, 24, 3, |inner| {
         prop_oneof![
-            (inner.clone(), prop::sample::select(vec![" + ", " - ", "*", "/", " * "]), inner.clone())
+            (
+                inner.clone(),
+                prop::sample::select(vec![" + ", " - ", "*", "/", " * "]),
+                inner.clone()
+            )
                 .prop_map(|(a, op, b)| format!("({a}){op}({b})")),
             (inner.clone(), 1u32..4).prop_map(|(a, k)| format!("({a})^{k}")),
             inner.clone().prop_map(|a| format!("-({a})")),
@@ -235,29 +282,52 @@ fn well_formed() -> impl Strategy<Value = String> {
 fn generated_expressions(cases: u32) {
     runner(cases)
         .run(&well_formed(), |s| {
-            prop_assert!(parse(&s, "<gen>", None).is_ok(), "well-formed {s:?} refused: {}", parse(&s, "<gen>", None).unwrap_err());
+            prop_assert!(
+                parse(&s, "<gen>", None).is_ok(),
+                "well-formed {s:?} refused: {}",
+                parse(&s, "<gen>", None).unwrap_err()
+            );
             check_expression(&s)
         })
         .unwrap();
 }
 
 fn runner(cases: u32) -> TestRunner {
-    TestRunner::new(Config { cases, failure_persistence: None, ..Config::default() })
+    TestRunner::new(Config {
+        cases,
+        failure_persistence: None,
+        ..Config::default()
+    })
 }
 
 fn random_expressions(cases: u32) {
-    let strategy = prop::collection::vec(prop::sample::select(ALPHABET), 0..60).prop_map(|v| v.into_iter().collect::<String>());
-    runner(cases).run(&strategy, |s| check_expression(&s)).unwrap();
+    let strategy = prop::collection::vec(prop::sample::select(ALPHABET), 0..60)
+        .prop_map(|v| v.into_iter().collect::<String>());
+    runner(cases)
+        .run(&strategy, |s| check_expression(&s))
+        .unwrap();
 }
 
 fn mutated_expressions(cases: u32) {
-    let strategy = (prop::sample::select(SEED_EXPRESSIONS), prop::collection::vec(edit(), 1..8));
-    runner(cases).run(&strategy, |(seed, edits)| check_expression(&mutate(seed, &edits))).unwrap();
+    let strategy = (
+        prop::sample::select(SEED_EXPRESSIONS),
+        prop::collection::vec(edit(), 1..8),
+    );
+    runner(cases)
+        .run(&strategy, |(seed, edits)| {
+            check_expression(&mutate(seed, &edits))
+        })
+        .unwrap();
 }
 
 fn mutated_files(cases: u32) {
-    let strategy = (prop::sample::select(&[SEED_FILE, SEED_CHECK][..]), prop::collection::vec(edit(), 1..10));
-    runner(cases).run(&strategy, |(seed, edits)| check_file(&mutate(seed, &edits))).unwrap();
+    let strategy = (
+        prop::sample::select(&[SEED_FILE, SEED_CHECK][..]),
+        prop::collection::vec(edit(), 1..10),
+    );
+    runner(cases)
+        .run(&strategy, |(seed, edits)| check_file(&mutate(seed, &edits)))
+        .unwrap();
 }
 
 #[test]

@@ -3,9 +3,9 @@
 
 use loopwise::catalogue::Catalogue;
 use loopwise::coupling::Coupling;
-use loopwise::prediction::Quantity;
 use loopwise::error::ErrorKind;
 use loopwise::expr::{parse, Node};
+use loopwise::prediction::Quantity;
 use loopwise::seriesfile::{parse_series_text, read_series_file, Normalisation};
 use rug::Rational;
 
@@ -53,10 +53,17 @@ fn a_full_file_reads_back_everything() {
     assert_eq!(f.normalisation, Some(Normalisation::E));
     assert_eq!(f.symbols, ["l1", "l2", "l3"]);
     let pred = f.prediction.as_ref().unwrap();
-    assert_eq!(pred.expr, parse("-zeta(2)/2*Gamma(pi/4) + Delta(0)/4", "t", None).unwrap());
+    assert_eq!(
+        pred.expr,
+        parse("-zeta(2)/2*Gamma(pi/4) + Delta(0)/4", "t", None).unwrap()
+    );
     assert_eq!((pred.line, pred.column), (2, 14));
     assert_eq!(f.catalogue_name(), None);
-    let about: Vec<(&str, &str)> = f.about.iter().map(|(k, v)| (k.as_str(), v.as_str())).collect();
+    let about: Vec<(&str, &str)> = f
+        .about
+        .iter()
+        .map(|(k, v)| (k.as_str(), v.as_str()))
+        .collect();
     assert_eq!(
         about,
         [
@@ -81,7 +88,12 @@ fn a_full_file_reads_back_everything() {
     assert_eq!((v.line, v.column), (23, 12));
     match &v.expr.node {
         Node::Decimal { value, .. } => {
-            assert_eq!(*value, "1000000000000000000001/10000000000000000000000".parse::<Rational>().unwrap())
+            assert_eq!(
+                *value,
+                "1000000000000000000001/10000000000000000000000"
+                    .parse::<Rational>()
+                    .unwrap()
+            )
         }
         other => panic!("{other:?}"),
     }
@@ -98,50 +110,93 @@ fn a_full_file_reads_back_everything() {
 
 #[test]
 fn catalogue_names_are_bare_names() {
-    let f = parse_series_text("prediction: cusp\ncoupling: lambda\norders:\n  - loop: 1\n    exact: 1\n", "f.yaml").unwrap();
+    let f = parse_series_text(
+        "prediction: cusp\ncoupling: lambda\norders:\n  - loop: 1\n    exact: 1\n",
+        "f.yaml",
+    )
+    .unwrap();
     assert_eq!(f.catalogue_name(), Some("cusp"));
     assert_eq!(f.coupling, Coupling::Lambda);
 }
 
 #[test]
 fn unknown_keys_are_located_and_get_a_suggestion() {
-    let text = "coupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n  - loop: 2\n    exat: \"-4\"\n";
+    let text =
+        "coupling: g2\norders:\n  - loop: 1\n    exact: \"4\"\n  - loop: 2\n    exat: \"-4\"\n";
     let e = err(text);
-    assert_eq!(e.message(), "unknown key `exat` at line 6 column 5 of runs/cusp.yaml; did you mean `exact`?");
+    assert_eq!(
+        e.message(),
+        "unknown key `exat` at line 6 column 5 of runs/cusp.yaml; did you mean `exact`?"
+    );
     let e = err("coupling: g2\nnormalization: E\norders: [{loop: 1, exact: 1}]\n");
     assert_eq!(e.message(), "unknown key `normalization` at line 2 column 1 of runs/cusp.yaml; did you mean `normalisation`?");
     let e = err("coupling: g2\nwhatever: 1\norders: [{loop: 1, exact: 1}]\n");
-    assert!(e.message().contains("line 2 column 1") && e.message().contains("the keys here are `prediction`"), "{e}");
+    assert!(
+        e.message().contains("line 2 column 1")
+            && e.message().contains("the keys here are `prediction`"),
+        "{e}"
+    );
 }
 
 #[test]
 fn wrong_coupling_name() {
     let e = err("coupling: g3\norders:\n  - loop: 1\n    exact: 4\n");
-    assert!(e.message().starts_with("unknown coupling convention 'g3'"), "{e}");
-    assert!(e.message().ends_with("at line 1 column 11 of runs/cusp.yaml"), "{e}");
+    assert!(
+        e.message().starts_with("unknown coupling convention 'g3'"),
+        "{e}"
+    );
+    assert!(
+        e.message()
+            .ends_with("at line 1 column 11 of runs/cusp.yaml"),
+        "{e}"
+    );
 }
 
 #[test]
 fn missing_parts() {
-    assert!(err("coupling: g2\n").message().contains("missing `orders:`"));
-    assert!(err("orders:\n  - loop: 1\n    exact: 4\n").message().contains("missing `coupling:`"));
-    assert!(err("coupling: g2\norders: []\n").message().contains("has no entries"));
+    assert!(err("coupling: g2\n")
+        .message()
+        .contains("missing `orders:`"));
+    assert!(err("orders:\n  - loop: 1\n    exact: 4\n")
+        .message()
+        .contains("missing `coupling:`"));
+    assert!(err("coupling: g2\norders: []\n")
+        .message()
+        .contains("has no entries"));
     assert!(err("").message().contains("is empty"));
     assert!(err("# only a comment\n").message().contains("is empty"));
     let e = err("coupling: g2\norders:\n  - loop: 3\n    label: x\n");
     assert!(e.message().contains("needs `exact:` or `value:`"), "{e}");
     let e = err("coupling: g2\norders:\n  - exact: 3\n");
-    assert!(e.message().contains("order entry 1 (line 3)") && e.message().contains("no `loop:`"), "{e}");
+    assert!(
+        e.message().contains("order entry 1 (line 3)") && e.message().contains("no `loop:`"),
+        "{e}"
+    );
 }
 
 #[test]
 fn loop_orders_out_of_range_or_repeated() {
     let e = err("coupling: g2\norders:\n  - loop: 1\n    exact: 4\n  - loop: 1\n    exact: 5\n");
-    assert_eq!(e.message(), "loop order 1 given twice, at line 3 and at line 5 of runs/cusp.yaml");
-    for (bad, kind) in [("0", ErrorKind::Range), ("-2", ErrorKind::Range), ("201", ErrorKind::Range), ("99999999999999999999999", ErrorKind::Range), ("1.5", ErrorKind::Input), ("two", ErrorKind::Input)] {
-        let e = err(&format!("coupling: g2\norders:\n  - loop: {bad}\n    exact: 4\n"));
+    assert_eq!(
+        e.message(),
+        "loop order 1 given twice, at line 3 and at line 5 of runs/cusp.yaml"
+    );
+    for (bad, kind) in [
+        ("0", ErrorKind::Range),
+        ("-2", ErrorKind::Range),
+        ("201", ErrorKind::Range),
+        ("99999999999999999999999", ErrorKind::Range),
+        ("1.5", ErrorKind::Input),
+        ("two", ErrorKind::Input),
+    ] {
+        let e = err(&format!(
+            "coupling: g2\norders:\n  - loop: {bad}\n    exact: 4\n"
+        ));
         assert_eq!(e.kind(), kind, "{bad}: {e}");
-        assert!(e.message().contains(bad) && e.message().contains("at line 3 column 11"), "{bad}: {e}");
+        assert!(
+            e.message().contains(bad) && e.message().contains("at line 3 column 11"),
+            "{bad}: {e}"
+        );
     }
 }
 
@@ -149,20 +204,38 @@ fn loop_orders_out_of_range_or_repeated() {
 fn expression_errors_point_into_the_file() {
     let text = "coupling: g2\norders:\n  - loop: 1\n    exact: \"4 + zeta(1)\"\n";
     let e = err(text);
-    assert!(e.message().starts_with("runs/cusp.yaml:4:17: zeta(1) diverges"), "{e}");
+    assert!(
+        e.message()
+            .starts_with("runs/cusp.yaml:4:17: zeta(1) diverges"),
+        "{e}"
+    );
     let text = "coupling: g2\norders:\n  - loop: 1\n    exact: 4 +\n";
     let e = err(text);
-    assert!(e.message().starts_with("runs/cusp.yaml:4:15: expected"), "{e}");
+    assert!(
+        e.message().starts_with("runs/cusp.yaml:4:15: expected"),
+        "{e}"
+    );
     let text = "coupling: g2\nsymbols: [l1]\norders:\n  - loop: 1\n    exact: 2 l1 x\n";
     let e = err(text);
-    assert!(e.message().starts_with("runs/cusp.yaml:5:17: undeclared symbol `x`"), "{e}");
+    assert!(
+        e.message()
+            .starts_with("runs/cusp.yaml:5:17: undeclared symbol `x`"),
+        "{e}"
+    );
     // A prediction's names are checked against the catalogue as well, when
     // the prediction is built; the message still points into the file.
     let text = "coupling: g2\nprediction: 'Gamma(pi/4) + y'\norders: [{loop: 1, exact: 1}]\n";
     let file = parse_series_text(text, "runs/cusp.yaml").unwrap();
     let e = Quantity::from_file(&file, &Catalogue::builtin().unwrap()).unwrap_err();
-    assert!(e.message().starts_with("runs/cusp.yaml:2:28: unknown name `y`"), "{e}");
-    assert!(e.message().contains("2 | prediction: 'Gamma(pi/4) + y'"), "{e}");
+    assert!(
+        e.message()
+            .starts_with("runs/cusp.yaml:2:28: unknown name `y`"),
+        "{e}"
+    );
+    assert!(
+        e.message().contains("2 | prediction: 'Gamma(pi/4) + y'"),
+        "{e}"
+    );
 }
 
 /// Values over several lines (block scalars, folded plain scalars, escapes)
@@ -171,16 +244,30 @@ fn expression_errors_point_into_the_file() {
 fn errors_in_multi_line_values_point_at_their_line() {
     let block = "coupling: g2\norders:\n  - loop: 1\n    exact: |\n      4 + zeta(3)\n      + $\n";
     let e = err(block);
-    assert!(e.message().starts_with("runs/cusp.yaml:6:9: expected"), "{e}");
+    assert!(
+        e.message().starts_with("runs/cusp.yaml:6:9: expected"),
+        "{e}"
+    );
     assert!(e.message().contains("6 |       + $\n  |         ^"), "{e}");
     let folded = "coupling: g2\norders:\n  - loop: 1\n    exact: 4 + zeta(3)\n      + zeta(1)\n";
     let e = err(folded);
-    assert!(e.message().starts_with("runs/cusp.yaml:5:9: zeta(1) diverges"), "{e}");
+    assert!(
+        e.message()
+            .starts_with("runs/cusp.yaml:5:9: zeta(1) diverges"),
+        "{e}"
+    );
     let escaped = "coupling: g2\norders:\n  - loop: 1\n    exact: \"\\u03b6(3) + zeta(1)\"\n";
     let e = err(escaped);
-    assert!(e.message().starts_with("runs/cusp.yaml:4:25: zeta(1) diverges"), "{e}");
+    assert!(
+        e.message()
+            .starts_with("runs/cusp.yaml:4:25: zeta(1) diverges"),
+        "{e}"
+    );
     let f = parse_series_text(block.replace("+ $", "+ 1").as_str(), "f").unwrap();
-    assert_eq!(f.orders[0].exact.as_ref().unwrap().expr, parse("4 + zeta(3) + 1", "t", None).unwrap());
+    assert_eq!(
+        f.orders[0].exact.as_ref().unwrap().expr,
+        parse("4 + zeta(3) + 1", "t", None).unwrap()
+    );
 }
 
 #[test]
@@ -196,13 +283,26 @@ fn other_mistakes() {
     let e = err("coupling: g2\norders: [{loop: 1, uncertainty: 0.1}]\n");
     assert!(e.message().contains("needs `exact:` or `value:`"), "{e}");
     let e = err("coupling: g2\norders: [{loop: 1, value: 1.5(2), uncertainty: 0.1}]\n");
-    assert!(e.message().contains("without an uncertainty of its own"), "{e}");
+    assert!(
+        e.message().contains("without an uncertainty of its own"),
+        "{e}"
+    );
     let e = err("coupling: g2\norders: 5\n");
-    assert!(e.message().starts_with("runs/cusp.yaml: ") && e.message().contains("line 2"), "{e}");
+    assert!(
+        e.message().starts_with("runs/cusp.yaml: ") && e.message().contains("line 2"),
+        "{e}"
+    );
     let e = err("coupling: [g2\n");
     assert!(e.message().starts_with("runs/cusp.yaml: "), "{e}");
-    let f = parse_series_text("coupling: a\norders: [{loop: 2, value: 1240, uncertainty: 20}]\n", "f").unwrap();
-    assert_eq!(f.orders[0].value.as_ref().unwrap().expr, parse("1240 ± 20", "t", None).unwrap());
+    let f = parse_series_text(
+        "coupling: a\norders: [{loop: 2, value: 1240, uncertainty: 20}]\n",
+        "f",
+    )
+    .unwrap();
+    assert_eq!(
+        f.orders[0].value.as_ref().unwrap().expr,
+        parse("1240 ± 20", "t", None).unwrap()
+    );
     assert_eq!(f.coupling, Coupling::A);
 }
 

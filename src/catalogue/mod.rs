@@ -17,19 +17,37 @@ use crate::coupling::Coupling;
 use crate::error::{Error, Result};
 use crate::suggest::did_you_mean;
 
-fn coupling_name<'de, D: serde::Deserializer<'de>>(d: D) -> std::result::Result<Coupling, D::Error> {
+fn coupling_name<'de, D: serde::Deserializer<'de>>(
+    d: D,
+) -> std::result::Result<Coupling, D::Error> {
     let text = String::deserialize(d)?;
-    text.parse().map_err(|e: Error| serde::de::Error::custom(e.message()))
+    text.parse()
+        .map_err(|e: Error| serde::de::Error::custom(e.message()))
 }
 
 /// The built-in files, in the order `list` shows them. Adding a quantity means
 /// adding its file to series/catalogue/ and one line here.
 const BUILTIN: &[(&str, &str)] = &[
-    ("cusp.yaml", include_str!("../../series/catalogue/cusp.yaml")),
-    ("scaling-function.yaml", include_str!("../../series/catalogue/scaling-function.yaml")),
-    ("octagon.yaml", include_str!("../../series/catalogue/octagon.yaml")),
-    ("hexagon.yaml", include_str!("../../series/catalogue/hexagon.yaml")),
-    ("octagon-constant.yaml", include_str!("../../series/catalogue/octagon-constant.yaml")),
+    (
+        "cusp.yaml",
+        include_str!("../../series/catalogue/cusp.yaml"),
+    ),
+    (
+        "scaling-function.yaml",
+        include_str!("../../series/catalogue/scaling-function.yaml"),
+    ),
+    (
+        "octagon.yaml",
+        include_str!("../../series/catalogue/octagon.yaml"),
+    ),
+    (
+        "hexagon.yaml",
+        include_str!("../../series/catalogue/hexagon.yaml"),
+    ),
+    (
+        "octagon-constant.yaml",
+        include_str!("../../series/catalogue/octagon-constant.yaml"),
+    ),
 ];
 
 /// How firmly the literature holds a formula.
@@ -89,7 +107,17 @@ pub struct Entry {
     pub origin: String,
 }
 
-const ENTRY_KEYS: &[&str] = &["name", "summary", "definition", "coupling", "status", "note", "references", "closed_form", "strong_coupling"];
+const ENTRY_KEYS: &[&str] = &[
+    "name",
+    "summary",
+    "definition",
+    "coupling",
+    "status",
+    "note",
+    "references",
+    "closed_form",
+    "strong_coupling",
+];
 const STRONG_KEYS: &[&str] = &["formula", "status", "note"];
 
 /// All known quantities, by name.
@@ -104,15 +132,22 @@ impl Catalogue {
     pub fn builtin() -> Result<Catalogue> {
         let mut c = Catalogue::default();
         for (file, text) in BUILTIN {
-            c.insert(parse_entry(text, &format!("built-in series/catalogue/{file}"))?);
+            c.insert(parse_entry(
+                text,
+                &format!("built-in series/catalogue/{file}"),
+            )?);
         }
         Ok(c)
     }
 
     /// Adds every `*.yaml` file of `dir`; an entry with a known name replaces it.
     pub fn extend_from_dir(&mut self, dir: &Path) -> Result<()> {
-        let listing = std::fs::read_dir(dir)
-            .map_err(|e| Error::io(format!("cannot read catalogue directory {}: {e}", dir.display())))?;
+        let listing = std::fs::read_dir(dir).map_err(|e| {
+            Error::io(format!(
+                "cannot read catalogue directory {}: {e}",
+                dir.display()
+            ))
+        })?;
         let mut paths: Vec<_> = listing
             .filter_map(|e| e.ok().map(|e| e.path()))
             .filter(|p| p.extension().is_some_and(|x| x == "yaml" || x == "yml"))
@@ -162,7 +197,8 @@ impl Catalogue {
         let mut out = text.to_string();
         let mut names: Vec<&str> = self.names().filter(|n| n.contains('-')).collect();
         names.sort_by_key(|n| std::cmp::Reverse(n.len()));
-        let word = |c: Option<char>| c.is_some_and(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-');
+        let word =
+            |c: Option<char>| c.is_some_and(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-');
         for name in names {
             let mut from = 0;
             while let Some(k) = out[from..].find(name) {
@@ -190,7 +226,9 @@ impl Catalogue {
 /// digits, `-` and `_`) rather than as a formula.
 pub fn looks_like_name(text: &str) -> bool {
     text.chars().next().is_some_and(|c| c.is_ascii_alphabetic())
-        && text.chars().all(|c| c.is_ascii_alphanumeric() || c == '-' || c == '_')
+        && text
+            .chars()
+            .all(|c| c.is_ascii_alphanumeric() || c == '-' || c == '_')
 }
 
 /// Reads one entry; errors name the file, line and column, and suggest keys.
@@ -200,14 +238,22 @@ pub fn parse_entry(text: &str, origin: &str) -> Result<Entry> {
     let mut entry: Entry = serde_yaml::from_str(text).map_err(|e| {
         // serde_yaml places errors raised while converting a value at the
         // document's start; point at the `coupling:` line instead.
-        let line = text.lines().position(|l| l.starts_with("coupling:")).map(|i| i + 1);
+        let line = text
+            .lines()
+            .position(|l| l.starts_with("coupling:"))
+            .map(|i| i + 1);
         match line {
-            Some(line) if e.to_string().contains("unknown coupling") => Error::input(format!("{origin}:{line}:11: {e}")),
+            Some(line) if e.to_string().contains("unknown coupling") => {
+                Error::input(format!("{origin}:{line}:11: {e}"))
+            }
             _ => yaml_error(origin, &e),
         }
     })?;
     if entry.name.trim().is_empty() || entry.name.contains(char::is_whitespace) {
-        return Err(Error::input(format!("{origin}: `name` must be one word without spaces, not {:?}", entry.name)));
+        return Err(Error::input(format!(
+            "{origin}: `name` must be one word without spaces, not {:?}",
+            entry.name
+        )));
     }
     entry.origin = origin.to_string();
     Ok(entry)
@@ -239,7 +285,13 @@ mod tests {
     #[test]
     fn builtin_catalogue_reads() {
         let c = Catalogue::builtin().unwrap();
-        for name in ["cusp", "octagon", "hexagon", "octagon-constant", "scaling-function"] {
+        for name in [
+            "cusp",
+            "octagon",
+            "hexagon",
+            "octagon-constant",
+            "scaling-function",
+        ] {
             assert!(c.get(name).is_some(), "{name}");
         }
         assert_eq!(c.get("cusp").unwrap().definition, "Gamma(pi/4)");
@@ -255,7 +307,8 @@ mod tests {
 
     #[test]
     fn unknown_key_names_file_line_and_suggestion() {
-        let text = "name: x\nsummary: s\ndefinition: Gamma(0)\nstatus: established\nrefrences: []\n";
+        let text =
+            "name: x\nsummary: s\ndefinition: Gamma(0)\nstatus: established\nrefrences: []\n";
         let e = parse_entry(text, "mine.yaml").unwrap_err();
         assert!(e.message().starts_with("mine.yaml:5:"), "{e}");
         assert!(e.message().contains("did you mean `references`"), "{e}");
@@ -266,10 +319,16 @@ mod tests {
         let c = Catalogue::builtin().unwrap();
         assert_eq!(c.get("cusp").unwrap().coupling, Coupling::G2);
         let text = "name: x\nsummary: s\ndefinition: Gamma(0)\ncoupling: a\nstatus: established\n";
-        assert_eq!(parse_entry(text, "mine.yaml").unwrap().coupling, Coupling::A);
+        assert_eq!(
+            parse_entry(text, "mine.yaml").unwrap().coupling,
+            Coupling::A
+        );
         let text = "name: x\nsummary: s\ndefinition: Gamma(0)\ncoupling: b\nstatus: established\n";
         let e = parse_entry(text, "mine.yaml").unwrap_err();
-        assert!(e.message().contains("mine.yaml:4:") && e.message().contains("unknown coupling"), "{e}");
+        assert!(
+            e.message().contains("mine.yaml:4:") && e.message().contains("unknown coupling"),
+            "{e}"
+        );
     }
 
     #[test]

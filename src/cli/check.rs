@@ -13,7 +13,7 @@ use loopwise::seriesfile::{parse_series_text, read_series_file, SeriesFile, STDI
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
-use super::{emit, DataFormatArg, Outcome, in_range};
+use super::{emit, in_range, DataFormatArg, Outcome};
 
 /// The most working digits of numerical comparisons.
 pub const MAX_DIGITS: u32 = 2000;
@@ -55,10 +55,11 @@ pub struct DemoArgs {
     pub format: DataFormatArg,
 }
 
-
 fn run_one(file: &SeriesFile, catalogue: &Catalogue, digits: u32) -> Result<compare::Comparison> {
     let mut progress = Progress::new();
-    let c = compare::check(file, catalogue, digits, &mut |what, done, total| progress.update(what, done, total));
+    let c = compare::check(file, catalogue, digits, &mut |what, done, total| {
+        progress.update(what, done, total)
+    });
     progress.finish();
     c
 }
@@ -76,17 +77,28 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     in_range("--digits", args.digits, 6, MAX_DIGITS)?;
     let format: Format = args.format.into();
     if args.files.iter().filter(|p| p.as_os_str() == "-").count() > 1 {
-        return Err(Error::input("`-` (standard input) is given more than once; it can be read only once"));
+        return Err(Error::input(
+            "`-` (standard input) is given more than once; it can be read only once",
+        ));
     }
-    let checked = |p: &PathBuf| read_series_file(p).and_then(|f| run_one(&f, catalogue, args.digits));
+    let checked =
+        |p: &PathBuf| read_series_file(p).and_then(|f| run_one(&f, catalogue, args.digits));
     // One file that cannot be used is the whole answer; among several, it is
     // one entry of the report and the others are still checked.
     if let [only] = args.files.as_slice() {
         let c = checked(only)?;
         emit(&render(&c, format)?)?;
-        return Ok(if c.agrees() { Outcome::Done } else { Outcome::Differs });
+        return Ok(if c.agrees() {
+            Outcome::Done
+        } else {
+            Outcome::Differs
+        });
     }
-    let results: Vec<(String, Result<compare::Comparison>)> = args.files.iter().map(|p| (display_name(p), checked(p))).collect();
+    let results: Vec<(String, Result<compare::Comparison>)> = args
+        .files
+        .iter()
+        .map(|p| (display_name(p), checked(p)))
+        .collect();
     let mut parts = Vec::new();
     for (name, r) in &results {
         parts.push(match r {
@@ -98,14 +110,24 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
         });
     }
     let text = match format {
-        Format::Json => format!("[\n{}]\n", parts.iter().map(|p| p.trim_end().to_string()).collect::<Vec<_>>().join(",\n")),
+        Format::Json => format!(
+            "[\n{}]\n",
+            parts
+                .iter()
+                .map(|p| p.trim_end().to_string())
+                .collect::<Vec<_>>()
+                .join(",\n")
+        ),
         Format::Yaml => parts.iter().map(|p| format!("---\n{p}")).collect(),
         _ => parts.join("\n"),
     };
     emit(&text)?;
     Ok(if results.iter().any(|(_, r)| r.is_err()) {
         Outcome::Unusable
-    } else if results.iter().any(|(_, r)| r.as_ref().is_ok_and(|c| !c.agrees())) {
+    } else if results
+        .iter()
+        .any(|(_, r)| r.as_ref().is_ok_and(|c| !c.agrees()))
+    {
         Outcome::Differs
     } else {
         Outcome::Done
@@ -119,8 +141,12 @@ pub fn demo(args: &DemoArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let c = run_one(&file, catalogue, 30)?;
     let mut text = String::new();
     if matches!(args.format, DataFormatArg::Text) {
-        text.push_str("loopwise demo: an invented group's seven-loop cusp results (fictional data, shipped\n");
-        text.push_str("in series/examples/demo-cusp.yaml) checked order by order against the prediction.\n\n");
+        text.push_str(
+            "loopwise demo: an invented group's seven-loop cusp results (fictional data, shipped\n",
+        );
+        text.push_str(
+            "in series/examples/demo-cusp.yaml) checked order by order against the prediction.\n\n",
+        );
     }
     text.push_str(&render(&c, args.format.into())?);
     emit(&text)?;

@@ -8,11 +8,11 @@ use loopwise::compare::working_bits;
 use loopwise::expr::numeric::{self, Context};
 use loopwise::expr::{self};
 use loopwise::report::{decimal, digit_place, rounded_at};
+use loopwise::Result;
 use rug::ops::Pow;
 use rug::Float;
-use loopwise::Result;
 
-use super::{emit, Outcome, in_range};
+use super::{emit, in_range, Outcome};
 
 /// The most digits `eval` prints.
 pub const MAX_DIGITS: u32 = 10_000;
@@ -64,13 +64,15 @@ fn stable_value(e: &expr::Expr, source: &str, digits: u32) -> Result<String> {
         let at = |b: u32| {
             let mut ctx = Context::new(b);
             ctx.mzv = Some(&mzv);
-            numeric::evaluate(e, &mut ctx).map_err(|f| numeric::located(source, "<expression>", None, f))
+            numeric::evaluate(e, &mut ctx)
+                .map_err(|f| numeric::located(source, "<expression>", None, f))
         };
         let low = at(bits)?;
         let high = at(bits + 64)?;
         let noise = Float::with_val(bits, &high.value - &low.value).abs();
         let scale = Float::with_val(bits, high.value.abs_ref());
-        let tolerance = Float::with_val(bits, &scale / Float::with_val(bits, 10u32).pow(digits + 1));
+        let tolerance =
+            Float::with_val(bits, &scale / Float::with_val(bits, 10u32).pow(digits + 1));
         if !high.is_exact() {
             // At most the uncertainty's second digit is printed: noise a
             // thousand times below it cannot reach a printed digit.

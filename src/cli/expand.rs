@@ -10,7 +10,7 @@ use loopwise::report::expansion::Expansion;
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
-use super::{emit, CouplingArg, EvenArg, FormatArg, Outcome, in_range};
+use super::{emit, in_range, CouplingArg, EvenArg, FormatArg, Outcome};
 
 /// The largest number of significant digits `--digits` accepts.
 pub const MAX_DIGITS: u32 = 10_000;
@@ -49,14 +49,19 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     in_range("--digits", args.digits, 1, MAX_DIGITS)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
-    let series = quantity.expand(args.loops, &mut |what, done, total| progress.update(what, done, total));
+    let series = quantity.expand(args.loops, &mut |what, done, total| {
+        progress.update(what, done, total)
+    });
     progress.finish();
     let report = Expansion::new(
         &quantity.label,
         &quantity.definition,
         quantity.entry.clone(),
         &series?,
-        args.coupling.map_or_else(|| quantity.entry.as_ref().map_or(Coupling::G2, |e| e.coupling), Coupling::from),
+        args.coupling.map_or_else(
+            || quantity.entry.as_ref().map_or(Coupling::G2, |e| e.coupling),
+            Coupling::from,
+        ),
         args.even.into(),
         args.digits,
     );

@@ -64,14 +64,24 @@ pub fn at(args: &AtArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let couplings = parse_couplings(&args.g, GridPoints::NoCount, MAX_POINTS, prec)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
-    let values = finite::values(&quantity, &couplings, args.digits, &mut |d, t| progress.update("finite coupling", d, t));
+    let values = finite::values(&quantity, &couplings, args.digits, &mut |d, t| {
+        progress.update("finite coupling", d, t)
+    });
     progress.finish();
     let rows = couplings
         .iter()
         .zip(values?)
         .map(|(g, estimate)| {
-            let strong = if g.is_zero() { None } else { finite::strong_coupling(&quantity, g, prec)? };
-            Ok(AtRow { g: g.clone(), estimate, strong })
+            let strong = if g.is_zero() {
+                None
+            } else {
+                finite::strong_coupling(&quantity, g, prec)?
+            };
+            Ok(AtRow {
+                g: g.clone(),
+                estimate,
+                strong,
+            })
         })
         .collect::<Result<Vec<_>>>()?;
     let report = AtReport {
@@ -115,15 +125,25 @@ pub struct ScanArgs {
 pub fn scan(args: &ScanArgs, catalogue: &Catalogue) -> Result<Outcome> {
     check_digits(args.digits)?;
     if !args.g.contains(':') {
-        return Err(Error::input(format!("--g {}: a scan takes a grid START:STOP:STEP or START:STOP", args.g)));
+        return Err(Error::input(format!(
+            "--g {}: a scan takes a grid START:STOP:STEP or START:STOP",
+            args.g
+        )));
     }
     let prec = bits_for_digits(args.digits) + 64;
     let couplings = parse_couplings(&args.g, grid_points(args.points), MAX_POINTS, prec)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
-    let values = finite::values(&quantity, &couplings, args.digits, &mut |d, t| progress.update("scan", d, t));
+    let values = finite::values(&quantity, &couplings, args.digits, &mut |d, t| {
+        progress.update("scan", d, t)
+    });
     progress.finish();
-    emit(&scan_rows(&couplings, &values?, args.digits, matches!(args.format, ScanFormat::Json))?)?;
+    emit(&scan_rows(
+        &couplings,
+        &values?,
+        args.digits,
+        matches!(args.format, ScanFormat::Json),
+    )?)?;
     Ok(Outcome::Done)
 }
 
@@ -156,7 +176,10 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let digits = 10;
     let prec = bits_for_digits(digits) + 64;
     if !args.g.contains(':') {
-        return Err(Error::input(format!("--g {}: a plot takes a range START:STOP or START:STOP:STEP", args.g)));
+        return Err(Error::input(format!(
+            "--g {}: a plot takes a range START:STOP or START:STOP:STEP",
+            args.g
+        )));
     }
     let couplings = parse_couplings(&args.g, grid_points(args.points), MAX_PLOT_POINTS, prec)?;
     let loops: Vec<u32> = if args.loops == "none" {
@@ -165,21 +188,38 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
         args.loops
             .split(',')
             .map(|t| {
-                t.trim().parse::<u32>().ok().filter(|&l| (1..=MAX_LOOPS).contains(&l)).ok_or_else(|| {
-                    Error::range(format!("--loops: `{t}` is not a loop order from 1 to {MAX_LOOPS}"))
-                })
+                t.trim()
+                    .parse::<u32>()
+                    .ok()
+                    .filter(|&l| (1..=MAX_LOOPS).contains(&l))
+                    .ok_or_else(|| {
+                        Error::range(format!(
+                            "--loops: `{t}` is not a loop order from 1 to {MAX_LOOPS}"
+                        ))
+                    })
             })
             .collect::<Result<_>>()?
     };
     if let Some(n) = args.pade {
         if n == 0 || 2 * n as u32 > MAX_LOOPS {
-            return Err(Error::range(format!("--pade {n} is out of range: 1 to {}", MAX_LOOPS / 2)));
+            return Err(Error::range(format!(
+                "--pade {n} is out of range: 1 to {}",
+                MAX_LOOPS / 2
+            )));
         }
     }
-    let quantities = args.quantities.iter().map(|q| Quantity::resolve(q, catalogue)).collect::<Result<Vec<_>>>()?;
+    let quantities = args
+        .quantities
+        .iter()
+        .map(|q| Quantity::resolve(q, catalogue))
+        .collect::<Result<Vec<_>>>()?;
     if let Some(parent) = args.out.parent().filter(|p| !p.as_os_str().is_empty()) {
         if !parent.is_dir() {
-            return Err(Error::io(format!("{}: the directory {} does not exist", args.out.display(), parent.display())));
+            return Err(Error::io(format!(
+                "{}: the directory {} does not exist",
+                args.out.display(),
+                parent.display()
+            )));
         }
     }
     let xs: Vec<f64> = couplings.iter().map(Float::to_f64).collect();
@@ -187,19 +227,34 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let mut progress = Progress::new();
     let mut window = (f64::INFINITY, f64::NEG_INFINITY);
     for q in &quantities {
-        let values = finite::values(q, &couplings, digits, &mut |d, t| progress.update(&q.label, d, t))?;
-        let points: Vec<(f64, f64)> = xs.iter().zip(&values).map(|(x, e)| (*x, e.value.to_f64())).collect();
+        let values = finite::values(q, &couplings, digits, &mut |d, t| {
+            progress.update(&q.label, d, t)
+        })?;
+        let points: Vec<(f64, f64)> = xs
+            .iter()
+            .zip(&values)
+            .map(|(x, e)| (*x, e.value.to_f64()))
+            .collect();
         for p in &points {
             window = (window.0.min(p.1), window.1.max(p.1));
         }
-        curves.push(plot::Curve { name: format!("{} (finite coupling)", q.label), points, dashed: false });
+        curves.push(plot::Curve {
+            name: format!("{} (finite coupling)", q.label),
+            points,
+            dashed: false,
+        });
     }
     progress.finish();
     let margin = 0.25 * (window.1 - window.0).max(1e-12);
     let inside = |y: f64| y >= window.0 - margin && y <= window.1 + margin;
     let mut extra = Vec::new();
     for q in &quantities {
-        let top = loops.iter().copied().max().unwrap_or(0).max(args.pade.map_or(0, |n| 2 * n as u32));
+        let top = loops
+            .iter()
+            .copied()
+            .max()
+            .unwrap_or(0)
+            .max(args.pade.map_or(0, |n| 2 * n as u32));
         let coeffs = if top == 0 {
             None
         } else {
@@ -215,17 +270,34 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
         };
         if let Some(coeffs) = &coeffs {
             for &l in &loops {
-                let points = xs.iter().zip(&couplings).map(|(x, g)| (*x, finite::weak_sum(coeffs, l as usize, g).to_f64())).collect();
-                extra.push(plot::Curve { name: format!("{} weak coupling, {l} loops", q.label), points, dashed: true });
+                let points = xs
+                    .iter()
+                    .zip(&couplings)
+                    .map(|(x, g)| (*x, finite::weak_sum(coeffs, l as usize, g).to_f64()))
+                    .collect();
+                extra.push(plot::Curve {
+                    name: format!("{} weak coupling, {l} loops", q.label),
+                    points,
+                    dashed: true,
+                });
             }
             if let Some(n) = args.pade {
                 let pade = finite::pade_in_g2(&coeffs[..=2 * n], n, n)?;
                 let points = xs
                     .iter()
                     .zip(&couplings)
-                    .map(|(x, g)| (*x, pade.eval(&Float::with_val(prec, g.square_ref())).to_f64()))
+                    .map(|(x, g)| {
+                        (
+                            *x,
+                            pade.eval(&Float::with_val(prec, g.square_ref())).to_f64(),
+                        )
+                    })
                     .collect();
-                extra.push(plot::Curve { name: format!("{} Padé [{n}/{n}] in g^2", q.label), points, dashed: true });
+                extra.push(plot::Curve {
+                    name: format!("{} Padé [{n}/{n}] in g^2", q.label),
+                    points,
+                    dashed: true,
+                });
             }
         }
         if !args.no_strong {
@@ -238,15 +310,29 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
                         }
                     }
                 }
-                let tag = if sc.status == Status::Conjecture { " (conjecture)" } else { "" };
-                extra.push(plot::Curve { name: format!("{} strong coupling{tag}", q.label), points, dashed: true });
+                let tag = if sc.status == Status::Conjecture {
+                    " (conjecture)"
+                } else {
+                    ""
+                };
+                extra.push(plot::Curve {
+                    name: format!("{} strong coupling{tag}", q.label),
+                    points,
+                    dashed: true,
+                });
             }
         }
     }
     // Truncated series leave the picture quickly; cut each extra curve where
     // it leaves the window of the finite-coupling curves so they stay readable.
     for mut c in extra {
-        let keep: Vec<(f64, f64)> = c.points.iter().copied().skip_while(|p| !inside(p.1)).take_while(|p| inside(p.1)).collect();
+        let keep: Vec<(f64, f64)> = c
+            .points
+            .iter()
+            .copied()
+            .skip_while(|p| !inside(p.1))
+            .take_while(|p| inside(p.1))
+            .collect();
         if keep.len() >= 2 {
             c.points = keep;
             curves.push(c);
@@ -273,7 +359,10 @@ pub struct RadiusArgs {
 
 pub fn radius(args: &RadiusArgs, catalogue: &Catalogue) -> Result<Outcome> {
     if args.loops < 4 || args.loops > MAX_LOOPS {
-        return Err(Error::range(format!("--loops {} is out of range: 4 to {MAX_LOOPS}", args.loops)));
+        return Err(Error::range(format!(
+            "--loops {} is out of range: 4 to {MAX_LOOPS}",
+            args.loops
+        )));
     }
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
@@ -307,7 +396,12 @@ impl SelfCheck {
 pub fn self_checks(progress: &mut dyn FnMut(&str, usize, usize)) -> Result<Vec<SelfCheck>> {
     let loops = 24u32;
     let prec = 200;
-    let tilts = [("0", (0, 1)), ("pi/6", (1, 6)), ("pi/4", (1, 4)), ("pi/3", (1, 3))];
+    let tilts = [
+        ("0", (0, 1)),
+        ("pi/6", (1, 6)),
+        ("pi/4", (1, 4)),
+        ("pi/3", (1, 3)),
+    ];
     let mut out = Vec::new();
     for (name, (n, d)) in tilts {
         let tilt = Tilt::pi_multiple(&Rational::from((n, d)))?;
@@ -317,16 +411,24 @@ pub fn self_checks(progress: &mut dyn FnMut(&str, usize, usize)) -> Result<Vec<S
         };
         for f in [Functional::Gamma, Functional::Delta] {
             let label = format!("{}({name})", f.name());
-            let series = loopwise::kernel::expand(f, &tilt, loops + 1, &mut |d, t| progress(&label, d, t))?;
+            let series =
+                loopwise::kernel::expand(f, &tilt, loops + 1, &mut |d, t| progress(&label, d, t))?;
             let coeffs = finite::weak_coefficients(&series, prec)?;
             for g in [0.05, 0.1, 0.15] {
                 let gf = Float::with_val(prec, g);
                 let weak = finite::weak_sum(&coeffs, loops as usize, &gf);
-                let next = Float::with_val(prec, coeffs[loops as usize + 1].abs_ref()) * Float::with_val(prec, &gf).pow(2 * (loops + 1));
+                let next = Float::with_val(prec, coeffs[loops as usize + 1].abs_ref())
+                    * Float::with_val(prec, &gf).pow(2 * (loops + 1));
                 let q = (g / 0.25) * (g / 0.25);
                 let numeric = numeric::evaluate(f, &c2, &gf, 30)?;
                 let bound = Float::with_val(prec, &numeric.error) + next / (1.0 - q);
-                out.push(SelfCheck { label: label.clone(), g, weak, numeric, bound });
+                out.push(SelfCheck {
+                    label: label.clone(),
+                    g,
+                    weak,
+                    numeric,
+                    bound,
+                });
             }
         }
     }
@@ -338,10 +440,11 @@ pub fn selftest() -> Result<Outcome> {
     let checks = self_checks(&mut |w, d, t| progress.update(w, d, t));
     progress.finish();
     let checks = checks?;
-    let mut out = String::from(
-        "selftest: the summed 24-loop weak-coupling series (exact engine) against the numerical engine\n\n",
-    );
-    out.push_str(&format!("{:<12} {:>5}  {:<10}  {:<10}  result\n", "functional", "g", "|diff|", "bound"));
+    let mut out = String::from("selftest: the summed 24-loop weak-coupling series (exact engine) against the numerical engine\n\n");
+    out.push_str(&format!(
+        "{:<12} {:>5}  {:<10}  {:<10}  result\n",
+        "functional", "g", "|diff|", "bound"
+    ));
     for c in &checks {
         let diff = Float::with_val(128, &c.weak - &c.numeric.value).abs();
         out.push_str(&format!(
@@ -354,7 +457,14 @@ pub fn selftest() -> Result<Outcome> {
         ));
     }
     let failed = checks.iter().filter(|c| !c.passes()).count();
-    out.push_str(&format!("\n{} passed, {failed} failed\n", checks.len() - failed));
+    out.push_str(&format!(
+        "\n{} passed, {failed} failed\n",
+        checks.len() - failed
+    ));
     emit(&out)?;
-    Ok(if failed == 0 { Outcome::Done } else { Outcome::Differs })
+    Ok(if failed == 0 {
+        Outcome::Done
+    } else {
+        Outcome::Differs
+    })
 }

@@ -201,7 +201,9 @@ pub fn in_range(option: &str, value: u32, lo: u32, hi: u32) -> Result<()> {
     if (lo..=hi).contains(&value) {
         Ok(())
     } else {
-        Err(Error::range(format!("{option} {value} is out of range: {lo} to {hi}")))
+        Err(Error::range(format!(
+            "{option} {value} is out of range: {lo} to {hi}"
+        )))
     }
 }
 
@@ -209,25 +211,34 @@ pub fn in_range(option: &str, value: u32, lo: u32, hi: u32) -> Result<()> {
 /// ends the run quietly and with success: it has read all it wanted.
 pub fn emit(text: &str) -> Result<()> {
     let mut out = std::io::stdout().lock();
-    out.write_all(text.as_bytes()).and_then(|_| out.flush()).map_err(|e| {
-        if e.kind() == std::io::ErrorKind::BrokenPipe {
-            Error::closed("standard output was closed")
-        } else {
-            Error::io(format!("cannot write to standard output: {e}"))
-        }
-    })
+    out.write_all(text.as_bytes())
+        .and_then(|_| out.flush())
+        .map_err(|e| {
+            if e.kind() == std::io::ErrorKind::BrokenPipe {
+                Error::closed("standard output was closed")
+            } else {
+                Error::io(format!("cannot write to standard output: {e}"))
+            }
+        })
 }
 
 fn list(catalogue: &Catalogue) -> Result<Outcome> {
     let width = catalogue.names().map(str::len).max().unwrap_or(4);
-    let def_width = catalogue.entries().map(|e| e.definition.len()).max().unwrap_or(10);
+    let def_width = catalogue
+        .entries()
+        .map(|e| e.definition.len())
+        .max()
+        .unwrap_or(10);
     let mut out = String::new();
     for e in catalogue.entries() {
         let status = match e.status {
             loopwise::catalogue::Status::Established => "established",
             loopwise::catalogue::Status::Conjecture => "CONJECTURE",
         };
-        out.push_str(&format!("{:<width$}  {:<def_width$}  {:<11}  {}\n", e.name, e.definition, status, e.summary));
+        out.push_str(&format!(
+            "{:<width$}  {:<def_width$}  {:<11}  {}\n",
+            e.name, e.definition, status, e.summary
+        ));
     }
     out.push_str("\nAny functional works as a quantity too: Gamma(ANGLE) or Delta(ANGLE), with ANGLE a rational\n");
     out.push_str("multiple of pi (0, pi/6, pi/4, pi/3, pi/2, ...), c2=P/Q for cos^2 of the tilt, or c2 for a symbolic tilt.\n");
@@ -247,12 +258,21 @@ mod tests {
         let cli = Cli::command();
         cli.clone().debug_assert();
         for sub in cli.get_subcommands() {
-            assert!(sub.get_about().is_some(), "command `{}` has no help", sub.get_name());
+            assert!(
+                sub.get_about().is_some(),
+                "command `{}` has no help",
+                sub.get_name()
+            );
             for arg in sub.get_arguments() {
                 if arg.get_id() == "help" {
                     continue;
                 }
-                assert!(arg.get_help().is_some(), "`{} {}` has no help", sub.get_name(), arg.get_id());
+                assert!(
+                    arg.get_help().is_some(),
+                    "`{} {}` has no help",
+                    sub.get_name(),
+                    arg.get_id()
+                );
             }
         }
     }

@@ -7,13 +7,15 @@ use clap::Args as ClapArgs;
 
 use loopwise::catalogue::Catalogue;
 use loopwise::fit::{default_basis, Solution};
-use loopwise::origincheck::{check_origin, fit_file, parse_basis, parse_origin_text, read_origin_file, OriginData};
+use loopwise::origincheck::{
+    check_origin, fit_file, parse_basis, parse_origin_text, read_origin_file, OriginData,
+};
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
 use loopwise::seriesfile::{parse_series_text, read_input};
 use loopwise::Result;
 
 use super::check::MAX_DIGITS;
-use super::{emit, DataFormatArg, EvenArg, Outcome, in_range};
+use super::{emit, in_range, DataFormatArg, EvenArg, Outcome};
 
 /// The origin demo's series file, shipped in the binary.
 const DEMO: &str = include_str!("../../series/examples/demo-origin.yaml");
@@ -58,8 +60,13 @@ pub struct FitArgs {
     pub format: DataFormatArg,
 }
 
-
-fn report(data: &OriginData, catalogue: &Catalogue, format: Format, even: EvenArg, digits: u32) -> Result<(String, bool)> {
+fn report(
+    data: &OriginData,
+    catalogue: &Catalogue,
+    format: Format,
+    even: EvenArg,
+    digits: u32,
+) -> Result<(String, bool)> {
     let c = check_origin(data, catalogue, digits)?;
     Ok((origin_report::render(&c, format, even.into())?, c.agrees()))
 }
@@ -69,7 +76,11 @@ pub fn origin(args: &OriginArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let data = read_origin_file(&args.file)?;
     let (text, agrees) = report(&data, catalogue, args.format.into(), args.even, args.digits)?;
     emit(&text)?;
-    Ok(if agrees { Outcome::Done } else { Outcome::Differs })
+    Ok(if agrees {
+        Outcome::Done
+    } else {
+        Outcome::Differs
+    })
 }
 
 pub fn fit(args: &FitArgs, catalogue: &Catalogue) -> Result<Outcome> {

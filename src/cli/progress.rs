@@ -12,7 +12,11 @@ pub struct Progress {
 
 impl Progress {
     pub fn new() -> Self {
-        Progress { start: Instant::now(), shown: false, enabled: std::io::stderr().is_terminal() }
+        Progress {
+            start: Instant::now(),
+            shown: false,
+            enabled: std::io::stderr().is_terminal(),
+        }
     }
 
     /// Reports `done` of `total` steps of `what`.
@@ -23,8 +27,16 @@ impl Progress {
         self.shown = true;
         let mut err = std::io::stderr().lock();
         let width = 30;
-        let filled = (done * width).checked_div(total).unwrap_or(width).min(width);
-        let _ = write!(err, "\r{what} [{}{}] {done}/{total} ", "#".repeat(filled), ".".repeat(width - filled));
+        let filled = (done * width)
+            .checked_div(total)
+            .unwrap_or(width)
+            .min(width);
+        let _ = write!(
+            err,
+            "\r{what} [{}{}] {done}/{total} ",
+            "#".repeat(filled),
+            ".".repeat(width - filled)
+        );
         let _ = err.flush();
     }
 

@@ -26,7 +26,12 @@ pub enum Diagnosis {
     /// An exact coefficient whose weights are not the prediction's.
     /// Weights are those of the coefficient of g^(2L); `declared` says
     /// whether that needs saying (only lambda rescales by powers of pi).
-    Weight { loop_order: u32, found: Vec<i64>, expected: Vec<i64>, declared: Coupling },
+    Weight {
+        loop_order: u32,
+        found: Vec<i64>,
+        expected: Vec<i64>,
+        declared: Coupling,
+    },
 }
 
 impl fmt::Display for Diagnosis {
@@ -38,10 +43,9 @@ impl fmt::Display for Diagnosis {
                  coincidence; more orders would confirm or rule it out)"
             ),
             Diagnosis::Explained { text, .. } => f.write_str(text),
-            Diagnosis::Typo { loop_order, agreeing } => write!(
-                f,
-                "order {loop_order} looks like a slip in that order alone: the other {agreeing} orders agree"
-            ),
+            Diagnosis::Typo { loop_order, agreeing } => {
+                write!(f, "order {loop_order} looks like a slip in that order alone: the other {agreeing} orders agree")
+            }
             Diagnosis::Weight { loop_order, found, expected, declared } => {
                 let list = |w: &[i64]| w.iter().map(i64::to_string).collect::<Vec<_>>().join(", ");
                 if found.len() > 1 {
@@ -81,15 +85,24 @@ impl Hypothesis {
         if *f == 2 {
             parts.push("every coefficient is twice the prediction: the scaling function f = 2 Gamma rather than Gamma?".into());
         } else if *f == Rational::from((1, 2)) {
-            parts.push("every coefficient is half the prediction: Gamma where f = 2 Gamma was expected?".into());
+            parts.push(
+                "every coefficient is half the prediction: Gamma where f = 2 Gamma was expected?"
+                    .into(),
+            );
         } else if *f == -1 {
             parts.push("every coefficient has the opposite sign: an overall sign slip".into());
         } else if *f == -2 || *f == Rational::from((-1, 2)) {
             parts.push(format!("every coefficient is {f} times the prediction: a sign slip and a factor 2 (f = 2 Gamma?)"));
         }
         match self.shift {
-            1 => parts.push("the file's order L holds the prediction's order L+1: loop orders shifted by one".into()),
-            -1 => parts.push("the file's order L holds the prediction's order L-1: loop orders shifted by one".into()),
+            1 => parts.push(
+                "the file's order L holds the prediction's order L+1: loop orders shifted by one"
+                    .into(),
+            ),
+            -1 => parts.push(
+                "the file's order L holds the prediction's order L-1: loop orders shifted by one"
+                    .into(),
+            ),
             _ => {}
         }
         parts.join("; and ")
@@ -104,9 +117,16 @@ pub fn diagnose(
     digits: u32,
 ) -> Result<Vec<Diagnosis>> {
     let mut out = Vec::new();
-    let baseline = Hypothesis { coupling: declared, factor: Rational::from(1), shift: 0 };
+    let baseline = Hypothesis {
+        coupling: declared,
+        factor: Rational::from(1),
+        shift: 0,
+    };
     let verdicts = verdicts_under(&baseline, supplied, prediction_g2, digits)?;
-    if !verdicts.iter().any(|v| v.as_ref().is_some_and(Verdict::differs)) {
+    if !verdicts
+        .iter()
+        .any(|v| v.as_ref().is_some_and(Verdict::differs))
+    {
         return Ok(out);
     }
     // A single order is tested too: the usual slips are few, so one that
@@ -115,13 +135,24 @@ pub fn diagnose(
     for h in hypotheses(declared) {
         let v = verdicts_under(&h, supplied, prediction_g2, digits)?;
         if v.iter().all(|v| v.as_ref().is_some_and(Verdict::agrees)) {
-            out.push(Diagnosis::Explained { text: h.describe(declared), orders: supplied.len() });
+            out.push(Diagnosis::Explained {
+                text: h.describe(declared),
+                orders: supplied.len(),
+            });
         }
     }
-    let differing: Vec<usize> = (0..verdicts.len()).filter(|&k| verdicts[k].as_ref().is_some_and(Verdict::differs)).collect();
-    let agreeing = verdicts.iter().filter(|v| v.as_ref().is_some_and(Verdict::agrees)).count();
+    let differing: Vec<usize> = (0..verdicts.len())
+        .filter(|&k| verdicts[k].as_ref().is_some_and(Verdict::differs))
+        .collect();
+    let agreeing = verdicts
+        .iter()
+        .filter(|v| v.as_ref().is_some_and(Verdict::agrees))
+        .count();
     if out.is_empty() && differing.len() == 1 && agreeing >= 2 {
-        out.push(Diagnosis::Typo { loop_order: supplied[differing[0]].0, agreeing });
+        out.push(Diagnosis::Typo {
+            loop_order: supplied[differing[0]].0,
+            agreeing,
+        });
     }
     // A slip that explains every order explains their weights too. Weights
     // are compared in g^2, where the predictions have uniform weight: in
@@ -136,7 +167,12 @@ pub fn diagnose(
             let found = in_g2(x, *l as usize, declared).weights();
             let expected = prediction_g2.coeff(*l as usize).weights();
             if !found.is_empty() && expected.len() == 1 && found != expected {
-                out.push(Diagnosis::Weight { loop_order: *l, found, expected, declared });
+                out.push(Diagnosis::Weight {
+                    loop_order: *l,
+                    found,
+                    expected,
+                    declared,
+                });
             }
         }
     }
@@ -158,17 +194,34 @@ fn hypotheses(declared: Coupling) -> Vec<Hypothesis> {
             if c == declared && n == 1 && d == 1 {
                 continue;
             }
-            out.push(Hypothesis { coupling: c, factor: Rational::from((n, d)), shift: 0 });
+            out.push(Hypothesis {
+                coupling: c,
+                factor: Rational::from((n, d)),
+                shift: 0,
+            });
         }
     }
-    out.push(Hypothesis { coupling: declared, factor: Rational::from(1), shift: 1 });
-    out.push(Hypothesis { coupling: declared, factor: Rational::from(1), shift: -1 });
+    out.push(Hypothesis {
+        coupling: declared,
+        factor: Rational::from(1),
+        shift: 1,
+    });
+    out.push(Hypothesis {
+        coupling: declared,
+        factor: Rational::from(1),
+        shift: -1,
+    });
     out
 }
 
 /// Verdicts of every supplied order under a hypothesis; None where the
 /// hypothesis has no predicted coefficient.
-fn verdicts_under(h: &Hypothesis, supplied: &[(u32, Supplied)], prediction_g2: &Series, digits: u32) -> Result<Vec<Option<Verdict>>> {
+fn verdicts_under(
+    h: &Hypothesis,
+    supplied: &[(u32, Supplied)],
+    prediction_g2: &Series,
+    digits: u32,
+) -> Result<Vec<Option<Verdict>>> {
     let series = prediction_g2.in_coupling(h.coupling);
     let factor = Exact::from(h.factor.clone());
     supplied

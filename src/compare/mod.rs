@@ -31,11 +31,21 @@ pub use supplied::Supplied;
 pub enum Verdict {
     AgreesExactly,
     /// supplied - predicted, and its numerical value.
-    DiffersExactly { difference: Exact, size: Float },
+    DiffersExactly {
+        difference: Exact,
+        size: Float,
+    },
     /// How many significant digits agree.
-    AgreesNumerically { digits: u32, in_units: Option<InUnits> },
+    AgreesNumerically {
+        digits: u32,
+        in_units: Option<InUnits>,
+    },
     /// supplied - predicted numerically, in units of the uncertainty when one is known.
-    DiffersNumerically { difference: Float, in_units: Option<InUnits>, digits: u32 },
+    DiffersNumerically {
+        difference: Float,
+        in_units: Option<InUnits>,
+        digits: u32,
+    },
     /// The prediction does not reach this order.
     NotPredicted,
     /// The file gives no coefficient for this order.
@@ -64,11 +74,17 @@ impl InUnits {
 
 impl Verdict {
     pub fn agrees(&self) -> bool {
-        matches!(self, Verdict::AgreesExactly | Verdict::AgreesNumerically { .. })
+        matches!(
+            self,
+            Verdict::AgreesExactly | Verdict::AgreesNumerically { .. }
+        )
     }
 
     pub fn differs(&self) -> bool {
-        matches!(self, Verdict::DiffersExactly { .. } | Verdict::DiffersNumerically { .. })
+        matches!(
+            self,
+            Verdict::DiffersExactly { .. } | Verdict::DiffersNumerically { .. }
+        )
     }
 
     /// A short machine name: agrees-exactly, differs-numerically, ...
@@ -115,12 +131,18 @@ pub struct Comparison {
 
 impl Comparison {
     pub fn any_differs(&self) -> bool {
-        self.orders.iter().any(|o| o.verdict.differs() || o.inconsistent.is_some())
+        self.orders
+            .iter()
+            .any(|o| o.verdict.differs() || o.inconsistent.is_some())
     }
 
     /// The supplied orders that were not compared (beyond the engine's reach).
     pub fn not_compared(&self) -> Vec<u32> {
-        self.orders.iter().filter(|o| o.supplied.is_some() && matches!(o.verdict, Verdict::NotPredicted)).map(|o| o.loop_order).collect()
+        self.orders
+            .iter()
+            .filter(|o| o.supplied.is_some() && matches!(o.verdict, Verdict::NotPredicted))
+            .map(|o| o.loop_order)
+            .collect()
     }
 
     /// The verdict a pipeline acts on: every supplied order was compared and
@@ -146,7 +168,9 @@ impl Comparison {
         for o in &self.orders {
             let c = class(o);
             match runs.last_mut() {
-                Some((_, end, last)) if *last == c && *end + 1 == o.loop_order => *end = o.loop_order,
+                Some((_, end, last)) if *last == c && *end + 1 == o.loop_order => {
+                    *end = o.loop_order
+                }
                 _ => runs.push((o.loop_order, o.loop_order, c)),
             }
         }
@@ -180,7 +204,12 @@ pub fn judge(supplied: &Supplied, predicted: &Exact, digits: u32) -> Result<Verd
     }
     let approx = supplied.approx(prec)?;
     let p = predicted.evaluate(prec)?;
-    Ok(judge_numbers(&approx, &p, supplied_digits(supplied), digits))
+    Ok(judge_numbers(
+        &approx,
+        &p,
+        supplied_digits(supplied),
+        digits,
+    ))
 }
 
 fn supplied_digits(s: &Supplied) -> Option<u32> {
@@ -195,7 +224,9 @@ pub fn judge_numbers(x: &Approx, p: &Float, written: Option<u32>, digits: u32) -
     let prec = p.prec().max(x.value.prec());
     let difference = Float::with_val(prec, &x.value - p);
     let abs = Float::with_val(prec, difference.abs_ref());
-    let agreeing = agreeing_digits(&abs, p).min(written.unwrap_or(digits)).min(digits);
+    let agreeing = agreeing_digits(&abs, p)
+        .min(written.unwrap_or(digits))
+        .min(digits);
     let in_units = (!x.uncertainty.is_zero()).then(|| {
         let ratio = Float::with_val(prec, &abs / &x.uncertainty);
         if x.stated {
@@ -205,7 +236,11 @@ pub fn judge_numbers(x: &Approx, p: &Float, written: Option<u32>, digits: u32) -
         }
     });
     let agrees = if x.uncertainty.is_zero() {
-        let scale = if p.is_zero() { Float::with_val(prec, 1) } else { Float::with_val(prec, p.abs_ref()) };
+        let scale = if p.is_zero() {
+            Float::with_val(prec, 1)
+        } else {
+            Float::with_val(prec, p.abs_ref())
+        };
         let tolerance = Float::with_val(prec, 10u32).pow(digits.saturating_sub(3));
         Float::with_val(prec, &abs * &tolerance) <= scale
     } else if x.stated {
@@ -216,9 +251,16 @@ pub fn judge_numbers(x: &Approx, p: &Float, written: Option<u32>, digits: u32) -
         abs <= Float::with_val(prec, &x.uncertainty * 1.000001f64)
     };
     if agrees {
-        Verdict::AgreesNumerically { digits: agreeing, in_units }
+        Verdict::AgreesNumerically {
+            digits: agreeing,
+            in_units,
+        }
     } else {
-        Verdict::DiffersNumerically { difference, in_units, digits: agreeing }
+        Verdict::DiffersNumerically {
+            difference,
+            in_units,
+            digits: agreeing,
+        }
     }
 }
 
@@ -249,7 +291,8 @@ pub fn compare_orders(
     let highest = supplied.iter().map(|s| s.0).max().unwrap_or(0);
     let mut out = Vec::new();
     for l in 1..=highest {
-        let predicted = (l as usize <= prediction.order()).then(|| prediction.coeff(l as usize).clone());
+        let predicted =
+            (l as usize <= prediction.order()).then(|| prediction.coeff(l as usize).clone());
         let Some((_, label, main, extra)) = supplied.iter().find(|s| s.0 == l) else {
             out.push(OrderResult {
                 loop_order: l,
@@ -298,7 +341,10 @@ pub fn check(
     use crate::prediction::Quantity;
 
     let quantity = Quantity::from_file(file, catalogue)?.ok_or_else(|| {
-        Error::input(format!("{}: the file names no `prediction` to check against (a catalogue name or a formula)", file.origin))
+        Error::input(format!(
+            "{}: the file names no `prediction` to check against (a catalogue name or a formula)",
+            file.origin
+        ))
     })?;
     let prec = working_bits(digits);
     let mut supplied = Vec::new();
@@ -318,12 +364,22 @@ pub fn check(
     // Orders beyond the engine's reach are "not predicted"; the prediction is
     // expanded only as far as a supplied order it can reach, plus one for
     // the shifted-orders diagnosis.
-    let highest = supplied.iter().map(|s| s.0).filter(|&l| l <= MAX_LOOPS).max().unwrap_or(1);
+    let highest = supplied
+        .iter()
+        .map(|s| s.0)
+        .filter(|&l| l <= MAX_LOOPS)
+        .max()
+        .unwrap_or(1);
     let reach = (highest + 1).min(MAX_LOOPS);
     let prediction_g2 = quantity.expand(reach, progress)?;
-    let in_file = prediction_g2.in_coupling(file.coupling).truncate(highest as usize);
+    let in_file = prediction_g2
+        .in_coupling(file.coupling)
+        .truncate(highest as usize);
     let orders = compare_orders(&supplied, &in_file, digits)?;
-    let mains: Vec<(u32, Supplied)> = supplied.iter().map(|(l, _, s, _)| (*l, s.clone())).collect();
+    let mains: Vec<(u32, Supplied)> = supplied
+        .iter()
+        .map(|(l, _, s, _)| (*l, s.clone()))
+        .collect();
     let diagnoses = diagnose(&mains, &prediction_g2, file.coupling, digits)?;
     Ok(Comparison {
         file: file.origin.clone(),

@@ -37,7 +37,9 @@ pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
             cache: HashMap::new(),
             progress: &mut |_, _, _| {},
         };
-        return Ok(Supplied::Exact(expander.series(&located.expr)?.coeff(0).clone()));
+        return Ok(Supplied::Exact(
+            expander.series(&located.expr)?.coeff(0).clone(),
+        ));
     }
     read_number(located, origin, prec)
 }
@@ -47,7 +49,8 @@ pub fn read_number(located: &Located, origin: &str, prec: u32) -> Result<Supplie
     let mut ctx = Context::new(prec);
     let mzv = |s: &[u32], p: u32| crate::mzv::mzv(s, p);
     ctx.mzv = Some(&mzv);
-    let approx = numeric::evaluate(&located.expr, &mut ctx).map_err(|(span, msg)| located.error_at(origin, span, &msg))?;
+    let approx = numeric::evaluate(&located.expr, &mut ctx)
+        .map_err(|(span, msg)| located.error_at(origin, span, &msg))?;
     let written = match &located.expr.node {
         Node::Decimal { text, .. } => Some(written_digits(text)),
         Node::Neg(inner) => match &inner.node {
@@ -56,7 +59,11 @@ pub fn read_number(located: &Located, origin: &str, prec: u32) -> Result<Supplie
         },
         _ => None,
     };
-    Ok(Supplied::Number { approx, written, text: located.text.trim().to_string() })
+    Ok(Supplied::Number {
+        approx,
+        written,
+        text: located.text.trim().to_string(),
+    })
 }
 
 impl Supplied {

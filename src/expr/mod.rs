@@ -31,9 +31,12 @@ mod report;
 use std::fmt;
 
 pub(crate) use parse::parse_unrendered;
+pub use parse::{
+    MAX_DEPTH, MAX_DIGITS, MAX_EXPONENT, MAX_NESTING, MAX_SOURCE_BYTES, MAX_ZETA_ARGUMENT,
+    MAX_ZETA_DEPTH,
+};
 pub(crate) use report::line_column;
 pub use report::Site;
-pub use parse::{MAX_DEPTH, MAX_DIGITS, MAX_EXPONENT, MAX_NESTING, MAX_SOURCE_BYTES, MAX_ZETA_ARGUMENT, MAX_ZETA_DEPTH};
 
 use crate::error::{Error, ErrorKind, Result};
 
@@ -66,7 +69,11 @@ impl Eq for Expr {}
 pub enum Node {
     Integer(rug::Integer),
     /// A decimal literal: its exact written value, and the absolute uncertainty if one was given.
-    Decimal { value: rug::Rational, uncertainty: Option<rug::Rational>, text: String },
+    Decimal {
+        value: rug::Rational,
+        uncertainty: Option<rug::Rational>,
+        text: String,
+    },
     Pi,
     Catalan,
     /// zeta(s1, ..., sk); k = 1 is the ordinary zeta value.
@@ -74,7 +81,10 @@ pub enum Node {
     Log(Box<Expr>),
     /// Kinematic symbols and the coupling `g`.
     Symbol(String),
-    Functional { kind: FunctionalKind, angle: Angle },
+    Functional {
+        kind: FunctionalKind,
+        angle: Angle,
+    },
     Neg(Box<Expr>),
     Add(Box<Expr>, Box<Expr>),
     Sub(Box<Expr>, Box<Expr>),
@@ -114,7 +124,13 @@ pub fn parse(source: &str, origin: &str, place: Option<(usize, usize)>) -> Resul
 /// same style as parse errors: origin:line:column, the line, a caret under
 /// the span, the message. With a `site` the line shown is the file's own.
 /// The error's kind is [`ErrorKind::Input`].
-pub fn error_at(source: &str, origin: &str, site: Option<&Site>, span: Span, message: &str) -> Error {
+pub fn error_at(
+    source: &str,
+    origin: &str,
+    site: Option<&Site>,
+    span: Span,
+    message: &str,
+) -> Error {
     match site {
         Some(site) => site.render(ErrorKind::Input, source, origin, span, message),
         None => report::render(ErrorKind::Input, source, origin, None, span, message),
@@ -143,8 +159,13 @@ pub fn for_each_symbol<'e>(expr: &'e Expr, visit: &mut dyn FnMut(&'e str, Span))
 fn parts(node: &Node) -> [Option<&Expr>; 2] {
     match node {
         Node::Log(a) | Node::Neg(a) => [Some(a), None],
-        Node::Functional { angle: Angle::Radians(a) | Angle::Cos2(a), .. } => [Some(a), None],
-        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => [Some(a), Some(b)],
+        Node::Functional {
+            angle: Angle::Radians(a) | Angle::Cos2(a),
+            ..
+        } => [Some(a), None],
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+            [Some(a), Some(b)]
+        }
         _ => [None, None],
     }
 }
@@ -152,8 +173,13 @@ fn parts(node: &Node) -> [Option<&Expr>; 2] {
 fn parts_mut(node: &mut Node) -> [Option<&mut Expr>; 2] {
     match node {
         Node::Log(a) | Node::Neg(a) => [Some(a), None],
-        Node::Functional { angle: Angle::Radians(a) | Angle::Cos2(a), .. } => [Some(a), None],
-        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => [Some(a), Some(b)],
+        Node::Functional {
+            angle: Angle::Radians(a) | Angle::Cos2(a),
+            ..
+        } => [Some(a), None],
+        Node::Add(a, b) | Node::Sub(a, b) | Node::Mul(a, b) | Node::Div(a, b) | Node::Pow(a, b) => {
+            [Some(a), Some(b)]
+        }
         _ => [None, None],
     }
 }
@@ -164,7 +190,10 @@ pub fn find<'e>(expr: &'e Expr, hit: &mut dyn FnMut(&Expr) -> bool) -> Option<&'
     if hit(expr) {
         return Some(expr);
     }
-    parts(&expr.node).into_iter().flatten().find_map(|p| find(p, hit))
+    parts(&expr.node)
+        .into_iter()
+        .flatten()
+        .find_map(|p| find(p, hit))
 }
 
 /// Calls `visit` on every node of the tree, a node before its parts.
@@ -230,7 +259,8 @@ impl fmt::Display for Expr {
                 match angle {
                     // A radian angle that is the bare symbol `c2` needs brackets,
                     // or it would read back as the symbolic squared cosine.
-                    Angle::Radians(inner) if matches!(&inner.node, Node::Symbol(s) if s.eq_ignore_ascii_case("c2")) => {
+                    Angle::Radians(inner) if matches!(&inner.node, Node::Symbol(s) if s.eq_ignore_ascii_case("c2")) =>
+                    {
                         write!(f, "{name}(({inner}))")
                     }
                     Angle::Radians(inner) => write!(f, "{name}({inner})"),
@@ -256,7 +286,11 @@ impl fmt::Display for Expr {
             Node::Pow(a, b) => {
                 operand(f, a, strength(&a.node) <= own)?;
                 f.write_str("^")?;
-                operand(f, b, strength(&b.node) < own && !matches!(b.node, Node::Neg(_)))
+                operand(
+                    f,
+                    b,
+                    strength(&b.node) < own && !matches!(b.node, Node::Neg(_)),
+                )
             }
         }
     }

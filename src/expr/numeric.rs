@@ -29,7 +29,11 @@ pub struct Approx {
 impl Approx {
     pub fn exact(value: Float) -> Self {
         let prec = value.prec();
-        Approx { value, uncertainty: Float::with_val(prec, 0), stated: false }
+        Approx {
+            value,
+            uncertainty: Float::with_val(prec, 0),
+            stated: false,
+        }
     }
 
     pub fn is_exact(&self) -> bool {
@@ -59,37 +63,70 @@ pub struct Context<'a> {
 
 impl<'a> Context<'a> {
     pub fn new(prec: u32) -> Self {
-        Context { prec, symbols: &[], functional: None, mzv: None }
+        Context {
+            prec,
+            symbols: &[],
+            functional: None,
+            mzv: None,
+        }
     }
 }
 
 /// Evaluates `e`; errors carry plain messages (callers render them at spans).
-pub fn evaluate(e: &Expr, ctx: &mut Context<'_>) -> std::result::Result<Approx, (super::Span, String)> {
+pub fn evaluate(
+    e: &Expr,
+    ctx: &mut Context<'_>,
+) -> std::result::Result<Approx, (super::Span, String)> {
     let p = ctx.prec;
     let exact = |v: Float| Ok(Approx::exact(v));
     match &e.node {
         Node::Integer(i) => exact(Float::with_val(p, i)),
-        Node::Decimal { value, uncertainty, text } => {
+        Node::Decimal {
+            value,
+            uncertainty,
+            text,
+        } => {
             let v = Float::with_val(p, value);
             match uncertainty {
-                Some(u) => Ok(Approx { value: v, uncertainty: Float::with_val(p, u), stated: true }),
-                None => Ok(Approx { value: v, uncertainty: Float::with_val(p, half_last_digit(text)), stated: false }),
+                Some(u) => Ok(Approx {
+                    value: v,
+                    uncertainty: Float::with_val(p, u),
+                    stated: true,
+                }),
+                None => Ok(Approx {
+                    value: v,
+                    uncertainty: Float::with_val(p, half_last_digit(text)),
+                    stated: false,
+                }),
             }
         }
         Node::Pi => exact(Float::with_val(p, Constant::Pi)),
         Node::Catalan => exact(Float::with_val(p, Constant::Catalan)),
         Node::Zeta(args) if args.len() == 1 => exact(Float::with_val(p, Float::zeta_u(args[0]))),
         Node::Zeta(args) => match ctx.mzv {
-            Some(f) => f(args, p).map(Approx::exact).map_err(|err| (e.span, err.message().to_string())),
-            None => Err((e.span, "multiple zeta values cannot be evaluated here".to_string())),
+            Some(f) => f(args, p)
+                .map(Approx::exact)
+                .map_err(|err| (e.span, err.message().to_string())),
+            None => Err((
+                e.span,
+                "multiple zeta values cannot be evaluated here".to_string(),
+            )),
         },
         Node::Log(a) => {
             let x = evaluate(a, ctx)?;
             if x.value <= 0 || Float::with_val(p, &x.value - &x.uncertainty) <= 0 {
-                return Err((a.span, "the logarithm needs a positive argument (also within its uncertainty)".to_string()));
+                return Err((
+                    a.span,
+                    "the logarithm needs a positive argument (also within its uncertainty)"
+                        .to_string(),
+                ));
             }
             let u = Float::with_val(p, &x.uncertainty / &x.value);
-            Ok(Approx { value: x.value.ln(), uncertainty: u, stated: x.stated })
+            Ok(Approx {
+                value: x.value.ln(),
+                uncertainty: u,
+                stated: x.stated,
+            })
         }
         Node::Symbol(name) => match ctx.symbols.iter().find(|(n, _)| n == name) {
             Some((_, v)) => exact(Float::with_val(p, v)),
@@ -97,17 +134,32 @@ pub fn evaluate(e: &Expr, ctx: &mut Context<'_>) -> std::result::Result<Approx, 
         },
         Node::Functional { kind, angle } => match ctx.functional.as_mut() {
             Some(f) => f(*kind, angle).map_err(|err| (e.span, err.message().to_string())),
-            None => Err((e.span, "the functionals need a coupling: use `loopwise at` for finite-coupling values".to_string())),
+            None => Err((
+                e.span,
+                "the functionals need a coupling: use `loopwise at` for finite-coupling values"
+                    .to_string(),
+            )),
         },
         Node::Neg(a) => {
             let x = evaluate(a, ctx)?;
-            Ok(Approx { value: -x.value, ..x })
+            Ok(Approx {
+                value: -x.value,
+                ..x
+            })
         }
         Node::Add(a, b) | Node::Sub(a, b) => {
             let x = evaluate(a, ctx)?;
             let y = evaluate(b, ctx)?;
-            let value = if matches!(e.node, Node::Add(..)) { x.value + &y.value } else { x.value - &y.value };
-            Ok(Approx { value, uncertainty: x.uncertainty + &y.uncertainty, stated: x.stated || y.stated })
+            let value = if matches!(e.node, Node::Add(..)) {
+                x.value + &y.value
+            } else {
+                x.value - &y.value
+            };
+            Ok(Approx {
+                value,
+                uncertainty: x.uncertainty + &y.uncertainty,
+                stated: x.stated || y.stated,
+            })
         }
         Node::Mul(a, b) => {
             let x = evaluate(a, ctx)?;
@@ -118,20 +170,32 @@ pub fn evaluate(e: &Expr, ctx: &mut Context<'_>) -> std::result::Result<Approx, 
             let x = evaluate(a, ctx)?;
             let y = evaluate(b, ctx)?;
             if Float::with_val(p, y.value.abs_ref()) <= y.uncertainty {
-                return Err((b.span, "division by a number that is zero within its uncertainty".to_string()));
+                return Err((
+                    b.span,
+                    "division by a number that is zero within its uncertainty".to_string(),
+                ));
             }
             let value = Float::with_val(p, &x.value / &y.value);
             let ay = Float::with_val(p, y.value.abs_ref());
-            let spread = Float::with_val(p, &x.uncertainty * &ay) + Float::with_val(p, x.value.abs_ref()) * &y.uncertainty;
-            let denominator = Float::with_val(p, &ay * &ay) - Float::with_val(p, &ay * &y.uncertainty);
-            Ok(Approx { value, uncertainty: spread / denominator, stated: x.stated || y.stated })
+            let spread = Float::with_val(p, &x.uncertainty * &ay)
+                + Float::with_val(p, x.value.abs_ref()) * &y.uncertainty;
+            let denominator =
+                Float::with_val(p, &ay * &ay) - Float::with_val(p, &ay * &y.uncertainty);
+            Ok(Approx {
+                value,
+                uncertainty: spread / denominator,
+                stated: x.stated || y.stated,
+            })
         }
         Node::Pow(a, b) => {
             let x = evaluate(a, ctx)?;
             let y = evaluate(b, ctx)?;
             if y.is_exact() && y.value.is_integer() {
                 let n = y.value.to_integer().unwrap_or_default();
-                let k = n.to_i32().filter(|k| k.abs() <= 100_000).ok_or_else(|| (b.span, "exponent too large".to_string()))?;
+                let k = n
+                    .to_i32()
+                    .filter(|k| k.abs() <= 100_000)
+                    .ok_or_else(|| (b.span, "exponent too large".to_string()))?;
                 if x.value.is_zero() && k < 0 {
                     return Err((e.span, "zero to a negative power".to_string()));
                 }
@@ -140,18 +204,32 @@ pub fn evaluate(e: &Expr, ctx: &mut Context<'_>) -> std::result::Result<Approx, 
                 let u = if x.is_exact() || k == 0 {
                     Float::with_val(p, 0)
                 } else {
-                    Float::with_val(p, (&x.value).pow(k - 1)).abs() * &x.uncertainty * k.unsigned_abs()
+                    Float::with_val(p, (&x.value).pow(k - 1)).abs()
+                        * &x.uncertainty
+                        * k.unsigned_abs()
                 };
-                return Ok(Approx { value, uncertainty: u, stated: x.stated });
+                return Ok(Approx {
+                    value,
+                    uncertainty: u,
+                    stated: x.stated,
+                });
             }
             if x.value <= 0 {
-                return Err((a.span, "a non-integer power needs a positive base".to_string()));
+                return Err((
+                    a.span,
+                    "a non-integer power needs a positive base".to_string(),
+                ));
             }
             let value = Float::with_val(p, (&x.value).pow(&y.value));
             let ln = Float::with_val(p, x.value.ln_ref());
             let d_base = Float::with_val(p, &y.value * &value) / &x.value;
-            let u = d_base.abs() * &x.uncertainty + Float::with_val(p, &ln * &value).abs() * &y.uncertainty;
-            Ok(Approx { value, uncertainty: u, stated: x.stated || y.stated })
+            let u = d_base.abs() * &x.uncertainty
+                + Float::with_val(p, &ln * &value).abs() * &y.uncertainty;
+            Ok(Approx {
+                value,
+                uncertainty: u,
+                stated: x.stated || y.stated,
+            })
         }
     }
 }
@@ -163,7 +241,11 @@ pub fn product(x: &Approx, y: &Approx) -> Approx {
     let u = Float::with_val(p, x.value.abs_ref()) * &y.uncertainty
         + Float::with_val(p, y.value.abs_ref()) * &x.uncertainty
         + Float::with_val(p, &x.uncertainty * &y.uncertainty);
-    Approx { value, uncertainty: u, stated: x.stated || y.stated }
+    Approx {
+        value,
+        uncertainty: u,
+        stated: x.stated || y.stated,
+    }
 }
 
 /// Whether an expression needs numbers outside the exact ring: decimals,
@@ -185,7 +267,13 @@ pub fn needs_numbers(e: &Expr) -> bool {
 pub fn half_last_digit(text: &str) -> Rational {
     let t = text.trim().trim_start_matches(['-', '+']);
     let (mantissa, exponent) = match t.find(['e', 'E']) {
-        Some(k) => (&t[..k], t[k + 1..].trim_start_matches('+').parse::<i64>().unwrap_or(0)),
+        Some(k) => (
+            &t[..k],
+            t[k + 1..]
+                .trim_start_matches('+')
+                .parse::<i64>()
+                .unwrap_or(0),
+        ),
         None => match t.find("*^") {
             Some(k) => (&t[..k], t[k + 2..].parse::<i64>().unwrap_or(0)),
             None => (t, 0),
@@ -211,7 +299,12 @@ pub fn written_digits(text: &str) -> u32 {
 }
 
 /// Renders an evaluation failure at its span in `source`.
-pub fn located(source: &str, origin: &str, site: Option<&super::Site>, failure: (super::Span, String)) -> Error {
+pub fn located(
+    source: &str,
+    origin: &str,
+    site: Option<&super::Site>,
+    failure: (super::Span, String),
+) -> Error {
     super::error_at(source, origin, site, failure.0, &failure.1)
 }
 
@@ -241,7 +334,8 @@ mod tests {
     #[test]
     fn constants_and_operations() {
         let x = eval("2pi^2 - 6 zeta(2) + catalan*0 + log(2)");
-        let reference = Float::with_val(200, Constant::Pi).square() + Float::with_val(200, Constant::Log2);
+        let reference =
+            Float::with_val(200, Constant::Pi).square() + Float::with_val(200, Constant::Log2);
         assert!(x.is_exact());
         assert!(Float::with_val(200, x.value - reference).abs() < 1e-55);
         let y = eval("3^(1/2)");

@@ -63,13 +63,19 @@ struct Ctx<'s> {
 
 impl Ctx<'_> {
     fn error(&self, span: Span, message: &str) -> Failure {
-        Failure { span, message: message.to_string() }
+        Failure {
+            span,
+            message: message.to_string(),
+        }
     }
 }
 
 fn span_of(pair: &Pair<'_, Rule>) -> Span {
     let s = pair.as_span();
-    Span { start: s.start(), end: s.end() }
+    Span {
+        start: s.start(),
+        end: s.end(),
+    }
 }
 
 /// A subtree and its depth, carried together so that depth is checked as the
@@ -78,7 +84,8 @@ fn span_of(pair: &Pair<'_, Rule>) -> Span {
 type Built = (Expr, usize);
 
 pub(crate) fn parse(source: &str, origin: &str, place: Option<(usize, usize)>) -> Result<Expr> {
-    parse_unrendered(source).map_err(|f| render(ErrorKind::Parse, source, origin, place, f.span, &f.message))
+    parse_unrendered(source)
+        .map_err(|f| render(ErrorKind::Parse, source, origin, place, f.span, &f.message))
 }
 
 pub(crate) fn parse_unrendered(source: &str) -> Fallible<Expr> {
@@ -87,23 +94,36 @@ pub(crate) fn parse_unrendered(source: &str) -> Fallible<Expr> {
         source,
         pratt: PrattParser::new()
             .op(Op::infix(Rule::add, Assoc::Left) | Op::infix(Rule::sub, Assoc::Left))
-            .op(Op::infix(Rule::mul, Assoc::Left) | Op::infix(Rule::div, Assoc::Left) | Op::infix(Rule::implicit_mul, Assoc::Left))
+            .op(Op::infix(Rule::mul, Assoc::Left)
+                | Op::infix(Rule::div, Assoc::Left)
+                | Op::infix(Rule::implicit_mul, Assoc::Left))
             .op(Op::prefix(Rule::neg) | Op::prefix(Rule::pos))
             .op(Op::infix(Rule::pow, Assoc::Right)),
     };
     if source.len() > MAX_SOURCE_BYTES {
         return Err(ctx.error(
             Span::default(),
-            &format!("expression of {} bytes is longer than the {MAX_SOURCE_BYTES} bytes accepted", source.len()),
+            &format!(
+                "expression of {} bytes is longer than the {MAX_SOURCE_BYTES} bytes accepted",
+                source.len()
+            ),
         ));
     }
     let first = source.len() - source.trim_start().len();
     if first == source.len() {
-        return Err(ctx.error(Span { start: first, end: first }, "empty expression: expected a number, a constant, a function, a symbol or `(`"));
+        return Err(ctx.error(
+            Span {
+                start: first,
+                end: first,
+            },
+            "empty expression: expected a number, a constant, a function, a symbol or `(`",
+        ));
     }
     check_nesting(&ctx)?;
     let mut pairs = ExprGrammar::parse(Rule::main, source).map_err(|e| grammar_error(&ctx, e))?;
-    let main = pairs.next().ok_or_else(|| ctx.error(Span::default(), "nothing to parse"))?;
+    let main = pairs
+        .next()
+        .ok_or_else(|| ctx.error(Span::default(), "nothing to parse"))?;
     let expr = main
         .into_inner()
         .find(|p| p.as_rule() == Rule::expr)
@@ -121,7 +141,10 @@ fn check_nesting(ctx: &Ctx<'_>) -> Fallible<()> {
                 depth += 1;
                 if depth > MAX_NESTING {
                     return Err(ctx.error(
-                        Span { start: i, end: i + 1 },
+                        Span {
+                            start: i,
+                            end: i + 1,
+                        },
                         &format!("brackets nested more than {MAX_NESTING} deep"),
                     ));
                 }
@@ -193,7 +216,10 @@ fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Failure {
     // Several rules share a description; keep the first of each so the
     // message lists every alternative once.
     let e = match e.variant {
-        pest::error::ErrorVariant::ParsingError { positives, negatives } => {
+        pest::error::ErrorVariant::ParsingError {
+            positives,
+            negatives,
+        } => {
             let mut positives = positives;
             positives.sort_by_key(|r| WORD_ORDER.iter().position(|w| *w == describe(r)));
             let mut seen = Vec::new();
@@ -207,11 +233,17 @@ fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Failure {
                 })
                 .collect();
             pest::error::Error::new_from_pos(
-                pest::error::ErrorVariant::ParsingError { positives, negatives },
-                pest::Position::new(ctx.source, at).unwrap_or_else(|| pest::Position::from_start(ctx.source)),
+                pest::error::ErrorVariant::ParsingError {
+                    positives,
+                    negatives,
+                },
+                pest::Position::new(ctx.source, at)
+                    .unwrap_or_else(|| pest::Position::from_start(ctx.source)),
             )
         }
-        variant => pest::error::Error::new_from_pos(variant, pest::Position::from_start(ctx.source)),
+        variant => {
+            pest::error::Error::new_from_pos(variant, pest::Position::from_start(ctx.source))
+        }
     };
     let message = match &e.variant {
         pest::error::ErrorVariant::CustomError { message } if message.contains("limit reached") => {
@@ -225,26 +257,43 @@ fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Failure {
         Some('`') => "a backtick".to_string(),
         Some(c) => format!("`{c}`"),
     };
-    let width = ctx.source.get(at..).and_then(|r| r.chars().next()).map_or(0, char::len_utf8);
+    let width = ctx
+        .source
+        .get(at..)
+        .and_then(|r| r.chars().next())
+        .map_or(0, char::len_utf8);
     let hint = match ctx.source.get(at..).and_then(|rest| rest.chars().next()) {
-        Some('`') => "; a Mathematica precision or accuracy mark (`20., ``30) is not part of the number: delete it, the digits written are what count",
+        Some('`') => {
+            "; a Mathematica precision or accuracy mark (`20., ``30) is not part of the number: delete it, the digits written are what count"
+        }
         _ => "",
     };
-    ctx.error(Span { start: at, end: at + width }, &format!("{message}, found {found}{hint}"))
+    ctx.error(
+        Span {
+            start: at,
+            end: at + width,
+        },
+        &format!("{message}, found {found}{hint}"),
+    )
 }
 
 fn node(node: Node, span: Span, depth: usize, ctx: &Ctx<'_>) -> Fallible<Built> {
     if depth > MAX_DEPTH {
         return Err(ctx.error(
             span,
-            &format!("expression more than {MAX_DEPTH} operations deep; split it into several entries"),
+            &format!(
+                "expression more than {MAX_DEPTH} operations deep; split it into several entries"
+            ),
         ));
     }
     Ok((Expr { node, span }, depth))
 }
 
 fn join(a: &Expr, b: &Expr) -> Span {
-    Span { start: a.span.start.min(b.span.start), end: a.span.end.max(b.span.end) }
+    Span {
+        start: a.span.start.min(b.span.start),
+        end: a.span.end.max(b.span.end),
+    }
 }
 
 /// Builds the tree for one `expr` pair: checks the recursion the Pratt parser
@@ -256,7 +305,10 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
             Rule::neg | Rule::pos | Rule::pow => {
                 chain += 1;
                 if chain > MAX_CHAIN {
-                    return Err(ctx.error(span_of(&p), &format!("more than {MAX_CHAIN} signs and powers in a row")));
+                    return Err(ctx.error(
+                        span_of(&p),
+                        &format!("more than {MAX_CHAIN} signs and powers in a row"),
+                    ));
                 }
             }
             Rule::add | Rule::sub | Rule::mul | Rule::div | Rule::implicit_mul => chain = 0,
@@ -292,11 +344,20 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
         .map_primary(|p| primary(ctx, p))
         .map_prefix(|op, rhs| {
             let (rhs, depth) = rhs?;
-            let span = Span { start: op.as_span().start(), end: rhs.span.end };
+            let span = Span {
+                start: op.as_span().start(),
+                end: rhs.span.end,
+            };
             match op.as_rule() {
                 Rule::neg => node(Node::Neg(Box::new(rhs)), span, depth + 1, ctx),
                 // A leading `+` adds nothing to the value, so no node.
-                _ => Ok((Expr { node: rhs.node, span }, depth)),
+                _ => Ok((
+                    Expr {
+                        node: rhs.node,
+                        span,
+                    },
+                    depth,
+                )),
             }
         })
         .map_infix(|lhs, op, rhs| {
@@ -311,12 +372,18 @@ fn build(ctx: &Ctx<'_>, expr: Pair<'_, Rule>) -> Fallible<Built> {
             };
             node(n, span, dl.max(dr) + 1, ctx)
         });
-    let built: Vec<(bool, Built)> =
-        terms.into_iter().map(|(negative, pairs)| Ok((negative, pratt.parse(pairs.into_iter())?))).collect::<Fallible<_>>()?;
+    let built: Vec<(bool, Built)> = terms
+        .into_iter()
+        .map(|(negative, pairs)| Ok((negative, pratt.parse(pairs.into_iter())?)))
+        .collect::<Fallible<_>>()?;
     if built.len() <= LONG_SUM {
         let mut items = built.into_iter();
-        let Some((_, first)) = items.next() else { return Err(ctx.error(Span::default(), "empty expression")) };
-        return items.try_fold(first, |acc, (negative, term)| combine(ctx, acc, negative, term));
+        let Some((_, first)) = items.next() else {
+            return Err(ctx.error(Span::default(), "empty expression"));
+        };
+        return items.try_fold(first, |acc, (negative, term)| {
+            combine(ctx, acc, negative, term)
+        });
     }
     balanced(ctx, built)
 }
@@ -334,8 +401,14 @@ fn fortran_exponent(ctx: &Ctx<'_>, number: &Pair<'_, Rule>) -> Fallible<()> {
     if !rest.get(digit_at).is_some_and(u8::is_ascii_digit) {
         return Ok(());
     }
-    let tail = rest[digit_at..].iter().take_while(|b| b.is_ascii_digit()).count();
-    let span = Span { start: number.as_span().start(), end: end + digit_at + tail };
+    let tail = rest[digit_at..]
+        .iter()
+        .take_while(|b| b.is_ascii_digit())
+        .count();
+    let span = Span {
+        start: number.as_span().start(),
+        end: end + digit_at + tail,
+    };
     let text = &ctx.source[span.start..span.end];
     Err(ctx.error(
         span,
@@ -351,14 +424,29 @@ fn fortran_exponent(ctx: &Ctx<'_>, number: &Pair<'_, Rule>) -> Fallible<()> {
 /// A number before a bracket that holds a bare number (`3.9 (1)`,
 /// `4(-1)`, `2 (3)`) reads either as an uncertainty written carelessly or
 /// as a product; neither reading is safe to pick, so both are refused.
-fn bracketed_number(ctx: &Ctx<'_>, number: &Pair<'_, Rule>, group: &Pair<'_, Rule>) -> Fallible<()> {
-    let Some(inner) = group.clone().into_inner().find(|q| q.as_rule() == Rule::expr) else { return Ok(()) };
+fn bracketed_number(
+    ctx: &Ctx<'_>,
+    number: &Pair<'_, Rule>,
+    group: &Pair<'_, Rule>,
+) -> Fallible<()> {
+    let Some(inner) = group
+        .clone()
+        .into_inner()
+        .find(|q| q.as_rule() == Rule::expr)
+    else {
+        return Ok(());
+    };
     let parts: Vec<Rule> = inner.into_inner().map(|q| q.as_rule()).collect();
-    let Some((last, signs)) = parts.split_last() else { return Ok(()) };
+    let Some((last, signs)) = parts.split_last() else {
+        return Ok(());
+    };
     if *last != Rule::number_lit || !signs.iter().all(|r| matches!(r, Rule::neg | Rule::pos)) {
         return Ok(());
     }
-    let span = Span { start: number.as_span().start(), end: group.as_span().end() };
+    let span = Span {
+        start: number.as_span().start(),
+        end: group.as_span().end(),
+    };
     let (n, g) = (number.as_str(), group.as_str());
     let glued = number.as_span().end() == group.as_span().start();
     let reading = if !signs.is_empty() && glued {
@@ -366,9 +454,18 @@ fn bracketed_number(ctx: &Ctx<'_>, number: &Pair<'_, Rule>, group: &Pair<'_, Rul
     } else if glued {
         "a bracket glued to a number holds its uncertainty as plain digits (`3.9(1)`) or a plain decimal (`4.0(1.5)`)".to_string()
     } else {
-        format!("ambiguous: for an uncertainty write `{n}{}` with no blank", g.replace(' ', ""))
+        format!(
+            "ambiguous: for an uncertainty write `{n}{}` with no blank",
+            g.replace(' ', "")
+        )
     };
-    Err(ctx.error(span, &format!("`{}`: {reading}; for a product write `{n}*{g}`", &ctx.source[span.start..span.end])))
+    Err(ctx.error(
+        span,
+        &format!(
+            "`{}`: {reading}; for a product write `{n}*{g}`",
+            &ctx.source[span.start..span.end]
+        ),
+    ))
 }
 
 /// Sums of more terms than this are joined as a balanced tree.
@@ -377,7 +474,11 @@ const LONG_SUM: usize = 1000;
 fn combine(ctx: &Ctx<'_>, (a, da): Built, negative: bool, (b, db): Built) -> Fallible<Built> {
     let span = join(&a, &b);
     let (a, b) = (Box::new(a), Box::new(b));
-    let n = if negative { Node::Sub(a, b) } else { Node::Add(a, b) };
+    let n = if negative {
+        Node::Sub(a, b)
+    } else {
+        Node::Add(a, b)
+    };
     node(n, span, da.max(db) + 1, ctx)
 }
 
@@ -432,11 +533,7 @@ fn primary(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {
         }
         Rule::unknown_call => Err(ctx.error(
             span,
-            &format!(
-                "`{}` is not a known function (known: zeta, log, ln, Gamma, Delta); for a product write `{}*(...)`",
-                p.as_str(),
-                p.as_str()
-            ),
+            &format!("`{}` is not a known function (known: zeta, log, ln, Gamma, Delta); for a product write `{}*(...)`", p.as_str(), p.as_str()),
         )),
         other => Err(ctx.error(span, &format!("unexpected {}", describe(&other)))),
     }
@@ -476,7 +573,12 @@ fn functional(ctx: &Ctx<'_>, p: Pair<'_, Rule>, span: Span) -> Fallible<Built> {
 }
 
 fn zeta_argument(ctx: &Ctx<'_>, text: &str, span: Span) -> Fallible<u32> {
-    let bad = || ctx.error(span, &format!("zeta arguments are whole numbers from 1 to {MAX_ZETA_ARGUMENT}, not {text}"));
+    let bad = || {
+        ctx.error(
+            span,
+            &format!("zeta arguments are whole numbers from 1 to {MAX_ZETA_ARGUMENT}, not {text}"),
+        )
+    };
     if text.starts_with('-') {
         return Err(bad());
     }
@@ -492,7 +594,10 @@ fn zeta_argument(ctx: &Ctx<'_>, text: &str, span: Span) -> Fallible<u32> {
 
 fn zeta(ctx: &Ctx<'_>, args: Vec<(u32, Span)>, span: Span) -> Fallible<Built> {
     if args.len() > MAX_ZETA_DEPTH {
-        return Err(ctx.error(span, &format!("multiple zeta values of depth above {MAX_ZETA_DEPTH} are not supported")));
+        return Err(ctx.error(
+            span,
+            &format!("multiple zeta values of depth above {MAX_ZETA_DEPTH} are not supported"),
+        ));
     }
     match args.first() {
         Some(&(1, _)) if args.len() == 1 => Err(ctx.error(span, "zeta(1) diverges")),
@@ -500,7 +605,12 @@ fn zeta(ctx: &Ctx<'_>, args: Vec<(u32, Span)>, span: Span) -> Fallible<Built> {
             s,
             "a multiple zeta value diverges when its first argument is 1; it must be at least 2",
         )),
-        Some(_) => node(Node::Zeta(args.into_iter().map(|(s, _)| s).collect()), span, 1, ctx),
+        Some(_) => node(
+            Node::Zeta(args.into_iter().map(|(s, _)| s).collect()),
+            span,
+            1,
+            ctx,
+        ),
         None => Err(ctx.error(span, "zeta needs at least one argument")),
     }
 }
@@ -516,7 +626,13 @@ struct Written<'a> {
 }
 
 fn written<'a>(ctx: &Ctx<'_>, p: Pair<'a, Rule>) -> Fallible<Written<'a>> {
-    let mut w = Written { whole: "", fraction: "", last_digits: None, exponent: 0, has_point: false };
+    let mut w = Written {
+        whole: "",
+        fraction: "",
+        last_digits: None,
+        exponent: 0,
+        has_point: false,
+    };
     let mut exponent_span = span_of(&p);
     let mut exponent_text = None;
     for q in p.into_inner() {
@@ -532,13 +648,19 @@ fn written<'a>(ctx: &Ctx<'_>, p: Pair<'a, Rule>) -> Fallible<Written<'a>> {
                     None => w.whole = t,
                 }
                 if w.whole.len() + w.fraction.len() > MAX_DIGITS {
-                    return Err(ctx.error(span_of(&q), &format!("number with more than {MAX_DIGITS} digits")));
+                    return Err(ctx.error(
+                        span_of(&q),
+                        &format!("number with more than {MAX_DIGITS} digits"),
+                    ));
                 }
             }
             Rule::last_digits => {
                 let d = q.as_str().trim_start_matches('(').trim_end_matches(')');
                 if d.len() > MAX_DIGITS {
-                    return Err(ctx.error(span_of(&q), &format!("uncertainty with more than {MAX_DIGITS} digits")));
+                    return Err(ctx.error(
+                        span_of(&q),
+                        &format!("uncertainty with more than {MAX_DIGITS} digits"),
+                    ));
                 }
                 w.last_digits = Some(d);
             }
@@ -551,11 +673,18 @@ fn written<'a>(ctx: &Ctx<'_>, p: Pair<'a, Rule>) -> Fallible<Written<'a>> {
     }
     if let Some(t) = exponent_text {
         let digits = t.trim_start_matches(['+', '-']).trim_start_matches('0');
-        let e: Option<i64> = if digits.len() > 6 { None } else { t.parse().ok() };
+        let e: Option<i64> = if digits.len() > 6 {
+            None
+        } else {
+            t.parse().ok()
+        };
         match e {
             Some(e) if e.unsigned_abs() <= u64::from(MAX_EXPONENT) => w.exponent = e,
             _ => {
-                return Err(ctx.error(exponent_span, &format!("exponent outside -{MAX_EXPONENT}..{MAX_EXPONENT}")));
+                return Err(ctx.error(
+                    exponent_span,
+                    &format!("exponent outside -{MAX_EXPONENT}..{MAX_EXPONENT}"),
+                ));
             }
         }
     }
@@ -595,7 +724,12 @@ fn number_literal(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {
         }
     }
     let main = main.ok_or_else(|| ctx.error(span, "missing number"))?;
-    if !main.has_point && main.exponent == 0 && main.last_digits.is_none() && plus_minus.is_none() && !text.contains(['e', 'E', '^']) {
+    if !main.has_point
+        && main.exponent == 0
+        && main.last_digits.is_none()
+        && plus_minus.is_none()
+        && !text.contains(['e', 'E', '^'])
+    {
         return node(Node::Integer(digits_value(main.whole)), span, 1, ctx);
     }
     let scale = main.fraction.len();
@@ -603,12 +737,17 @@ fn number_literal(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {
     let value = scaled(&all, scale, main.exponent);
     let uncertainty = match (main.last_digits, plus_minus) {
         (Some(_), Some((s, _))) => {
-            return Err(ctx.error(s, "this number already has an uncertainty in brackets; give it one way only"));
+            return Err(ctx.error(
+                s,
+                "this number already has an uncertainty in brackets; give it one way only",
+            ));
         }
         // A bracket with a point holds the uncertainty itself (4.0(1.5) is
         // 4.0 ± 1.5); one of bare digits counts units of the last written digit.
         (Some(d), None) => Some(match d.split_once('.') {
-            Some((whole, fraction)) => scaled(&format!("{whole}{fraction}"), fraction.len(), main.exponent),
+            Some((whole, fraction)) => {
+                scaled(&format!("{whole}{fraction}"), fraction.len(), main.exponent)
+            }
             None => scaled(d, scale, main.exponent),
         }),
         (None, Some((_, w))) => {
@@ -617,5 +756,14 @@ fn number_literal(ctx: &Ctx<'_>, p: Pair<'_, Rule>) -> Fallible<Built> {
         }
         (None, None) => None,
     };
-    node(Node::Decimal { value, uncertainty, text }, span, 1, ctx)
+    node(
+        Node::Decimal {
+            value,
+            uncertainty,
+            text,
+        },
+        span,
+        1,
+        ctx,
+    )
 }

@@ -22,10 +22,27 @@ pub struct Site {
 
 impl Site {
     /// Renders a message at a span of `text` (which was read from this site).
-    pub fn render(&self, kind: ErrorKind, text: &str, origin: &str, span: Span, message: &str) -> Error {
+    pub fn render(
+        &self,
+        kind: ErrorKind,
+        text: &str,
+        origin: &str,
+        span: Span,
+        message: &str,
+    ) -> Error {
         let map = align(&self.file, self.start, text);
         let at = |i: usize| map.get(i).copied().unwrap_or(self.start);
-        render(kind, &self.file, origin, None, Span { start: at(span.start), end: at(span.end) }, message)
+        render(
+            kind,
+            &self.file,
+            origin,
+            None,
+            Span {
+                start: at(span.start),
+                end: at(span.end),
+            },
+            message,
+        )
     }
 }
 
@@ -67,7 +84,11 @@ const SHOWN_CHARS: usize = 100;
 
 /// Line and column (both from 1, the column counted in characters) of a byte
 /// offset, shifted by `place` when the source sits inside a larger file.
-pub(crate) fn line_column(source: &str, offset: usize, place: Option<(usize, usize)>) -> (usize, usize) {
+pub(crate) fn line_column(
+    source: &str,
+    offset: usize,
+    place: Option<(usize, usize)>,
+) -> (usize, usize) {
     let offset = floor_boundary(source, offset);
     let before = &source[..offset];
     let line = 1 + before.matches('\n').count();
@@ -88,13 +109,22 @@ fn floor_boundary(source: &str, offset: usize) -> usize {
     at
 }
 
-pub(crate) fn render(kind: ErrorKind, source: &str, origin: &str, place: Option<(usize, usize)>, span: Span, message: &str) -> Error {
+pub(crate) fn render(
+    kind: ErrorKind,
+    source: &str,
+    origin: &str,
+    place: Option<(usize, usize)>,
+    span: Span,
+    message: &str,
+) -> Error {
     let start = floor_boundary(source, span.start);
     let end = floor_boundary(source, span.end.max(start));
     let (line, column) = line_column(source, start, place);
 
     let line_start = source[..start].rfind('\n').map_or(0, |i| i + 1);
-    let line_end = source[start..].find('\n').map_or(source.len(), |i| start + i);
+    let line_end = source[start..]
+        .find('\n')
+        .map_or(source.len(), |i| start + i);
     let text: Vec<char> = source[line_start..line_end]
         .trim_end_matches('\r')
         .chars()
@@ -104,7 +134,9 @@ pub(crate) fn render(kind: ErrorKind, source: &str, origin: &str, place: Option<
     let caret_len = source[start..end.min(line_end)].chars().count().max(1);
 
     // Window long lines so that the caret stays in view.
-    let first = caret_from.saturating_sub(SHOWN_CHARS / 2).min(text.len().saturating_sub(SHOWN_CHARS));
+    let first = caret_from
+        .saturating_sub(SHOWN_CHARS / 2)
+        .min(text.len().saturating_sub(SHOWN_CHARS));
     let last = (first + SHOWN_CHARS).min(text.len());
     let mut shown: String = text[first..last].iter().collect();
     let mut caret_at = caret_from - first;
@@ -145,14 +177,34 @@ mod tests {
 
     #[test]
     fn caret_sits_under_the_span() {
-        let e = render(ErrorKind::Input, "1 + foo * 2", "<argument>", None, Span { start: 4, end: 7 }, "unknown symbol");
-        assert_eq!(e.message(), "<argument>:1:5: unknown symbol\n  |\n1 | 1 + foo * 2\n  |     ^^^");
+        let e = render(
+            ErrorKind::Input,
+            "1 + foo * 2",
+            "<argument>",
+            None,
+            Span { start: 4, end: 7 },
+            "unknown symbol",
+        );
+        assert_eq!(
+            e.message(),
+            "<argument>:1:5: unknown symbol\n  |\n1 | 1 + foo * 2\n  |     ^^^"
+        );
     }
 
     #[test]
     fn long_lines_are_windowed() {
         let src = format!("{}$", "1+".repeat(200));
-        let e = render(ErrorKind::Parse, &src, "f", None, Span { start: 400, end: 401 }, "bad");
+        let e = render(
+            ErrorKind::Parse,
+            &src,
+            "f",
+            None,
+            Span {
+                start: 400,
+                end: 401,
+            },
+            "bad",
+        );
         let lines: Vec<&str> = e.message().lines().collect();
         assert!(lines[2].chars().count() < 120);
         let caret = lines[3].find('^').unwrap();

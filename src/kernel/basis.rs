@@ -36,7 +36,11 @@ impl WeightBases {
     pub fn monomial(&self, w: usize, k: usize) -> Monomial {
         let parts = &self.parts[w][k];
         let pi = parts.iter().filter(|&&p| p == 2).count() as i32 * 2;
-        let zetas = parts.iter().filter(|&&p| p != 2).map(|&p| p as u32).collect();
+        let zetas = parts
+            .iter()
+            .filter(|&&p| p != 2)
+            .map(|&p| p as u32)
+            .collect();
         Monomial::from_parts(pi, zetas, Vec::new())
     }
 
@@ -44,13 +48,20 @@ impl WeightBases {
     /// for 2 <= p <= top - m (empty for p < 2).
     pub fn shift_maps(&self) -> Vec<Vec<Vec<u32>>> {
         let top = self.parts.len() - 1;
-        let mut maps: Vec<Vec<Vec<u32>>> = (0..=top).map(|m| vec![Vec::new(); top - m + 1]).collect();
+        let mut maps: Vec<Vec<Vec<u32>>> =
+            (0..=top).map(|m| vec![Vec::new(); top - m + 1]).collect();
         for w in 2..=top {
-            let index: HashMap<&[u8], u32> =
-                self.parts[w].iter().enumerate().map(|(k, p)| (&**p, k as u32)).collect();
+            let index: HashMap<&[u8], u32> = self.parts[w]
+                .iter()
+                .enumerate()
+                .map(|(k, p)| (&**p, k as u32))
+                .collect();
             for p in 2..=w {
                 let m = w - p;
-                maps[m][p] = self.parts[m].iter().map(|x| index[&*times_factor(x, p)]).collect();
+                maps[m][p] = self.parts[m]
+                    .iter()
+                    .map(|x| index[&*times_factor(x, p)])
+                    .collect();
             }
         }
         maps
@@ -70,9 +81,21 @@ impl ProductIndex {
     /// None when the fields do not fit in 128 bits (weights far beyond 100).
     pub fn new(bases: &WeightBases) -> Option<Self> {
         let offsets = field_offsets(bases.parts.len() - 1)?;
-        let key = |parts: &[u8]| parts.iter().map(|&p| 1u128 << offsets[p as usize]).sum::<u128>();
-        let keys: Vec<Vec<u128>> = bases.parts.iter().map(|w| w.iter().map(|p| key(p)).collect()).collect();
-        let index = keys.iter().flat_map(|w| w.iter().enumerate().map(|(k, &key)| (key, k as u32))).collect();
+        let key = |parts: &[u8]| {
+            parts
+                .iter()
+                .map(|&p| 1u128 << offsets[p as usize])
+                .sum::<u128>()
+        };
+        let keys: Vec<Vec<u128>> = bases
+            .parts
+            .iter()
+            .map(|w| w.iter().map(|p| key(p)).collect())
+            .collect();
+        let index = keys
+            .iter()
+            .flat_map(|w| w.iter().enumerate().map(|(k, &key)| (key, k as u32)))
+            .collect();
         Some(ProductIndex { keys, index })
     }
 
@@ -160,7 +183,10 @@ mod tests {
             for i in 0..b.len(w1) {
                 for j in 0..b.len(w2) {
                     let k = index.index_of(index.key(w1, i) + index.key(w2, j)) as usize;
-                    assert_eq!(b.monomial(w1 + w2, k), b.monomial(w1, i).mul(&b.monomial(w2, j)));
+                    assert_eq!(
+                        b.monomial(w1 + w2, k),
+                        b.monomial(w1, i).mul(&b.monomial(w2, j))
+                    );
                 }
             }
         }

@@ -30,15 +30,26 @@ impl KernelTable {
         let mut numerators = vec![Vec::new(); top + 1];
         let mut denominators = vec![Integer::from(1); top + 1];
         for p in 2..=top {
-            let z = if p % 2 == 0 { even_zeta_over_pi_power(p as u32 / 2) } else { Rational::from(1) };
+            let z = if p % 2 == 0 {
+                even_zeta_over_pi_power(p as u32 / 2)
+            } else {
+                Rational::from(1)
+            };
             let (z_num, z_den) = z.into_numer_denom();
             let binomials = binomial_row(p as u32);
             numerators[p] = (1..p)
-                .map(|i| (1..=(p - i)).map(|j| numerator(&binomials, &z_num, i as u32, j as u32, p as u32)).collect())
+                .map(|i| {
+                    (1..=(p - i))
+                        .map(|j| numerator(&binomials, &z_num, i as u32, j as u32, p as u32))
+                        .collect()
+                })
                 .collect();
             denominators[p] = z_den * p as u32;
         }
-        KernelTable { numerators, denominators }
+        KernelTable {
+            numerators,
+            denominators,
+        }
     }
 
     /// a_ijp, zero when p < i + j or p - i - j is odd.
@@ -76,7 +87,11 @@ fn numerator(binomials: &[Integer], z_num: &Integer, i: u32, j: u32, p: u32) -> 
 
 /// The rational coefficient of M_p g^p in K_ij.
 pub fn entry(i: u32, j: u32, p: u32) -> Rational {
-    let z = if p % 2 == 0 { even_zeta_over_pi_power(p / 2) } else { Rational::from(1) };
+    let z = if p % 2 == 0 {
+        even_zeta_over_pi_power(p / 2)
+    } else {
+        Rational::from(1)
+    };
     let (z_num, z_den) = z.into_numer_denom();
     Rational::from((numerator(&binomial_row(p), &z_num, i, j, p), z_den * p))
 }
@@ -105,7 +120,8 @@ mod tests {
         for p in 2..=12usize {
             for i in 1..p {
                 for j in 1..=(p - i) {
-                    let r = Rational::from((t.numerator(i, j, p).clone(), t.denominator(p).clone()));
+                    let r =
+                        Rational::from((t.numerator(i, j, p).clone(), t.denominator(p).clone()));
                     assert_eq!(r, entry(i as u32, j as u32, p as u32));
                 }
             }

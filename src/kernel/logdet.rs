@@ -14,7 +14,10 @@ use super::recursion::{Dense, TiltFactors};
 pub type DenseSeries = Vec<Dense>;
 
 fn zero(bases: &WeightBases, tilt: &TiltFactors, weight: usize) -> Dense {
-    Dense { denominator: Integer::from(1), numerators: vec![Integer::new(); bases.len(weight) * tilt.slots(weight)] }
+    Dense {
+        denominator: Integer::from(1),
+        numerators: vec![Integer::new(); bases.len(weight) * tilt.slots(weight)],
+    }
 }
 
 /// sum_terms (factor * a * b) over the given pairs of coefficients, as numerators over `common`.
@@ -30,11 +33,21 @@ fn convolve(
     let mut scaled = Integer::new();
     for (factor, wa, a, wb, b) in pairs {
         let (sa, sb) = (tilt.slots(*wa), tilt.slots(*wb));
-        for (ia, x) in a.numerators.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+        for (ia, x) in a
+            .numerators
+            .iter()
+            .enumerate()
+            .filter(|(_, x)| !x.is_zero())
+        {
             let (ba, da) = (ia / sa, ia % sa);
             scaled.assign(factor * x);
             let key_a = index.key(*wa, ba);
-            for (ib, y) in b.numerators.iter().enumerate().filter(|(_, y)| !y.is_zero()) {
+            for (ib, y) in b
+                .numerators
+                .iter()
+                .enumerate()
+                .filter(|(_, y)| !y.is_zero())
+            {
                 let (bb, db) = (ib / sb, ib % sb);
                 let target = index.index_of(key_a + index.key(*wb, bb)) as usize * slots + da + db;
                 out[target] += &scaled * y;
@@ -63,7 +76,12 @@ fn reduced(mut d: Dense) -> Dense {
 }
 
 /// ln G for a series with G_0 = 1 (coefficient k at weight 2k).
-pub fn ln(g: &DenseSeries, bases: &WeightBases, index: &ProductIndex, tilt: &TiltFactors) -> DenseSeries {
+pub fn ln(
+    g: &DenseSeries,
+    bases: &WeightBases,
+    index: &ProductIndex,
+    tilt: &TiltFactors,
+) -> DenseSeries {
     let loops = g.len() - 1;
     let mut out: DenseSeries = vec![zero(bases, tilt, 0)];
     for n in 1..=loops {
@@ -72,9 +90,13 @@ pub fn ln(g: &DenseSeries, bases: &WeightBases, index: &ProductIndex, tilt: &Til
             common.lcm_mut(&Integer::from(&out[k].denominator * &g[n - k].denominator));
         }
         let pairs: Vec<(Integer, usize, &Dense, usize, &Dense)> = (1..n)
-            .filter(|&k| out[k].numerators.iter().any(|x| !x.is_zero()) && g[n - k].numerators.iter().any(|x| !x.is_zero()))
+            .filter(|&k| {
+                out[k].numerators.iter().any(|x| !x.is_zero())
+                    && g[n - k].numerators.iter().any(|x| !x.is_zero())
+            })
             .map(|k| {
-                let scale = (&common / Integer::from(&out[k].denominator * &g[n - k].denominator)) * k as u32;
+                let scale = (&common / Integer::from(&out[k].denominator * &g[n - k].denominator))
+                    * k as u32;
                 (scale, 2 * k, &out[k], 2 * (n - k), &g[n - k])
             })
             .collect();
@@ -85,8 +107,16 @@ pub fn ln(g: &DenseSeries, bases: &WeightBases, index: &ProductIndex, tilt: &Til
         denominator.lcm_mut(&nc);
         let fg = Integer::from(&denominator / &g[n].denominator);
         let fs = Integer::from(&denominator / &nc);
-        let numerators = g[n].numerators.iter().zip(&sum).map(|(a, b)| Integer::from(a * &fg) - Integer::from(b * &fs)).collect();
-        out.push(reduced(Dense { denominator, numerators }));
+        let numerators = g[n]
+            .numerators
+            .iter()
+            .zip(&sum)
+            .map(|(a, b)| Integer::from(a * &fg) - Integer::from(b * &fs))
+            .collect();
+        out.push(reduced(Dense {
+            denominator,
+            numerators,
+        }));
     }
     out
 }
@@ -100,8 +130,16 @@ pub fn subtract(a: &DenseSeries, b: &DenseSeries) -> DenseSeries {
             denominator.lcm_mut(&y.denominator);
             let fx = Integer::from(&denominator / &x.denominator);
             let fy = Integer::from(&denominator / &y.denominator);
-            let numerators = x.numerators.iter().zip(&y.numerators).map(|(p, q)| Integer::from(p * &fx) - Integer::from(q * &fy)).collect();
-            reduced(Dense { denominator, numerators })
+            let numerators = x
+                .numerators
+                .iter()
+                .zip(&y.numerators)
+                .map(|(p, q)| Integer::from(p * &fx) - Integer::from(q * &fy))
+                .collect();
+            reduced(Dense {
+                denominator,
+                numerators,
+            })
         })
         .collect()
 }

@@ -57,7 +57,12 @@ fn check_loops(loops: u32) -> Result<()> {
 }
 
 /// The functional as a series in g^2 through g^(2 loops).
-pub fn expand(f: Functional, tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Series> {
+pub fn expand(
+    f: Functional,
+    tilt: &Tilt,
+    loops: u32,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<Series> {
     match f {
         Functional::Gamma => gamma(tilt, loops, progress),
         Functional::Delta => delta(tilt, loops, progress),
@@ -83,13 +88,18 @@ pub fn delta(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) ->
     let top = 2 * loops as usize;
     let tables = recursion::Tables::new(top);
     let factors = tilt.factors();
-    let index = basis::ProductIndex::new(&tables.bases)
-        .ok_or_else(|| Error::range(format!("{loops} loops is beyond what the determinant's packed monomials hold")))?;
+    let index = basis::ProductIndex::new(&tables.bases).ok_or_else(|| {
+        Error::range(format!(
+            "{loops} loops is beyond what the determinant's packed monomials hold"
+        ))
+    })?;
     let mut total = logdet::zeros(&tables.bases, &factors, loops as usize);
     // [(1 + K_{>=s})^(-1)]_ss - 1 starts at g^(2s), so s <= loops suffices.
     let steps = loops as usize * top;
     for s in 1..=loops as usize {
-        let diag = recursion::diagonal_dense(&tables, &factors, s, top, &mut |n, _| progress((s - 1) * top + n, steps));
+        let diag = recursion::diagonal_dense(&tables, &factors, s, top, &mut |n, _| {
+            progress((s - 1) * top + n, steps)
+        });
         let in_x: logdet::DenseSeries = diag.into_iter().step_by(2).collect();
         total = logdet::subtract(&total, &logdet::ln(&in_x, &tables.bases, &index, &factors));
     }

@@ -53,7 +53,11 @@ impl Tables {
     pub fn new(top: usize) -> Self {
         let bases = WeightBases::new(top);
         let shifts = bases.shift_maps();
-        Tables { kernel: KernelTable::new(top), bases, shifts }
+        Tables {
+            kernel: KernelTable::new(top),
+            bases,
+            shifts,
+        }
     }
 }
 
@@ -98,12 +102,17 @@ pub fn diagonal_dense(
     top: usize,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Vec<Dense> {
-    let threads = std::thread::available_parallelism().map_or(1, |n| n.get()).min(8);
+    let threads = std::thread::available_parallelism()
+        .map_or(1, |n| n.get())
+        .min(8);
     let mut levels: Vec<Level> = Vec::with_capacity(top + 1);
     let len0 = tables.bases.len(0) * tilt.slots(0);
     let mut start = vec![Integer::new(); len0];
     start[0] = Integer::from(1);
-    levels.push(Level { denominator: Integer::from(1), rows: vec![(s, start)] });
+    levels.push(Level {
+        denominator: Integer::from(1),
+        rows: vec![(s, start)],
+    });
 
     for n in 1..=top {
         let targets: Vec<usize> = (s..)
@@ -112,12 +121,16 @@ pub fn diagonal_dense(
             .collect();
         let common = level_denominator(tables, tilt, &levels, n, s, &targets);
         let next = AtomicUsize::new(0);
-        let results: Mutex<Vec<(usize, Vec<Integer>)>> = Mutex::new(Vec::with_capacity(targets.len()));
+        let results: Mutex<Vec<(usize, Vec<Integer>)>> =
+            Mutex::new(Vec::with_capacity(targets.len()));
         let work = || loop {
             let k = next.fetch_add(1, Ordering::Relaxed);
             let Some(&i) = targets.get(k) else { break };
             let row = target_row(tables, tilt, &levels, n, i, s, &common);
-            results.lock().unwrap_or_else(|e| e.into_inner()).push((i, row));
+            results
+                .lock()
+                .unwrap_or_else(|e| e.into_inner())
+                .push((i, row));
         };
         // Spawning costs more than a small level takes.
         if threads > 1 && targets.len() > 1 && tables.bases.len(n) * tilt.slots(n) >= 32 {
@@ -131,7 +144,10 @@ pub fn diagonal_dense(
         }
         let mut rows = results.into_inner().unwrap_or_else(|e| e.into_inner());
         rows.sort_by_key(|(i, _)| *i);
-        levels.push(reduce(Level { denominator: common, rows }));
+        levels.push(reduce(Level {
+            denominator: common,
+            rows,
+        }));
         progress(n, top);
     }
 
@@ -145,13 +161,20 @@ pub fn diagonal_dense(
                 .find(|(j, _)| *j == s)
                 .map(|(_, v)| v)
                 .unwrap_or_else(|| vec![Integer::new(); tables.bases.len(n) * tilt.slots(n)]);
-            Dense { denominator: level.denominator, numerators }
+            Dense {
+                denominator: level.denominator,
+                numerators,
+            }
         })
         .collect()
 }
 
 /// The sources (m, j) feeding target (n, i), with p = n - m.
-fn sources<'a>(levels: &'a [Level], n: usize, i: usize) -> impl Iterator<Item = (usize, usize, &'a Vec<Integer>)> + 'a {
+fn sources<'a>(
+    levels: &'a [Level],
+    n: usize,
+    i: usize,
+) -> impl Iterator<Item = (usize, usize, &'a Vec<Integer>)> + 'a {
     levels.iter().enumerate().flat_map(move |(m, level)| {
         level
             .rows
@@ -170,15 +193,25 @@ fn tilt_denominator(tilt: &TiltFactors) -> Integer {
 }
 
 /// lcm over contributing p of D_p * E_m * (tilt denominator).
-fn level_denominator(tables: &Tables, tilt: &TiltFactors, levels: &[Level], n: usize, s: usize, targets: &[usize]) -> Integer {
+fn level_denominator(
+    tables: &Tables,
+    tilt: &TiltFactors,
+    levels: &[Level],
+    n: usize,
+    s: usize,
+    targets: &[usize],
+) -> Integer {
     let mut common = Integer::from(1);
-    let Some(&i) = targets.first() else { return common };
+    let Some(&i) = targets.first() else {
+        return common;
+    };
     debug_assert!(i >= s);
     let mut seen = vec![false; n + 1];
     for (m, _, _) in sources(levels, n, i) {
         if !seen[m] {
             seen[m] = true;
-            let d = Integer::from(tables.kernel.denominator(n - m) * &levels[m].denominator) * tilt_denominator(tilt);
+            let d = Integer::from(tables.kernel.denominator(n - m) * &levels[m].denominator)
+                * tilt_denominator(tilt);
             common.lcm_mut(&d);
         }
     }
@@ -232,7 +265,9 @@ fn target_row(
             continue;
         }
         // R^(n)_i = -sum_p M_p (1 / (D_p E_m)) (tilt factors) sums.
-        let scale = common / (Integer::from(tables.kernel.denominator(p) * &level.denominator) * tilt_denominator(tilt));
+        let scale = common
+            / (Integer::from(tables.kernel.denominator(p) * &level.denominator)
+                * tilt_denominator(tilt));
         let shift = &tables.shifts[m][p];
         let slots_m = tilt.slots(m);
         match tilt {
@@ -301,7 +336,13 @@ fn reduce(mut level: Level) -> Level {
     level
 }
 
-pub(crate) fn to_exact(tables: &Tables, tilt: &TiltFactors, n: usize, denominator: &Integer, v: &[Integer]) -> Exact {
+pub(crate) fn to_exact(
+    tables: &Tables,
+    tilt: &TiltFactors,
+    n: usize,
+    denominator: &Integer,
+    v: &[Integer],
+) -> Exact {
     let slots = tilt.slots(n);
     let mut out = Exact::zero();
     for (k, x) in v.iter().enumerate() {

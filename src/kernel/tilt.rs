@@ -22,7 +22,9 @@ impl Tilt {
     /// The tilt with cos^2(alpha) = c2, which must lie in [0, 1].
     pub fn cos2(c2: Rational) -> Result<Tilt> {
         if !(0..=1).contains(&c2) {
-            return Err(Error::range(format!("c2 = cos^2(alpha) = {c2} is outside [0, 1]")));
+            return Err(Error::range(format!(
+                "c2 = cos^2(alpha) = {c2} is outside [0, 1]"
+            )));
         }
         Ok(Tilt::Cos2(c2))
     }
@@ -33,10 +35,19 @@ impl Tilt {
         let two_q = Rational::from(q * 2u32);
         let half = Rational::from(&two_q / 2u32);
         let r = two_q - Rational::from(half.floor_ref()) * 2u32;
-        let cos = [(0, 1, 1, 1), (1, 3, 1, 2), (1, 2, 0, 1), (2, 3, -1, 2), (1, 1, -1, 1), (4, 3, -1, 2), (3, 2, 0, 1), (5, 3, 1, 2)]
-            .iter()
-            .find(|(n, d, _, _)| r == Rational::from((*n, *d)))
-            .map(|(_, _, cn, cd)| Rational::from((*cn, *cd)));
+        let cos = [
+            (0, 1, 1, 1),
+            (1, 3, 1, 2),
+            (1, 2, 0, 1),
+            (2, 3, -1, 2),
+            (1, 1, -1, 1),
+            (4, 3, -1, 2),
+            (3, 2, 0, 1),
+            (5, 3, 1, 2),
+        ]
+        .iter()
+        .find(|(n, d, _, _)| r == Rational::from((*n, *d)))
+        .map(|(_, _, cn, cd)| Rational::from((*cn, *cd)));
         match cos {
             Some(c) => Tilt::cos2((c + 1u32) / 2u32),
             None => Err(Error::input(format!(
@@ -50,7 +61,10 @@ impl Tilt {
 
     pub fn factors(&self) -> TiltFactors {
         match self {
-            Tilt::Cos2(c) => TiltFactors::Rational { u: c.numer().clone(), w: c.denom().clone() },
+            Tilt::Cos2(c) => TiltFactors::Rational {
+                u: c.numer().clone(),
+                w: c.denom().clone(),
+            },
             Tilt::Symbolic => TiltFactors::Symbolic,
         }
     }
@@ -103,7 +117,11 @@ mod tests {
             (q(5, 6), q(3, 4)),
             (q(7, 4), q(1, 2)),
         ] {
-            assert_eq!(Tilt::pi_multiple(&angle).unwrap(), Tilt::Cos2(c2), "angle {angle} pi");
+            assert_eq!(
+                Tilt::pi_multiple(&angle).unwrap(),
+                Tilt::Cos2(c2),
+                "angle {angle} pi"
+            );
         }
     }
 

@@ -14,7 +14,13 @@ use crate::error::{Error, Result};
 /// in one recurrence and the node adds a rank-one term. Orders above m, with
 /// m from the magnitude estimate of J at 2g t_k, would contribute below
 /// exp(ln_drop) and are skipped.
-pub(crate) fn kernel_integrals(g: &Float, n: usize, nodes: &[(Float, Float)], ln_drop: f64, prec: u32) -> Vec<Float> {
+pub(crate) fn kernel_integrals(
+    g: &Float,
+    n: usize,
+    nodes: &[(Float, Float)],
+    ln_drop: f64,
+    prec: u32,
+) -> Vec<Float> {
     let mut s = vec![Float::new(prec); n * n];
     let two_g = Float::with_val(prec, g * 2u32);
     let mut u: Vec<Float> = vec![Float::new(prec); n + 1];
@@ -62,7 +68,11 @@ pub(crate) fn tilted_system(s: &[Float], n: usize, k: usize, c2: &Float, prec: u
         for j in 1..=k {
             let odd_even = i % 2 == 0 && j % 2 == 1;
             // (-1)^(j(i+1)) is -1 exactly on that block.
-            let mut v = if odd_even { Float::with_val(prec, -&s2) } else { Float::with_val(prec, c2) };
+            let mut v = if odd_even {
+                Float::with_val(prec, -&s2)
+            } else {
+                Float::with_val(prec, c2)
+            };
             v *= (4 * j) as u32;
             v *= &s[(i - 1) * n + j - 1];
             if i == j {
@@ -85,7 +95,9 @@ pub(crate) struct Solved {
 /// LU with partial pivoting of the k x k row-major matrix, then the first
 /// column of the inverse's first entry and the log of the determinant.
 pub(crate) fn factor(mut a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
-    let mut rhs: Vec<Float> = (0..k).map(|i| Float::with_val(prec, if i == 0 { 1 } else { 0 })).collect();
+    let mut rhs: Vec<Float> = (0..k)
+        .map(|i| Float::with_val(prec, if i == 0 { 1 } else { 0 }))
+        .collect();
     let mut ln_det = Float::new(prec);
     let mut negative = false;
     let mut tmp = Float::new(prec);
@@ -125,7 +137,9 @@ pub(crate) fn factor(mut a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
         }
     }
     if negative {
-        return Err(Error::numeric("det(1 + K') came out negative: the truncation is not trustworthy"));
+        return Err(Error::numeric(
+            "det(1 + K') came out negative: the truncation is not trustworthy",
+        ));
     }
     for r in (0..k).rev() {
         for j in (r + 1)..k {
@@ -134,7 +148,10 @@ pub(crate) fn factor(mut a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
         }
         rhs[r] /= &a[r * k + r];
     }
-    Ok(Solved { inv11: rhs.swap_remove(0), ln_det })
+    Ok(Solved {
+        inv11: rhs.swap_remove(0),
+        ln_det,
+    })
 }
 
 #[cfg(test)]
@@ -144,7 +161,10 @@ mod tests {
     #[test]
     fn factor_small_system() {
         // [[2, 1], [4, 5]]: det 6, inverse (1,1) = 5/6.
-        let a: Vec<Float> = [2, 1, 4, 5].iter().map(|&v| Float::with_val(100, v)).collect();
+        let a: Vec<Float> = [2, 1, 4, 5]
+            .iter()
+            .map(|&v| Float::with_val(100, v))
+            .collect();
         let s = factor(a, 2, 100).unwrap();
         let d = (s.ln_det - Float::with_val(100, 6).ln()).abs().to_f64();
         assert!(d < 1e-28);
@@ -154,7 +174,10 @@ mod tests {
 
     #[test]
     fn negative_determinant_is_refused() {
-        let a: Vec<Float> = [1, 2, 3, 4].iter().map(|&v| Float::with_val(100, v)).collect();
+        let a: Vec<Float> = [1, 2, 3, 4]
+            .iter()
+            .map(|&v| Float::with_val(100, v))
+            .collect();
         assert!(factor(a, 2, 100).is_err());
     }
 }

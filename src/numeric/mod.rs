@@ -71,7 +71,10 @@ impl Estimate {
         if k == 0 {
             return crate::report::digit_place(&self.error, 1)
                 .filter(|_| self.value.is_finite())
-                .map_or_else(|| "nan".to_string(), |place| crate::report::rounded_at(&self.value, place));
+                .map_or_else(
+                    || "nan".to_string(),
+                    |place| crate::report::rounded_at(&self.value, place),
+                );
         }
         // Scientific text with k significant digits (rug counts the
         // precision in significant digits), rounded to nearest:
@@ -95,7 +98,11 @@ impl Estimate {
             }
         } else {
             let (a, b) = digits.split_at(1);
-            let b = if b.is_empty() { String::new() } else { format!(".{b}") };
+            let b = if b.is_empty() {
+                String::new()
+            } else {
+                format!(".{b}")
+            };
             format!("{sign}{a}{b}e{}", exp - 1)
         }
     }
@@ -177,7 +184,13 @@ fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
 
 /// One pass at an absolute tolerance exp(ln_tol) on the functional divided by
 /// its scale (4 g^2 for Gamma, 1 for Delta).
-fn attempt(f: Functional, c2: &Float, g: &Float, ln_tol: f64, cache: &mut RuleCache) -> Result<Estimate> {
+fn attempt(
+    f: Functional,
+    c2: &Float,
+    g: &Float,
+    ln_tol: f64,
+    cache: &mut RuleCache,
+) -> Result<Estimate> {
     let gf = g.to_f64();
     let (n, n2) = sizes(f, gf, ln_tol)?;
     let guard_digits = -ln_tol / LN_10 + 6.0 + ((4 * n2) as f64).log10();
@@ -185,8 +198,10 @@ fn attempt(f: Functional, c2: &Float, g: &Float, ln_tol: f64, cache: &mut RuleCa
     // Entries of K' carry the factor 4j; the functionals move by at most
     // about that much per entry error, hence the extra margin.
     let ln_entry = ln_tol - ((4 * n2) as f64).ln() - 2.0 * LN_10;
-    let coarse_panels = plan(gf, ln_entry).ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
-    let fine_panels = plan(gf, ln_entry - 4.0 * LN_10).ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
+    let coarse_panels = plan(gf, ln_entry)
+        .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
+    let fine_panels = plan(gf, ln_entry - 4.0 * LN_10)
+        .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
     let fine_nodes = weighted_nodes(&fine_panels, cache, prec);
     let coarse_nodes = weighted_nodes(&coarse_panels, cache, prec);
     let drop_fine = ln_entry - 4.0 * LN_10 - (fine_nodes.len() as f64).ln();
@@ -215,7 +230,9 @@ fn attempt(f: Functional, c2: &Float, g: &Float, ln_tol: f64, cache: &mut RuleCa
     rounding *= (n2 * n2) as u32;
     match f {
         Functional::Gamma => rounding *= Float::with_val(prec, best.abs_ref()),
-        Functional::Delta => rounding *= Float::with_val(prec, best.abs_ref()).max(&Float::with_val(prec, 1)),
+        Functional::Delta => {
+            rounding *= Float::with_val(prec, best.abs_ref()).max(&Float::with_val(prec, 1))
+        }
     }
     error += rounding;
     Ok(Estimate { value: best, error })
@@ -223,16 +240,27 @@ fn attempt(f: Functional, c2: &Float, g: &Float, ln_tol: f64, cache: &mut RuleCa
 
 fn check_inputs(c2: &Float, g: &Float, digits: u32) -> Result<()> {
     if digits == 0 || digits > MAX_DIGITS {
-        return Err(Error::range(format!("digits must be between 1 and {MAX_DIGITS}, got {digits}")));
+        return Err(Error::range(format!(
+            "digits must be between 1 and {MAX_DIGITS}, got {digits}"
+        )));
     }
     if c2.is_nan() || *c2 < 0 || *c2 > 1 {
-        return Err(Error::range(format!("cos^2(alpha) must lie in [0, 1], got {}", c2.to_f64())));
+        return Err(Error::range(format!(
+            "cos^2(alpha) must lie in [0, 1], got {}",
+            c2.to_f64()
+        )));
     }
     if g.is_nan() || *g < 0 {
-        return Err(Error::range(format!("the coupling g must be non-negative, got {}", g.to_f64())));
+        return Err(Error::range(format!(
+            "the coupling g must be non-negative, got {}",
+            g.to_f64()
+        )));
     }
     if g.is_infinite() || *g > MAX_COUPLING {
-        return Err(Error::range(format!("the coupling g must be at most {MAX_COUPLING}, got {}", g.to_f64())));
+        return Err(Error::range(format!(
+            "the coupling g must be at most {MAX_COUPLING}, got {}",
+            g.to_f64()
+        )));
     }
     Ok(())
 }
@@ -244,11 +272,20 @@ pub fn evaluate(f: Functional, c2: &Float, g: &Float, digits: u32) -> Result<Est
     evaluate_with(f, c2, g, digits, &mut RuleCache::default())
 }
 
-fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut RuleCache) -> Result<Estimate> {
+fn evaluate_with(
+    f: Functional,
+    c2: &Float,
+    g: &Float,
+    digits: u32,
+    cache: &mut RuleCache,
+) -> Result<Estimate> {
     check_inputs(c2, g, digits)?;
     let out_prec = (f64::from(digits + 10) * 10f64.log2()).ceil() as u32;
     if g.is_zero() {
-        return Ok(Estimate { value: Float::new(out_prec), error: Float::new(out_prec) });
+        return Ok(Estimate {
+            value: Float::new(out_prec),
+            error: Float::new(out_prec),
+        });
     }
     let gf = g.to_f64();
     // The expected size of the functional in the unit its tolerance is
@@ -278,7 +315,10 @@ fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut 
         if rel_error <= tol_now {
             let ln_value = rel_value.clone().ln().to_f64();
             let floor = scale_ln - f64::from(digits) * LN_10;
-            if rel_value > Float::with_val(64, &rel_error * 10u32) && ln_value < ln_scale - 1.0 && ln_value > floor {
+            if rel_value > Float::with_val(64, &rel_error * 10u32)
+                && ln_value < ln_scale - 1.0
+                && ln_value > floor
+            {
                 // The value is far below the assumed scale: aim at it.
                 ln_scale = ln_value;
                 continue;
@@ -292,7 +332,9 @@ fn evaluate_with(f: Functional, c2: &Float, g: &Float, digits: u32, cache: &mut 
         extra += 5.0;
         last = Some(est);
     }
-    let detail = last.map(|e| format!(" (best: {} +- {:.1e})", e.value.to_f64(), e.error.to_f64())).unwrap_or_default();
+    let detail = last
+        .map(|e| format!(" (best: {} +- {:.1e})", e.value.to_f64(), e.error.to_f64()))
+        .unwrap_or_default();
     Err(Error::numeric(format!(
         "could not reach {digits} digits for {f:?} at g = {gf}, cos^2 = {}{detail}",
         c2.to_f64()
@@ -320,7 +362,10 @@ pub fn scan(
     let total = couplings.len();
     let mut out = Vec::with_capacity(total);
     for (i, g) in couplings.iter().enumerate() {
-        out.push(evaluate_with(f, c2, g, digits, &mut cache).map_err(|e| e.context(format!("g = {}", g.to_f64())))?);
+        out.push(
+            evaluate_with(f, c2, g, digits, &mut cache)
+                .map_err(|e| e.context(format!("g = {}", g.to_f64())))?,
+        );
         progress(i + 1, total);
     }
     Ok(out)

@@ -39,11 +39,17 @@ const PALETTE: [RGBColor; 12] = [
 fn span(values: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     let (lo, hi) = values
         .filter(|v| v.is_finite())
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| (lo.min(v), hi.max(v)));
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+            (lo.min(v), hi.max(v))
+        });
     if lo > hi {
         return None;
     }
-    let pad = if hi > lo { 0.04 * (hi - lo) } else { lo.abs().max(1.0) * 0.5 };
+    let pad = if hi > lo {
+        0.04 * (hi - lo)
+    } else {
+        lo.abs().max(1.0) * 0.5
+    };
     Some((lo - pad, hi + pad))
 }
 
@@ -91,12 +97,23 @@ fn dashes(points: &[(f64, f64)], x: (f64, f64), y: (f64, f64)) -> Vec<Vec<(f64, 
 }
 
 fn draw_err<E: std::fmt::Display>(path: &Path) -> impl Fn(E) -> Error + '_ {
-    move |e| Error::io(format!("{}: could not draw the figure: {e}", path.display()))
+    move |e| {
+        Error::io(format!(
+            "{}: could not draw the figure: {e}",
+            path.display()
+        ))
+    }
 }
 
 /// Writes an SVG figure with a title, axis labels and a legend naming each
 /// curve. Non-finite points are skipped.
-pub fn write_svg(path: &Path, title: &str, x_label: &str, y_label: &str, curves: &[Curve]) -> Result<()> {
+pub fn write_svg(
+    path: &Path,
+    title: &str,
+    x_label: &str,
+    y_label: &str,
+    curves: &[Curve],
+) -> Result<()> {
     // Probe the path first so an unwritable place is reported as such and
     // not as a drawing failure.
     std::fs::File::create(path).map_err(|e| Error::io(format!("{}: {e}", path.display())))?;
@@ -121,13 +138,26 @@ pub fn write_svg(path: &Path, title: &str, x_label: &str, y_label: &str, curves:
         .map_err(&fail)?;
     for (k, curve) in curves.iter().enumerate() {
         let color = PALETTE[k % PALETTE.len()];
-        let style = ShapeStyle { color: color.to_rgba(), filled: false, stroke_width: 2 };
-        let pts: Vec<(f64, f64)> = curve.points.iter().copied().filter(|p| p.0.is_finite() && p.1.is_finite()).collect();
+        let style = ShapeStyle {
+            color: color.to_rgba(),
+            filled: false,
+            stroke_width: 2,
+        };
+        let pts: Vec<(f64, f64)> = curve
+            .points
+            .iter()
+            .copied()
+            .filter(|p| p.0.is_finite() && p.1.is_finite())
+            .collect();
         let series = if curve.dashed {
             let pieces = dashes(&pts, xs, ys);
-            chart.draw_series(pieces.into_iter().map(|p| PathElement::new(p, style))).map_err(&fail)?
+            chart
+                .draw_series(pieces.into_iter().map(|p| PathElement::new(p, style)))
+                .map_err(&fail)?
         } else {
-            chart.draw_series(LineSeries::new(pts, style)).map_err(&fail)?
+            chart
+                .draw_series(LineSeries::new(pts, style))
+                .map_err(&fail)?
         };
         let dashed = curve.dashed;
         series.label(curve.name.clone()).legend(move |(x, y)| {
@@ -158,17 +188,38 @@ mod tests {
         let dir = std::env::temp_dir().join(format!("loopwise-plot-{}", std::process::id()));
         std::fs::create_dir_all(&dir).unwrap();
         let path = dir.join("figure.svg");
-        let solid: Vec<(f64, f64)> = (0..=50).map(|k| (k as f64 * 0.1, (k as f64 * 0.1).sin())).collect();
-        let dashed: Vec<(f64, f64)> = (0..=50).map(|k| (k as f64 * 0.1, 0.5 * (k as f64 * 0.1).cos())).collect();
+        let solid: Vec<(f64, f64)> = (0..=50)
+            .map(|k| (k as f64 * 0.1, (k as f64 * 0.1).sin()))
+            .collect();
+        let dashed: Vec<(f64, f64)> = (0..=50)
+            .map(|k| (k as f64 * 0.1, 0.5 * (k as f64 * 0.1).cos()))
+            .collect();
         let curves = [
-            Curve { name: "solid sine".into(), points: solid, dashed: false },
-            Curve { name: "dashed half cosine".into(), points: dashed, dashed: true },
+            Curve {
+                name: "solid sine".into(),
+                points: solid,
+                dashed: false,
+            },
+            Curve {
+                name: "dashed half cosine".into(),
+                points: dashed,
+                dashed: true,
+            },
         ];
         write_svg(&path, "Test figure", "g", "value", &curves).unwrap();
         let text = std::fs::read_to_string(&path).unwrap();
-        assert!(text.trim_start().starts_with("<svg"), "not SVG: {}", &text[..text.len().min(80)]);
+        assert!(
+            text.trim_start().starts_with("<svg"),
+            "not SVG: {}",
+            &text[..text.len().min(80)]
+        );
         assert!(text.trim_end().ends_with("</svg>"));
-        for needle in ["solid sine", "dashed half cosine", "Test figure", "<polyline"] {
+        for needle in [
+            "solid sine",
+            "dashed half cosine",
+            "Test figure",
+            "<polyline",
+        ] {
             assert!(text.contains(needle), "missing {needle}");
         }
         std::fs::remove_dir_all(&dir).unwrap();
@@ -177,12 +228,17 @@ mod tests {
     #[test]
     fn unwritable_path_is_an_io_error_naming_it() {
         // A path whose parent is a regular file cannot be created.
-        let blocker = std::env::temp_dir().join(format!("loopwise-plot-blocker-{}", std::process::id()));
+        let blocker =
+            std::env::temp_dir().join(format!("loopwise-plot-blocker-{}", std::process::id()));
         std::fs::write(&blocker, b"x").unwrap();
         let path = blocker.join("figure.svg");
         let err = write_svg(&path, "t", "x", "y", &[]).unwrap_err();
         std::fs::remove_file(&blocker).unwrap();
         assert_eq!(err.kind(), crate::ErrorKind::Io);
-        assert!(err.message().contains("loopwise-plot-blocker"), "{}", err.message());
+        assert!(
+            err.message().contains("loopwise-plot-blocker"),
+            "{}",
+            err.message()
+        );
     }
 }

@@ -92,7 +92,10 @@ pub(crate) struct RuleCache {
 
 impl RuleCache {
     pub fn get(&mut self, n: usize, prec: u32) -> Rc<GaussRule> {
-        self.rules.entry((n, prec)).or_insert_with(|| Rc::new(gauss_legendre(n, prec))).clone()
+        self.rules
+            .entry((n, prec))
+            .or_insert_with(|| Rc::new(gauss_legendre(n, prec)))
+            .clone()
     }
 }
 
@@ -170,7 +173,11 @@ pub(crate) fn plan(g: f64, ln_tol: f64) -> Option<Vec<Panel>> {
 
 /// Nodes t_k and weights w_k / (t_k (e^t_k - 1)) of the composite rule, the
 /// kernel's weight folded in so that an integral is sum_k W_k J_i J_j.
-pub(crate) fn weighted_nodes(panels: &[Panel], cache: &mut RuleCache, prec: u32) -> Vec<(Float, Float)> {
+pub(crate) fn weighted_nodes(
+    panels: &[Panel],
+    cache: &mut RuleCache,
+    prec: u32,
+) -> Vec<(Float, Float)> {
     let mut out = Vec::new();
     for p in panels {
         let rule = cache.get(p.n, prec);

@@ -84,7 +84,10 @@ fn strong_coupling_at_half_tilt() {
     let d10 = remainder("10");
     let d20 = remainder("20");
     for (ratio, which) in [(d5 / d10, "5/10"), (d10 / d20, "10/20")] {
-        assert!((3.6..4.6).contains(&ratio), "remainder ratio {which} = {ratio} (remainders {d5:e}, {d10:e}, {d20:e})");
+        assert!(
+            (3.6..4.6).contains(&ratio),
+            "remainder ratio {which} = {ratio} (remainders {d5:e}, {d10:e}, {d20:e})"
+        );
     }
 }
 
@@ -97,17 +100,35 @@ fn tilted_values_match_an_independent_computation() {
     // (c2 = 1/4) and 3.9e-19 (c2 = 0.7) from 26 to 30, so the size-30 value
     // is trusted to about 1e-21.
     let cases = [
-        ("0.25", "0.3", "0.32202540086305055804351004101866542", "0.12601313512775639957241741251476498"),
-        ("0.7", "0.3", "0.27142650712186109116810691068397726", "0.32265263311831842913835533385604226"),
+        (
+            "0.25",
+            "0.3",
+            "0.32202540086305055804351004101866542",
+            "0.12601313512775639957241741251476498",
+        ),
+        (
+            "0.7",
+            "0.3",
+            "0.27142650712186109116810691068397726",
+            "0.32265263311831842913835533385604226",
+        ),
     ];
     for (c2, g, gamma_ref, delta_ref) in cases {
         let est = evaluate(Functional::Gamma, &fl(c2), &fl(g), 30).unwrap();
         let d = Float::with_val(P, &est.value - fl(gamma_ref)).abs();
-        assert!(d <= Float::with_val(P, &est.error + fl("1e-35")), "Gamma c2={c2}: off by {:e}", d.to_f64());
+        assert!(
+            d <= Float::with_val(P, &est.error + fl("1e-35")),
+            "Gamma c2={c2}: off by {:e}",
+            d.to_f64()
+        );
         assert!(est.digits_supported() >= 30);
         let est = evaluate(Functional::Delta, &fl(c2), &fl(g), 20).unwrap();
         let d = Float::with_val(P, &est.value - fl(delta_ref)).abs();
-        assert!(d <= Float::with_val(P, &est.error + fl("2e-21")), "Delta c2={c2}: off by {:e}", d.to_f64());
+        assert!(
+            d <= Float::with_val(P, &est.error + fl("2e-21")),
+            "Delta c2={c2}: off by {:e}",
+            d.to_f64()
+        );
         assert!(est.digits_supported() >= 20);
     }
 }
@@ -120,7 +141,12 @@ fn zero_tilt_is_exact() {
         let four_g2 = Float::with_val(P, fl(g).square() * 4u32);
         check(Functional::Gamma, "0", g, 20, &four_g2);
         let est = evaluate(Functional::Delta, &fl("0"), &fl(g), 20).unwrap();
-        assert!(est.value.clone().abs() <= est.error, "Delta(0) = {} +- {}", est.value, est.error);
+        assert!(
+            est.value.clone().abs() <= est.error,
+            "Delta(0) = {} +- {}",
+            est.value,
+            est.error
+        );
         assert!(est.error < 1e-20);
     }
 }
@@ -138,7 +164,10 @@ fn strong_coupling_slope_matches_the_conjectured_leading_term() {
         let at = |g: &str| evaluate(Functional::Gamma, &c, &fl(g), 10).unwrap().value;
         let slope = Float::with_val(P, at("20") - at("10")) / 10u32;
         let rel = ((slope / &slope_conj).to_f64() - 1.0).abs();
-        assert!(rel < 1e-3, "c2={c2}: slope differs from the conjectured one by {rel:e}");
+        assert!(
+            rel < 1e-3,
+            "c2={c2}: slope differs from the conjectured one by {rel:e}"
+        );
     }
 }
 
@@ -164,8 +193,14 @@ fn weak_coupling_series_at_half_tilt() {
     };
     let r1 = remainder("0.05");
     let r2 = remainder("0.025");
-    assert!((5e3..2e4).contains(&r1), "remainder / g^10 at g = 0.05 is {r1}");
-    assert!((r2 / r1 - 1.0).abs() < 0.1, "remainder / g^10: {r1} at g = 0.05, {r2} at g = 0.025");
+    assert!(
+        (5e3..2e4).contains(&r1),
+        "remainder / g^10 at g = 0.05 is {r1}"
+    );
+    assert!(
+        (r2 / r1 - 1.0).abs() < 0.1,
+        "remainder / g^10: {r1} at g = 0.05, {r2} at g = 0.025"
+    );
 }
 
 #[test]
@@ -197,27 +232,51 @@ fn zero_coupling_gives_zero() {
 
 #[test]
 fn decimal_text_keeps_only_supported_digits() {
-    let e = Estimate { value: fl("0.324512345678"), error: fl("3e-8") };
+    let e = Estimate {
+        value: fl("0.324512345678"),
+        error: fl("3e-8"),
+    };
     // The error 3e-8 is within half a unit of the 7th digit (5e-8) but not
     // of the 8th (5e-9): 7 digits.
     assert_eq!(e.digits_supported(), 7);
     assert_eq!(e.to_decimal(40), "0.3245123");
     assert_eq!(e.to_decimal(3), "0.325");
-    let big = Estimate { value: fl("-12345.678"), error: fl("0.004") };
+    let big = Estimate {
+        value: fl("-12345.678"),
+        error: fl("0.004"),
+    };
     assert_eq!(big.to_decimal(40), "-12345.68");
-    let tiny = Estimate { value: fl("1e-30"), error: fl("1e-20") };
+    let tiny = Estimate {
+        value: fl("1e-30"),
+        error: fl("1e-20"),
+    };
     assert_eq!(tiny.digits_supported(), 0);
     assert_eq!(tiny.to_decimal(10), "0");
     // An error as large as the value: rounded at the error's leading digit.
-    let rough = Estimate { value: fl("1.04"), error: fl("0.6") };
+    let rough = Estimate {
+        value: fl("1.04"),
+        error: fl("0.6"),
+    };
     assert_eq!(rough.digits_supported(), 0);
     assert_eq!(rough.to_decimal(10), "1.0");
-    let cancelled = Estimate { value: fl("2e-25"), error: fl("3e-3") };
+    let cancelled = Estimate {
+        value: fl("2e-25"),
+        error: fl("3e-3"),
+    };
     assert_eq!(cancelled.to_decimal(10), "0.000");
-    let half = Estimate { value: fl("0.5"), error: fl("1e-10") };
+    let half = Estimate {
+        value: fl("0.5"),
+        error: fl("1e-10"),
+    };
     assert_eq!(half.to_decimal(40), "0.500000000");
-    let whole = Estimate { value: fl("1234567.4"), error: fl("2000") };
+    let whole = Estimate {
+        value: fl("1234567.4"),
+        error: fl("2000"),
+    };
     assert_eq!(whole.to_decimal(40), "1.23e6");
-    let sci = Estimate { value: fl("6.02214076e23"), error: fl("1e15") };
+    let sci = Estimate {
+        value: fl("6.02214076e23"),
+        error: fl("1e15"),
+    };
     assert_eq!(sci.to_decimal(40), "6.0221408e23");
 }

@@ -57,7 +57,10 @@ fn json_order(o: &OrderResult) -> JsonOrder {
         supplied: o.supplied.as_ref().map(|s| s.text()),
         predicted: o.predicted.as_ref().map(|p| p.to_string()),
         inconsistent_value: o.inconsistent.as_ref().map(Verdict::name),
-        inconsistency: o.inconsistent.as_ref().map(|v| JsonVerdict::of(v, ToString::to_string)),
+        inconsistency: o
+            .inconsistent
+            .as_ref()
+            .map(|v| JsonVerdict::of(v, ToString::to_string)),
     }
 }
 
@@ -72,33 +75,76 @@ fn text_row(o: &OrderResult, max_digits: u32) -> (&'static str, String, String) 
             format!("supplied - predicted = {difference} = {}", short(size)),
         ),
         Verdict::AgreesNumerically { digits, in_units } => {
-            let d = if *digits >= max_digits { format!("{max_digits}+") } else { digits.to_string() };
-            let s = in_units.as_ref().map_or(String::new(), |u| format!(", {}", in_units_text(u, 2, WRITTEN_BOUND)));
-            ("ok", format!("agrees to {d} digits"), format!("supplied {supplied}{s}"))
+            let d = if *digits >= max_digits {
+                format!("{max_digits}+")
+            } else {
+                digits.to_string()
+            };
+            let s = in_units.as_ref().map_or(String::new(), |u| {
+                format!(", {}", in_units_text(u, 2, WRITTEN_BOUND))
+            });
+            (
+                "ok",
+                format!("agrees to {d} digits"),
+                format!("supplied {supplied}{s}"),
+            )
         }
-        Verdict::DiffersNumerically { difference, in_units, .. } => {
-            let s = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND)));
-            ("DIFF", "differs numerically".to_string(), format!("supplied {supplied}: supplied - predicted = {}{s}", short(difference)))
+        Verdict::DiffersNumerically {
+            difference,
+            in_units,
+            ..
+        } => {
+            let s = in_units.as_ref().map_or(String::new(), |u| {
+                format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND))
+            });
+            (
+                "DIFF",
+                "differs numerically".to_string(),
+                format!(
+                    "supplied {supplied}: supplied - predicted = {}{s}",
+                    short(difference)
+                ),
+            )
         }
-        Verdict::NotPredicted => ("-", "not predicted".to_string(), "beyond the orders the prediction reaches".to_string()),
+        Verdict::NotPredicted => (
+            "-",
+            "not predicted".to_string(),
+            "beyond the orders the prediction reaches".to_string(),
+        ),
         Verdict::NotSupplied => ("-", "not supplied".to_string(), String::new()),
     };
     if let Some(v) = &o.inconsistent {
         let size = match v {
-            Verdict::DiffersNumerically { difference, in_units, .. } => {
-                let u = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND)));
+            Verdict::DiffersNumerically {
+                difference,
+                in_units,
+                ..
+            } => {
+                let u = in_units.as_ref().map_or(String::new(), |u| {
+                    format!(" = {}", in_units_text(u, 3, WRITTEN_BOUND))
+                });
                 format!(": value - exact = {}{u}", short(difference))
             }
-            Verdict::DiffersExactly { difference, size } => format!(": value - exact = {difference} = {}", short(size)),
+            Verdict::DiffersExactly { difference, size } => {
+                format!(": value - exact = {difference} = {}", short(size))
+            }
             _ => String::new(),
         };
         let value = o.value_text.as_deref().unwrap_or("");
         let gap = format!("the file's own value {value} disagrees with its exact{size}");
-        detail = if detail.is_empty() { format!("but {gap}") } else { format!("{detail}; and {gap}") };
+        detail = if detail.is_empty() {
+            format!("but {gap}")
+        } else {
+            format!("{detail}; and {gap}")
+        };
         return ("DIFF", words, detail);
     }
     if let Some(l) = &o.label {
-        detail = if detail.is_empty() { format!("[{l}]") } else { format!("{detail} [{l}]") };
+        detail = if detail.is_empty() {
+            format!("[{l}]")
+        } else {
+            format!("{detail} [{l}]")
+        };
     }
     (mark, words, detail)
 }
@@ -124,10 +170,23 @@ struct JsonUnusable<'a> {
 pub fn render_unusable(file: &str, error: &Error, format: Format) -> Result<String> {
     match format {
         Format::Text => {
-            let message: String = error.message().lines().map(|l| format!("  {l}\n")).collect();
-            Ok(format!("{file}: not checked, the input cannot be used:\n{message}"))
+            let message: String = error
+                .message()
+                .lines()
+                .map(|l| format!("  {l}\n"))
+                .collect();
+            Ok(format!(
+                "{file}: not checked, the input cannot be used:\n{message}"
+            ))
         }
-        Format::Json | Format::Yaml => serialized(&JsonUnusable { file, agrees: false, error: error.message() }, format),
+        Format::Json | Format::Yaml => serialized(
+            &JsonUnusable {
+                file,
+                agrees: false,
+                error: error.message(),
+            },
+            format,
+        ),
         Format::Latex => Err(Error::input("the check report comes as text, json or yaml")),
     }
 }
@@ -149,8 +208,16 @@ fn json(c: &Comparison) -> JsonReport {
 
 fn text(c: &Comparison) -> String {
     let mut out = String::new();
-    let what = if c.prediction == c.definition { c.prediction.clone() } else { format!("{} = {}", c.prediction, c.definition) };
-    out.push_str(&format!("{}: checked against {what}, coupling {}\n", c.file, c.coupling.symbol()));
+    let what = if c.prediction == c.definition {
+        c.prediction.clone()
+    } else {
+        format!("{} = {}", c.prediction, c.definition)
+    };
+    out.push_str(&format!(
+        "{}: checked against {what}, coupling {}\n",
+        c.file,
+        c.coupling.symbol()
+    ));
     if let Some(e) = &c.entry {
         out.push_str(&status_line(e));
     }
@@ -159,9 +226,21 @@ fn text(c: &Comparison) -> String {
         out.push_str(&super::wrap(&format!("about: {}", about.join("; ")), 88));
     }
     out.push('\n');
-    let rows: Vec<(u32, (&str, String, String))> = c.orders.iter().map(|o| (o.loop_order, text_row(o, c.digits))).collect();
-    let width = rows.iter().map(|(_, (_, w, _))| w.len()).max().unwrap_or(7).max(7);
-    out.push_str(&format!("{:>4}  {:<4}  {:<width$}  detail\n", "L", "", "verdict"));
+    let rows: Vec<(u32, (&str, String, String))> = c
+        .orders
+        .iter()
+        .map(|o| (o.loop_order, text_row(o, c.digits)))
+        .collect();
+    let width = rows
+        .iter()
+        .map(|(_, (_, w, _))| w.len())
+        .max()
+        .unwrap_or(7)
+        .max(7);
+    out.push_str(&format!(
+        "{:>4}  {:<4}  {:<width$}  detail\n",
+        "L", "", "verdict"
+    ));
     for (l, (mark, words, detail)) in rows {
         out.push_str(format!("{l:>4}  {mark:<4}  {words:<width$}  {detail}").trim_end());
         out.push('\n');
@@ -174,8 +253,16 @@ fn text(c: &Comparison) -> String {
     }
     let skipped = c.not_compared();
     if !skipped.is_empty() {
-        let list = skipped.iter().map(u32::to_string).collect::<Vec<_>>().join(", ");
-        let (which, are) = if skipped.len() == 1 { ("order", "is") } else { ("orders", "are") };
+        let list = skipped
+            .iter()
+            .map(u32::to_string)
+            .collect::<Vec<_>>()
+            .join(", ");
+        let (which, are) = if skipped.len() == 1 {
+            ("order", "is")
+        } else {
+            ("orders", "are")
+        };
         out.push('\n');
         out.push_str(&super::wrap(
             &format!(

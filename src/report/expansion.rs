@@ -44,10 +44,28 @@ struct JsonReport<'a> {
 
 impl Expansion {
     /// The report of `series` (in g^2) shown in `coupling`, loops 1..=order.
-    pub fn new(quantity: &str, definition: &str, entry: Option<Entry>, series: &Series, coupling: Coupling, even: EvenStyle, digits: u32) -> Self {
+    pub fn new(
+        quantity: &str,
+        definition: &str,
+        entry: Option<Entry>,
+        series: &Series,
+        coupling: Coupling,
+        even: EvenStyle,
+        digits: u32,
+    ) -> Self {
         let converted = series.in_coupling(coupling);
-        let orders = (1..=converted.order()).map(|l| (l as u32, converted.coeff(l).clone())).collect();
-        Expansion { quantity: quantity.to_string(), definition: definition.to_string(), entry, coupling, even, digits, orders }
+        let orders = (1..=converted.order())
+            .map(|l| (l as u32, converted.coeff(l).clone()))
+            .collect();
+        Expansion {
+            quantity: quantity.to_string(),
+            definition: definition.to_string(),
+            entry,
+            coupling,
+            even,
+            digits,
+            orders,
+        }
     }
 
     fn value(&self, c: &Exact) -> Result<Option<String>> {
@@ -62,7 +80,11 @@ impl Expansion {
         self.orders
             .iter()
             .map(|(l, c)| {
-                Ok(JsonOrder { loop_order: *l, exact: c.format(self.even, Notation::Text), value: self.value(c)? })
+                Ok(JsonOrder {
+                    loop_order: *l,
+                    exact: c.format(self.even, Notation::Text),
+                    value: self.value(c)?,
+                })
             })
             .collect()
     }
@@ -90,7 +112,11 @@ impl Expansion {
             definition: &self.definition,
             coupling: self.coupling.name(),
             status: self.entry.as_ref().map(|e| e.status.to_string()),
-            references: self.entry.as_ref().map(|e| e.references.clone()).unwrap_or_default(),
+            references: self
+                .entry
+                .as_ref()
+                .map(|e| e.references.clone())
+                .unwrap_or_default(),
             orders: self.rows()?,
         })
     }
@@ -109,12 +135,26 @@ impl Expansion {
         } else {
             out.push('\n');
         }
-        out.push_str(&format!("{}; values to {} significant digits\n\n", self.variable_text(), self.digits));
+        out.push_str(&format!(
+            "{}; values to {} significant digits\n\n",
+            self.variable_text(),
+            self.digits
+        ));
         let rows = self.rows()?;
-        let width = rows.iter().map(|r| r.value.as_deref().map_or(1, str::len)).max().unwrap_or(5).max(5);
+        let width = rows
+            .iter()
+            .map(|r| r.value.as_deref().map_or(1, str::len))
+            .max()
+            .unwrap_or(5)
+            .max(5);
         out.push_str(&format!("{:>4}  {:<width$}  exact\n", "L", "value"));
         for r in &rows {
-            out.push_str(&format!("{:>4}  {:<width$}  {}\n", r.loop_order, r.value.as_deref().unwrap_or("-"), r.exact));
+            out.push_str(&format!(
+                "{:>4}  {:<width$}  {}\n",
+                r.loop_order,
+                r.value.as_deref().unwrap_or("-"),
+                r.exact
+            ));
         }
         Ok(out)
     }
@@ -127,12 +167,22 @@ impl Expansion {
             Coupling::Lambda => "\\lambda^{L}",
         };
         let mut out = String::new();
-        out.push_str(&format!("% loopwise: {} = {}; {}\n", self.quantity, self.definition, self.variable_text()));
+        out.push_str(&format!(
+            "% loopwise: {} = {}; {}\n",
+            self.quantity,
+            self.definition,
+            self.variable_text()
+        ));
         out.push_str("\\begin{table}[ht]\n\\centering\n\\begin{tabular}{rlr}\n\\hline\n");
-        out.push_str(&format!("$L$ & coefficient of ${variable}$ & value \\\\\n\\hline\n"));
+        out.push_str(&format!(
+            "$L$ & coefficient of ${variable}$ & value \\\\\n\\hline\n"
+        ));
         for ((l, c), r) in self.orders.iter().zip(&rows) {
             let cell = math_cell(&c.format(self.even, Notation::Latex), 3);
-            let value = r.value.as_deref().map_or("--".to_string(), |v| format!("${v}$"));
+            let value = r
+                .value
+                .as_deref()
+                .map_or("--".to_string(), |v| format!("${v}$"));
             out.push_str(&format!("{l} & {cell} & {value} \\\\\n"));
         }
         out.push_str("\\hline\n\\end{tabular}\n");
@@ -140,7 +190,9 @@ impl Expansion {
             .entry
             .as_ref()
             .filter(|e| e.status == Status::Conjecture)
-            .map_or(String::new(), |_| " The all-order formula is a conjecture of the literature.".to_string());
+            .map_or(String::new(), |_| {
+                " The all-order formula is a conjecture of the literature.".to_string()
+            });
         let convention = match self.coupling {
             Coupling::G2 => "$g^2 = \\lambda/(16\\pi^2)$",
             Coupling::A => "$a = \\lambda/(8\\pi^2) = 2g^2$",
@@ -151,23 +203,35 @@ impl Expansion {
             escape(&self.quantity),
             escape(&self.definition),
         ));
-        out.push_str(&format!("\\label{{tab:{}}}\n\\end{{table}}\n", label_slug(&self.quantity)));
+        out.push_str(&format!(
+            "\\label{{tab:{}}}\n\\end{{table}}\n",
+            label_slug(&self.quantity)
+        ));
         Ok(out)
     }
 }
 
 /// The status of a catalogue entry in one or two lines; conjectures are flagged.
 pub fn status_line(e: &Entry) -> String {
-    let refs = if e.references.is_empty() { String::new() } else { format!(" [{}]", e.references.join(", ")) };
+    let refs = if e.references.is_empty() {
+        String::new()
+    } else {
+        format!(" [{}]", e.references.join(", "))
+    };
     let note = e.note.as_deref().map_or(String::new(), |n| format!(" {n}"));
     let text = match e.status {
         Status::Established => format!("status: established.{note}{refs}"),
-        Status::Conjecture => format!("CAUTION: conjecture of the literature, not a theorem.{note}{refs}"),
+        Status::Conjecture => {
+            format!("CAUTION: conjecture of the literature, not a theorem.{note}{refs}")
+        }
     };
     super::wrap(&text, 88)
 }
 
 fn label_slug(name: &str) -> String {
-    let slug: String = name.chars().map(|c| if c.is_ascii_alphanumeric() { c } else { '-' }).collect();
+    let slug: String = name
+        .chars()
+        .map(|c| if c.is_ascii_alphanumeric() { c } else { '-' })
+        .collect();
     format!("loopwise-{}", slug.trim_matches('-'))
 }

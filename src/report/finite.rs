@@ -104,8 +104,14 @@ impl AtReport {
 
     fn text(&self) -> String {
         let mut out = String::new();
-        let title = if self.quantity == self.definition { self.quantity.clone() } else { format!("{} = {}", self.quantity, self.definition) };
-        out.push_str(&format!("{title} at finite coupling, g^2 = lambda/(16 pi^2)"));
+        let title = if self.quantity == self.definition {
+            self.quantity.clone()
+        } else {
+            format!("{} = {}", self.quantity, self.definition)
+        };
+        out.push_str(&format!(
+            "{title} at finite coupling, g^2 = lambda/(16 pi^2)"
+        ));
         if let Some(e) = &self.entry {
             out.push_str(&format!(": {}\n", e.summary));
             out.push_str(&status_line(e));
@@ -114,19 +120,36 @@ impl AtReport {
         }
         let sc = self.entry.as_ref().and_then(|e| e.strong_coupling.as_ref());
         if let Some(s) = sc {
-            let caution = if s.status == Status::Conjecture { " (CAUTION: conjecture)" } else { "" };
+            let caution = if s.status == Status::Conjecture {
+                " (CAUTION: conjecture)"
+            } else {
+                ""
+            };
             out.push_str(&format!("strong coupling: {}{caution}\n", s.formula));
         }
-        out.push_str(&format!("values carry only the digits their error estimate supports (at most {})\n\n", self.digits));
+        out.push_str(&format!(
+            "values carry only the digits their error estimate supports (at most {})\n\n",
+            self.digits
+        ));
         let rows: Vec<JsonRow> = self.rows.iter().map(|r| json_row(r, self.digits)).collect();
         let gw = rows.iter().map(|r| r.g.len()).max().unwrap_or(1).max(1);
         let vw = rows.iter().map(|r| r.value.len()).max().unwrap_or(5).max(5);
-        let strong_header = if sc.is_some() { "  strong coupling" } else { "" };
-        let header = format!("{:>gw$}  {:<vw$}  {:<8}{strong_header}", "g", "value", "error");
+        let strong_header = if sc.is_some() {
+            "  strong coupling"
+        } else {
+            ""
+        };
+        let header = format!(
+            "{:>gw$}  {:<vw$}  {:<8}{strong_header}",
+            "g", "value", "error"
+        );
         out.push_str(header.trim_end());
         out.push('\n');
         for r in rows {
-            let strong = r.strong_coupling.as_deref().map_or(String::new(), |s| format!("  {s}"));
+            let strong = r
+                .strong_coupling
+                .as_deref()
+                .map_or(String::new(), |s| format!("  {s}"));
             let line = format!("{:>gw$}  {:<vw$}  {:<8}{strong}", r.g, r.value, r.error);
             out.push_str(line.trim_end());
             out.push('\n');
@@ -136,7 +159,12 @@ impl AtReport {
 }
 
 /// Rows of `scan` as CSV (g,value,error) or JSON.
-pub fn scan_rows(couplings: &[Float], values: &[Estimate], digits: u32, json: bool) -> Result<String> {
+pub fn scan_rows(
+    couplings: &[Float],
+    values: &[Estimate],
+    digits: u32,
+    json: bool,
+) -> Result<String> {
     let rows: Vec<JsonRow> = couplings
         .iter()
         .zip(values)
@@ -171,7 +199,11 @@ pub fn radius_text(quantity: &str, r: &RadiusEstimate) -> String {
     out.push('\n');
     out.push_str(&format!("{:>4}  {:<14}  {:<14}\n", "L", "ratio", "root"));
     for ((l, ratio), (_, root)) in r.ratio.iter().zip(&r.root) {
-        out.push_str(&format!("{l:>4}  {:<14}  {:<14}\n", decimal(ratio, 10), decimal(root, 10)));
+        out.push_str(&format!(
+            "{l:>4}  {:<14}  {:<14}\n",
+            decimal(ratio, 10),
+            decimal(root, 10)
+        ));
     }
     let quarter = Float::with_val(64, 0.25);
     let off = Float::with_val(64, &r.estimate - &quarter);

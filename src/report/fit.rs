@@ -77,7 +77,11 @@ fn json(r: &FitReport) -> JsonReport {
         .iter()
         .map(|n| JsonElement {
             name: n.clone(),
-            formula: r.elements.iter().find(|e| &e.name == n).map_or(n.clone(), |e| e.formula.clone()),
+            formula: r
+                .elements
+                .iter()
+                .find(|e| &e.name == n)
+                .map_or(n.clone(), |e| e.formula.clone()),
         })
         .collect();
     let mut out = JsonReport {
@@ -85,7 +89,15 @@ fn json(r: &FitReport) -> JsonReport {
         coupling: r.coupling.name(),
         orders: r.orders.clone(),
         basis,
-        dropped: r.fit.dropped.iter().map(|d| JsonDropped { name: d.name.clone(), reason: d.reason.clone() }).collect(),
+        dropped: r
+            .fit
+            .dropped
+            .iter()
+            .map(|d| JsonDropped {
+                name: d.name.clone(),
+                reason: d.reason.clone(),
+            })
+            .collect(),
         result: "none",
         formula: None,
         coefficients: None,
@@ -101,18 +113,30 @@ fn json(r: &FitReport) -> JsonReport {
             out.formula = Some(r.combination(a));
             out.coefficients = Some(a.iter().map(ToString::to_string).collect());
         }
-        Solution::Family { particular, null_space } => {
+        Solution::Family {
+            particular,
+            null_space,
+        } => {
             out.result = "family";
             out.formula = Some(r.combination(particular));
             out.coefficients = Some(particular.iter().map(ToString::to_string).collect());
             out.free_directions = null_space.iter().map(|v| r.combination(v)).collect();
             out.fixing = r.fit.fixing.as_ref().map(|f| match f {
-                Fixing::At { loop_order, missing } => {
-                    JsonFixing { fixed_at: Some(*loop_order), missing_orders: missing.clone(), free_at_ceiling: None, ceiling: r.ceiling }
-                }
-                Fixing::NotWithin { ceiling, free } => {
-                    JsonFixing { fixed_at: None, missing_orders: Vec::new(), free_at_ceiling: Some(*free), ceiling: *ceiling }
-                }
+                Fixing::At {
+                    loop_order,
+                    missing,
+                } => JsonFixing {
+                    fixed_at: Some(*loop_order),
+                    missing_orders: missing.clone(),
+                    free_at_ceiling: None,
+                    ceiling: r.ceiling,
+                },
+                Fixing::NotWithin { ceiling, free } => JsonFixing {
+                    fixed_at: None,
+                    missing_orders: Vec::new(),
+                    free_at_ceiling: Some(*free),
+                    ceiling: *ceiling,
+                },
             });
         }
         Solution::None(bad) => {
@@ -122,7 +146,11 @@ fn json(r: &FitReport) -> JsonReport {
                 .names
                 .iter()
                 .zip(&bad.elements)
-                .map(|(n, s)| JsonElementStatus { name: n.clone(), ruled_out_at: s.ruled_out_at, can_appear: s.can_appear })
+                .map(|(n, s)| JsonElementStatus {
+                    name: n.clone(),
+                    ruled_out_at: s.ruled_out_at,
+                    can_appear: s.can_appear,
+                })
                 .collect();
         }
     }
@@ -130,7 +158,11 @@ fn json(r: &FitReport) -> JsonReport {
 }
 
 fn orders_text(orders: &[u32]) -> String {
-    orders.iter().map(ToString::to_string).collect::<Vec<_>>().join(", ")
+    orders
+        .iter()
+        .map(ToString::to_string)
+        .collect::<Vec<_>>()
+        .join(", ")
 }
 
 fn text(r: &FitReport) -> String {
@@ -144,7 +176,11 @@ fn text(r: &FitReport) -> String {
     ));
     if r.has_names() {
         for n in &r.fit.names {
-            if let Some(e) = r.elements.iter().find(|e| &e.name == n && e.name != e.formula) {
+            if let Some(e) = r
+                .elements
+                .iter()
+                .find(|e| &e.name == n && e.name != e.formula)
+            {
                 out.push_str(&format!("  {} = {}\n", e.name, e.formula));
             }
         }
@@ -161,7 +197,10 @@ fn text(r: &FitReport) -> String {
                 out.push_str(&format!("  = {}\n", r.named_combination(a)));
             }
         }
-        Solution::Family { particular, null_space } => {
+        Solution::Family {
+            particular,
+            null_space,
+        } => {
             out.push_str(&format!(
                 "a family of solutions with {} free parameter{}: particular solution + any rational multiples of the directions\n",
                 null_space.len(),
@@ -192,18 +231,19 @@ fn text(r: &FitReport) -> String {
             if below.is_empty() {
                 out.push_str(&format!("no combination fits: no rational combination of the basis matches order {n}.\n"));
             } else {
-                out.push_str(&format!(
-                    "no combination fits: orders {} can be matched, but not together with order {n}.\n",
-                    orders_text(&below)
-                ));
+                out.push_str(&format!("no combination fits: orders {} can be matched, but not together with order {n}.\n", orders_text(&below)));
             }
             let width = r.fit.names.iter().map(String::len).max().unwrap_or(4);
             for (name, s) in r.fit.names.iter().zip(&bad.elements) {
                 let status = match (s.ruled_out_at, s.can_appear, below.is_empty()) {
                     (Some(l), _, _) => format!("ruled out by the orders up to {l}"),
                     (None, _, true) => format!("no lower order to rule it out before order {n}"),
-                    (None, true, false) => format!("still possible at orders {}", orders_text(&below)),
-                    (None, false, false) => format!("zero in every fit of orders {}", orders_text(&below)),
+                    (None, true, false) => {
+                        format!("still possible at orders {}", orders_text(&below))
+                    }
+                    (None, false, false) => {
+                        format!("zero in every fit of orders {}", orders_text(&below))
+                    }
                 };
                 out.push_str(&format!("  {name:<width$}  {status}\n"));
             }

@@ -27,8 +27,14 @@ pub fn math_cell(sum: &str, per_line: usize) -> String {
     if terms.len() <= per_line {
         return format!("${sum}$");
     }
-    let lines: Vec<String> = terms.chunks(per_line).map(|c| format!("&{}", c.concat())).collect();
-    format!("$\\begin{{aligned}}[t]{}\\end{{aligned}}$", lines.join("\\\\"))
+    let lines: Vec<String> = terms
+        .chunks(per_line)
+        .map(|c| format!("&{}", c.concat()))
+        .collect();
+    format!(
+        "$\\begin{{aligned}}[t]{}\\end{{aligned}}$",
+        lines.join("\\\\")
+    )
 }
 
 /// Splits "a - b + c" into ["a", " - b", " + c"] at the top-level signs the

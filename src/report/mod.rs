@@ -5,9 +5,9 @@
 pub mod check;
 pub mod expansion;
 pub mod finite;
+pub mod fit;
 pub mod latex;
 pub mod origin;
-pub mod fit;
 
 use std::fmt;
 
@@ -64,14 +64,23 @@ pub struct JsonVerdict {
 pub fn in_units_text(u: &crate::compare::InUnits, digits: u32, bound: &str) -> String {
     match u {
         crate::compare::InUnits::Sigmas(x) => format!("{} sigma", decimal(x, digits)),
-        crate::compare::InUnits::RoundingBounds(x) => format!("{} times {bound}", decimal(x, digits)),
+        crate::compare::InUnits::RoundingBounds(x) => {
+            format!("{} times {bound}", decimal(x, digits))
+        }
     }
 }
 
 impl JsonVerdict {
     /// A verdict that carries no details (not supplied, not testable, ...).
     pub fn named(verdict: &'static str) -> Self {
-        JsonVerdict { verdict, difference: None, difference_value: None, digits_agreeing: None, sigmas: None, rounding_bounds: None }
+        JsonVerdict {
+            verdict,
+            difference: None,
+            difference_value: None,
+            digits_agreeing: None,
+            sigmas: None,
+            rounding_bounds: None,
+        }
     }
 
     /// `exact` writes an exact difference in the report's style.
@@ -88,7 +97,11 @@ impl JsonVerdict {
                 out.digits_agreeing = Some(*digits);
                 in_units.as_ref()
             }
-            Verdict::DiffersNumerically { difference, in_units, digits } => {
+            Verdict::DiffersNumerically {
+                difference,
+                in_units,
+                digits,
+            } => {
                 out.difference_value = Some(decimal(difference, 20));
                 out.digits_agreeing = Some(*digits);
                 in_units.as_ref()
@@ -97,7 +110,9 @@ impl JsonVerdict {
         };
         match in_units {
             Some(crate::compare::InUnits::Sigmas(x)) => out.sigmas = Some(decimal(x, 4)),
-            Some(crate::compare::InUnits::RoundingBounds(x)) => out.rounding_bounds = Some(decimal(x, 4)),
+            Some(crate::compare::InUnits::RoundingBounds(x)) => {
+                out.rounding_bounds = Some(decimal(x, 4))
+            }
             None => {}
         }
         out
@@ -108,7 +123,9 @@ impl JsonVerdict {
 pub fn serialized<T: serde::Serialize>(value: &T, format: Format) -> Result<String> {
     match format {
         Format::Yaml => serde_yaml::to_string(value).map_err(|e| Error::io(e.to_string())),
-        _ => serde_json::to_string_pretty(value).map(|s| s + "\n").map_err(|e| Error::io(e.to_string())),
+        _ => serde_json::to_string_pretty(value)
+            .map(|s| s + "\n")
+            .map_err(|e| Error::io(e.to_string())),
     }
 }
 
@@ -142,7 +159,11 @@ pub fn decimal(x: &Float, digits: u32) -> String {
     } else {
         let (first, rest) = mantissa.split_at(1);
         let e = exp - 1;
-        return if rest.is_empty() { format!("{sign}{first}e{e}") } else { format!("{sign}{first}.{rest}e{e}") };
+        return if rest.is_empty() {
+            format!("{sign}{first}e{e}")
+        } else {
+            format!("{sign}{first}.{rest}e{e}")
+        };
     };
     format!("{sign}{plain}")
 }
@@ -164,9 +185,16 @@ pub fn digit_place(x: &Float, nth: u32) -> Option<i32> {
 pub fn rounded_at(x: &Float, place: i32) -> String {
     let prec = x.prec().max(64) + 64;
     let unit = Float::with_val(prec, Float::with_val(prec, 10u32).pow(place));
-    let m = Float::with_val(prec, x / &unit).round().to_integer().unwrap_or_default();
+    let m = Float::with_val(prec, x / &unit)
+        .round()
+        .to_integer()
+        .unwrap_or_default();
     if m.is_zero() {
-        return if (-6..0).contains(&place) { format!("0.{}", "0".repeat(place.unsigned_abs() as usize)) } else { "0".to_string() };
+        return if (-6..0).contains(&place) {
+            format!("0.{}", "0".repeat(place.unsigned_abs() as usize))
+        } else {
+            "0".to_string()
+        };
     }
     let digits = m.to_string_radix(10).trim_start_matches('-').len() as u32;
     decimal(&(Float::with_val(prec, &m) * &unit), digits)

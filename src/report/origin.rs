@@ -37,7 +37,8 @@ const PROPAGATED_BOUND: &str = "the rounding bound propagated from the written d
 
 /// |value| / uncertainty, when there is an uncertainty.
 fn sigmas_of(a: &Approx) -> Option<rug::Float> {
-    (!a.uncertainty.is_zero()).then(|| rug::Float::with_val(a.value.prec(), a.value.abs_ref()) / &a.uncertainty)
+    (!a.uncertainty.is_zero())
+        .then(|| rug::Float::with_val(a.value.prec(), a.value.abs_ref()) / &a.uncertainty)
 }
 
 /// One term that breaks exponentiation, with how far it is from zero.
@@ -47,7 +48,11 @@ fn term_text(t: &NumTerm, logs: &OriginLogs, digits: u32) -> String {
         Some(s) => format!("{} times {PROPAGATED_BOUND}", decimal(&s, 3)),
         None => "beyond the working precision".to_string(),
     };
-    format!("{}*{} ({size})", written(&t.coefficient, digits.min(SHOWN_DIGITS)), monomial_text(t.exponents, logs))
+    format!(
+        "{}*{} ({size})",
+        written(&t.coefficient, digits.min(SHOWN_DIGITS)),
+        monomial_text(t.exponents, logs)
+    )
 }
 
 /// The high-degree and asymmetric parts of a break, as text.
@@ -56,7 +61,11 @@ fn break_parts(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> (
         if ts.is_empty() {
             "0".to_string()
         } else {
-            ts.iter().map(|t| term_text(t, logs, digits)).collect::<Vec<_>>().join(" + ").replace("+ -", "- ")
+            ts.iter()
+                .map(|t| term_text(t, logs, digits))
+                .collect::<Vec<_>>()
+                .join(" + ")
+                .replace("+ -", "- ")
         }
     };
     match b {
@@ -85,7 +94,15 @@ struct JsonCell {
 
 impl JsonCell {
     fn empty(verdict: JsonVerdict) -> Self {
-        JsonCell { verdict, supplied: None, predicted: None, supplied_value: None, uncertainty: None, uncertainty_stated: None, predicted_value: None }
+        JsonCell {
+            verdict,
+            supplied: None,
+            predicted: None,
+            supplied_value: None,
+            uncertainty: None,
+            uncertainty_stated: None,
+            predicted_value: None,
+        }
     }
 }
 
@@ -97,7 +114,11 @@ fn cell(j: &Judged, even: EvenStyle, digits: u32) -> JsonCell {
         out.supplied_value = Some(decimal(&a.value, digits.min(SHOWN_DIGITS)));
         out.uncertainty = Some(decimal(&a.uncertainty, 3));
         out.uncertainty_stated = Some(a.stated);
-        out.predicted_value = j.predicted.as_ref().and_then(|p| p.evaluate(a.value.prec()).ok()).map(|v| decimal(&v, 20));
+        out.predicted_value = j
+            .predicted
+            .as_ref()
+            .and_then(|p| p.evaluate(a.value.prec()).ok())
+            .map(|v| decimal(&v, 20));
     }
     out
 }
@@ -146,19 +167,33 @@ fn json_break(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> Js
     let (high_degree, asymmetric) = break_parts(b, logs, even, digits);
     let mut terms = Vec::new();
     if let Broken::Numeric(n) = b {
-        for (part, ts) in [("high-degree", &n.high_degree), ("asymmetric", &n.asymmetric)] {
-            terms.extend(ts.iter().map(|t| JsonTerm {
-                part,
-                monomial: monomial_text(t.exponents, logs),
-                value: decimal(&t.coefficient.value, digits.min(SHOWN_DIGITS)),
-                uncertainty: decimal(&t.coefficient.uncertainty, 3),
-                uncertainty_stated: t.coefficient.stated,
-                sigmas: sigmas_of(&t.coefficient).filter(|_| t.coefficient.stated).map(|s| decimal(&s, 4)),
-                rounding_bounds: sigmas_of(&t.coefficient).filter(|_| !t.coefficient.stated).map(|s| decimal(&s, 4)),
+        for (part, ts) in [
+            ("high-degree", &n.high_degree),
+            ("asymmetric", &n.asymmetric),
+        ] {
+            terms.extend(ts.iter().map(|t| {
+                JsonTerm {
+                    part,
+                    monomial: monomial_text(t.exponents, logs),
+                    value: decimal(&t.coefficient.value, digits.min(SHOWN_DIGITS)),
+                    uncertainty: decimal(&t.coefficient.uncertainty, 3),
+                    uncertainty_stated: t.coefficient.stated,
+                    sigmas: sigmas_of(&t.coefficient)
+                        .filter(|_| t.coefficient.stated)
+                        .map(|s| decimal(&s, 4)),
+                    rounding_bounds: sigmas_of(&t.coefficient)
+                        .filter(|_| !t.coefficient.stated)
+                        .map(|s| decimal(&s, 4)),
+                }
             }));
         }
     }
-    JsonBreak { loop_order: b.order() as u32, high_degree, asymmetric, terms }
+    JsonBreak {
+        loop_order: b.order() as u32,
+        high_degree,
+        asymmetric,
+        terms,
+    }
 }
 
 #[derive(Serialize)]
@@ -186,7 +221,9 @@ pub fn render(c: &OriginCheck, format: Format, even: EvenStyle) -> Result<String
     match format {
         Format::Text => Ok(text(c, even)),
         Format::Json | Format::Yaml => super::serialized(&json(c, even), format),
-        Format::Latex => Err(Error::input("the origin report comes as text, json or yaml")),
+        Format::Latex => Err(Error::input(
+            "the origin report comes as text, json or yaml",
+        )),
     }
 }
 
@@ -201,7 +238,9 @@ fn json(c: &OriginCheck, even: EvenStyle) -> JsonReport {
             octagon: Some(cell(&r.octagon, even, d)),
             hexagon: match &r.hexagon {
                 HexagonCell::Judged(j) => Some(cell(j, even, d)),
-                HexagonCell::NotTestableOnLine => Some(JsonCell::empty(JsonVerdict::named("not-testable-on-line"))),
+                HexagonCell::NotTestableOnLine => {
+                    Some(JsonCell::empty(JsonVerdict::named("not-testable-on-line")))
+                }
             },
             linear: Some(cell(&r.linear, even, d)),
             constant: Some(cell(&r.constant, even, d)),
@@ -212,7 +251,11 @@ fn json(c: &OriginCheck, even: EvenStyle) -> JsonReport {
         for l in b.order() as u32..=c.highest {
             orders.push(JsonOrder {
                 loop_order: l,
-                exponentiation: if l == b.order() as u32 { "broken" } else { "not-examined" },
+                exponentiation: if l == b.order() as u32 {
+                    "broken"
+                } else {
+                    "not-examined"
+                },
                 octagon: None,
                 hexagon: None,
                 linear: None,
@@ -261,9 +304,7 @@ pub fn notes(c: &OriginCheck) -> Vec<String> {
         Some(Status::Conjecture) => "a conjecture of the literature",
         _ => "established",
     };
-    out.push(format!(
-        "octagon: the coefficient of ln^2(u1 u2 u3) is predicted as -Gamma_oct/24, Gamma_oct = Gamma(0) ({oct})."
-    ));
+    out.push(format!("octagon: the coefficient of ln^2(u1 u2 u3) is predicted as -Gamma_oct/24, Gamma_oct = Gamma(0) ({oct})."));
     if c.on_line() {
         out.push(
             "on the line u1 = u2 = u3 only Gamma_oct is testable: sum_i ln^2(u_i/u_(i+1)) vanishes there, so the \
@@ -273,15 +314,17 @@ pub fn notes(c: &OriginCheck) -> Vec<String> {
     } else {
         let hex = match &c.hexagon_entry {
             Some(e) if e.status == Status::Conjecture => {
-                let refs = if e.references.is_empty() { String::new() } else { format!(", {}", e.references.join(", ")) };
+                let refs = if e.references.is_empty() {
+                    String::new()
+                } else {
+                    format!(", {}", e.references.join(", "))
+                };
                 format!("a conjecture of the literature{refs}, not a theorem")
             }
             Some(_) => "established".to_string(),
             None => "not in the catalogue".to_string(),
         };
-        out.push(format!(
-            "hexagon: the coefficient of sum_i ln^2(u_i/u_(i+1)) is predicted as -Gamma_hex/24, Gamma_hex = Gamma(pi/3) ({hex})."
-        ));
+        out.push(format!("hexagon: the coefficient of sum_i ln^2(u_i/u_(i+1)) is predicted as -Gamma_hex/24, Gamma_hex = Gamma(pi/3) ({hex})."));
     }
     out.push("linear: the predicted form has no ln(u1 u2 u3) term; a nonzero one counts as a difference.".to_string());
     out.push(
@@ -295,7 +338,10 @@ pub fn notes(c: &OriginCheck) -> Vec<String> {
         ));
     }
     if c.normalisation == crate::seriesfile::Normalisation::R6 {
-        out.push("R6 was read as ln E = R6 + Gamma_cusp/4 E^(1), with Gamma_cusp = Gamma(pi/4).".to_string());
+        out.push(
+            "R6 was read as ln E = R6 + Gamma_cusp/4 E^(1), with Gamma_cusp = Gamma(pi/4)."
+                .to_string(),
+        );
     }
     if c.is_numeric() {
         let orders: Vec<String> = c.numeric.iter().map(u32::to_string).collect();
@@ -321,7 +367,11 @@ pub fn notes(c: &OriginCheck) -> Vec<String> {
 fn text(c: &OriginCheck, even: EvenStyle) -> String {
     let mut out = String::new();
     let logs = c.logs.names().join(", ");
-    let kind = if c.on_line() { format!("the line u1 = u2 = u3, log {logs}") } else { format!("logs {logs}") };
+    let kind = if c.on_line() {
+        format!("the line u1 = u2 = u3, log {logs}")
+    } else {
+        format!("logs {logs}")
+    };
     out.push_str(&format!(
         "{}: six-gluon amplitude at the origin, normalisation {}, {kind}, coefficients of {}^L\n",
         c.file,
@@ -344,7 +394,10 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
     out.push('\n');
 
     let with_formula = c.formula.is_some();
-    let mut header = format!("{:>4}  {:<13}  {:<7}  {:<7}  {:<6}  {:<5}", "L", "exponentiates", "octagon", "hexagon", "linear", "C0");
+    let mut header = format!(
+        "{:>4}  {:<13}  {:<7}  {:<7}  {:<6}  {:<5}",
+        "L", "exponentiates", "octagon", "hexagon", "linear", "C0"
+    );
     if with_formula {
         header.push_str("  C0 formula");
     }
@@ -376,7 +429,12 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
             let rest = if c.highest == b.order() as u32 + 1 {
                 format!("{:>4}  not examined\n", c.highest)
             } else {
-                format!("{:>4}  not examined (orders {}-{})\n", "", b.order() + 1, c.highest)
+                format!(
+                    "{:>4}  not examined (orders {}-{})\n",
+                    "",
+                    b.order() + 1,
+                    c.highest
+                )
             };
             out.push_str(&rest);
         }
@@ -396,7 +454,10 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
                 show_reading(&r.constant.supplied, even, c.digits)
             );
             if !r.linear.supplied.is_zero() {
-                line.push_str(&format!("; linear {}", show_reading(&r.linear.supplied, even, c.digits)));
+                line.push_str(&format!(
+                    "; linear {}",
+                    show_reading(&r.linear.supplied, even, c.digits)
+                ));
             }
             out.push_str(&indent(&super::wrap(&line, 84)));
         }
@@ -414,7 +475,10 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
             cells.push(("C0 formula", f));
         }
         for (name, j) in cells {
-            let predicted = j.predicted.as_ref().map_or(String::new(), |p| show(p, even));
+            let predicted = j
+                .predicted
+                .as_ref()
+                .map_or(String::new(), |p| show(p, even));
             let supplied = show_reading(&j.supplied, even, c.digits);
             match &j.verdict {
                 Verdict::DiffersExactly { difference, size } => differences.push(format!(
@@ -448,14 +512,18 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
     }
 
     if let Some(b) = &c.broken {
-        let within = if c.is_numeric() { " (beyond the uncertainties)" } else { "" };
-        out.push_str(&format!(
-            "\nexponentiation breaks at order {}: ln E is not a symmetric polynomial of degree <= 2 there{within}.\n",
-            b.order()
-        ));
+        let within = if c.is_numeric() {
+            " (beyond the uncertainties)"
+        } else {
+            ""
+        };
+        out.push_str(&format!("\nexponentiation breaks at order {}: ln E is not a symmetric polynomial of degree <= 2 there{within}.\n", b.order()));
         let (high_degree, asymmetric) = break_parts(b, &c.logs, even, c.digits);
         if high_degree != "0" {
-            out.push_str(&indent(&super::wrap(&format!("terms of degree > 2 in the logs: {high_degree}"), 84)));
+            out.push_str(&indent(&super::wrap(
+                &format!("terms of degree > 2 in the logs: {high_degree}"),
+                84,
+            )));
         }
         if asymmetric != "0" {
             out.push_str(&indent(&super::wrap(
@@ -464,7 +532,10 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
             )));
         }
         if c.highest > b.order() as u32 {
-            out.push_str(&indent(&format!("orders above {} are not compared.\n", b.order())));
+            out.push_str(&indent(&format!(
+                "orders above {} are not compared.\n",
+                b.order()
+            )));
         }
     }
 

@@ -82,6 +82,10 @@ mod tests {
         for (n, d) in [(1u32, 6i64), (2, 90), (3, 945), (4, 9450), (5, 93555)] {
             assert_eq!(even_zeta_over_pi_power(n), q(1, d), "zeta({})", 2 * n);
         }
-        assert_eq!(even_zeta_over_pi_power(6), q(691, 638512875), "zeta(12), A&S 23.3");
+        assert_eq!(
+            even_zeta_over_pi_power(6),
+            q(691, 638512875),
+            "zeta(12), A&S 23.3"
+        );
     }
 }

@@ -106,7 +106,9 @@ fn write_latex_term(out: &mut String, m: &Monomial, abs: &Rational, even_zeta: O
 }
 
 fn latex_symbol(name: &str) -> String {
-    let split = name.find(|c: char| c.is_ascii_digit()).unwrap_or(name.len());
+    let split = name
+        .find(|c: char| c.is_ascii_digit())
+        .unwrap_or(name.len());
     let (stem, digits) = name.split_at(split);
     if digits.is_empty() {
         stem.to_string()
@@ -144,13 +146,19 @@ mod tests {
     fn text_with_pi_and_with_even_zeta() {
         let x = four_loop_cusp();
         assert_eq!(x.to_string(), "-292/315*pi^6 - 32*zeta(3)^2");
-        assert_eq!(x.format(EvenStyle::Zeta, Notation::Text), "-876*zeta(6) - 32*zeta(3)^2");
+        assert_eq!(
+            x.format(EvenStyle::Zeta, Notation::Text),
+            "-876*zeta(6) - 32*zeta(3)^2"
+        );
     }
 
     #[test]
     fn latex_form() {
         let x = four_loop_cusp();
-        assert_eq!(x.format(EvenStyle::Pi, Notation::Latex), "-\\frac{292}{315}\\,\\pi^{6} - 32\\,\\zeta_{3}^{2}");
+        assert_eq!(
+            x.format(EvenStyle::Pi, Notation::Latex),
+            "-\\frac{292}{315}\\,\\pi^{6} - 32\\,\\zeta_{3}^{2}"
+        );
         let y = &Exact::symbol("l1") * &Exact::from(3);
         assert_eq!(y.format(EvenStyle::Pi, Notation::Latex), "3\\,l_{1}");
         assert_eq!(Exact::zero().to_string(), "0");

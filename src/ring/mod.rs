@@ -49,7 +49,9 @@ impl Exact {
     /// zeta(n) for n >= 2; even n becomes its rational multiple of pi^n.
     pub fn zeta(n: u32) -> Result<Self> {
         match n {
-            0 | 1 => Err(Error::input(format!("zeta({n}) is not a finite zeta value"))),
+            0 | 1 => Err(Error::input(format!(
+                "zeta({n}) is not a finite zeta value"
+            ))),
             n if n % 2 == 0 => Ok(Exact::term(
                 bernoulli::even_zeta_over_pi_power(n / 2),
                 Monomial::pi_power(n as i32),
@@ -125,14 +127,26 @@ impl Exact {
         if *c == 0 {
             return Exact::zero();
         }
-        Exact { terms: self.terms.iter().map(|(m, x)| (m.clone(), Rational::from(x * c))).collect() }
+        Exact {
+            terms: self
+                .terms
+                .iter()
+                .map(|(m, x)| (m.clone(), Rational::from(x * c)))
+                .collect(),
+        }
     }
 
     pub fn mul_monomial(&self, m: &Monomial, c: &Rational) -> Exact {
         if *c == 0 {
             return Exact::zero();
         }
-        Exact { terms: self.terms.iter().map(|(k, x)| (k.mul(m), Rational::from(x * c))).collect() }
+        Exact {
+            terms: self
+                .terms
+                .iter()
+                .map(|(k, x)| (k.mul(m), Rational::from(x * c)))
+                .collect(),
+        }
     }
 
     pub fn pow(&self, e: u32) -> Exact {
@@ -154,11 +168,15 @@ impl Exact {
     /// The inverse, which exists in this ring only for a single nonzero term
     /// without symbols.
     pub fn inverse(&self) -> Result<Exact> {
-        let (m, c) = self
-            .as_single_term()
-            .ok_or_else(|| Error::input(format!("cannot divide by {self}: only single terms are invertible exactly")))?;
+        let (m, c) = self.as_single_term().ok_or_else(|| {
+            Error::input(format!(
+                "cannot divide by {self}: only single terms are invertible exactly"
+            ))
+        })?;
         if !m.symbols().is_empty() {
-            return Err(Error::input(format!("cannot divide by {self}: it contains a symbol")));
+            return Err(Error::input(format!(
+                "cannot divide by {self}: it contains a symbol"
+            )));
         }
         let zetas = m.zetas();
         if !zetas.is_empty() {
@@ -166,7 +184,10 @@ impl Exact {
                 "cannot divide by {self}: odd zeta values have no exact inverse in the ring"
             )));
         }
-        Ok(Exact::term(Rational::from(c.recip_ref()), Monomial::pi_power(-m.pi_exponent())))
+        Ok(Exact::term(
+            Rational::from(c.recip_ref()),
+            Monomial::pi_power(-m.pi_exponent()),
+        ))
     }
 
     /// The set of transcendental weights present (symbols weigh nothing).
@@ -219,7 +240,9 @@ impl Exact {
                 return Ok(Float::with_val(prec, &sum));
             }
             if work > prec + 200_000 {
-                return Err(Error::numeric(format!("{self} cancels to below 2^-200000 of its largest term")));
+                return Err(Error::numeric(format!(
+                    "{self} cancels to below 2^-200000 of its largest term"
+                )));
             }
             work = prec + lost + 32;
         }
@@ -242,8 +265,6 @@ impl Exact {
         }
         (sum, largest)
     }
-
-
 }
 
 /// pi and zeta values at one precision, computed once per evaluation.
@@ -254,7 +275,10 @@ struct Constants {
 
 impl Constants {
     fn new(prec: u32) -> Self {
-        Constants { prec, pi: Float::with_val(prec, rug::float::Constant::Pi) }
+        Constants {
+            prec,
+            pi: Float::with_val(prec, rug::float::Constant::Pi),
+        }
     }
     fn pi_power(&self, e: i32) -> Float {
         Float::with_val(self.prec, (&self.pi).pow(e))
@@ -313,7 +337,8 @@ impl<'a> Sub<&'a Exact> for &'a Exact {
 impl<'a> Mul<&'a Exact> for &'a Exact {
     type Output = Exact;
     fn mul(self, rhs: &'a Exact) -> Exact {
-        let mut acc: std::collections::HashMap<Monomial, Rational> = std::collections::HashMap::new();
+        let mut acc: std::collections::HashMap<Monomial, Rational> =
+            std::collections::HashMap::new();
         for (ma, ca) in &self.terms {
             for (mb, cb) in &rhs.terms {
                 let m = ma.mul(mb);
@@ -326,14 +351,22 @@ impl<'a> Mul<&'a Exact> for &'a Exact {
                 }
             }
         }
-        Exact { terms: acc.into_iter().filter(|(_, c)| *c != 0).collect() }
+        Exact {
+            terms: acc.into_iter().filter(|(_, c)| *c != 0).collect(),
+        }
     }
 }
 
 impl Neg for &Exact {
     type Output = Exact;
     fn neg(self) -> Exact {
-        Exact { terms: self.terms.iter().map(|(m, c)| (m.clone(), Rational::from(-c))).collect() }
+        Exact {
+            terms: self
+                .terms
+                .iter()
+                .map(|(m, c)| (m.clone(), Rational::from(-c)))
+                .collect(),
+        }
     }
 }
 
@@ -398,7 +431,8 @@ mod tests {
         let v = x.evaluate(200).unwrap();
         let z4 = Float::with_val(260, Float::zeta_u(4));
         let z3 = Float::with_val(260, Float::zeta_u(3));
-        let reference = Float::with_val(260, &z4 * 88u32) - Float::with_val(260, z3.square_ref()) * 32u32;
+        let reference =
+            Float::with_val(260, &z4 * 88u32) - Float::with_val(260, z3.square_ref()) * 32u32;
         let diff = Float::with_val(260, &v - &reference).abs();
         assert!(diff < Float::with_val(64, Float::i_exp(1, -190)));
     }
@@ -409,7 +443,10 @@ mod tests {
         // 400-bit MPFR pi): the difference is below 1e-60 and must keep its digits.
         let pi2 = Float::with_val(400, rug::float::Constant::Pi).square();
         let scale = Integer::from(10).pow(60);
-        let r = Rational::from((Float::with_val(400, &pi2 * &scale).to_integer().unwrap(), scale));
+        let r = Rational::from((
+            Float::with_val(400, &pi2 * &scale).to_integer().unwrap(),
+            scale,
+        ));
         let x = &Exact::pi().pow(2) - &Exact::from(r.clone());
         let v = x.evaluate(64).unwrap();
         let reference = Float::with_val(64, pi2 - r);

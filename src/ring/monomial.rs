@@ -25,21 +25,30 @@ impl Monomial {
     }
 
     pub fn pi_power(e: i32) -> Self {
-        Monomial { pi: e, ..Default::default() }
+        Monomial {
+            pi: e,
+            ..Default::default()
+        }
     }
 
     /// zeta(n) for odd n >= 3; even arguments belong to pi powers and are
     /// handled by the ring, which knows their rational prefactor.
     pub fn odd_zeta(n: u32) -> Self {
         debug_assert!(n >= 3 && n % 2 == 1);
-        Monomial { zetas: vec![n], ..Default::default() }
+        Monomial {
+            zetas: vec![n],
+            ..Default::default()
+        }
     }
 
     pub fn symbol(name: &str, exponent: u32) -> Self {
         if exponent == 0 {
             return Monomial::one();
         }
-        Monomial { syms: vec![(name.into(), exponent)], ..Default::default() }
+        Monomial {
+            syms: vec![(name.into(), exponent)],
+            ..Default::default()
+        }
     }
 
     pub fn from_parts(pi: i32, mut zetas: Vec<u32>, mut syms: Vec<(Box<str>, u32)>) -> Self {
@@ -53,7 +62,11 @@ impl Monomial {
                 _ => merged.push((name, e)),
             }
         }
-        Monomial { pi, zetas, syms: merged }
+        Monomial {
+            pi,
+            zetas,
+            syms: merged,
+        }
     }
 
     pub fn pi_exponent(&self) -> i32 {
@@ -83,22 +96,45 @@ impl Monomial {
     }
 
     pub fn symbol_exponent(&self, name: &str) -> u32 {
-        self.syms.iter().find(|(n, _)| &**n == name).map_or(0, |(_, e)| *e)
+        self.syms
+            .iter()
+            .find(|(n, _)| &**n == name)
+            .map_or(0, |(_, e)| *e)
     }
 
     /// The same monomial without its symbol part, and the symbol part alone.
     pub fn split_symbols(&self) -> (Monomial, Monomial) {
         (
-            Monomial { pi: self.pi, zetas: self.zetas.clone(), syms: Vec::new() },
-            Monomial { pi: 0, zetas: Vec::new(), syms: self.syms.clone() },
+            Monomial {
+                pi: self.pi,
+                zetas: self.zetas.clone(),
+                syms: Vec::new(),
+            },
+            Monomial {
+                pi: 0,
+                zetas: Vec::new(),
+                syms: self.syms.clone(),
+            },
         )
     }
 
     /// This monomial with `name` removed, and the exponent it had.
     pub fn without_symbol(&self, name: &str) -> (Monomial, u32) {
         let e = self.symbol_exponent(name);
-        let syms = self.syms.iter().filter(|(n, _)| &**n != name).cloned().collect();
-        (Monomial { pi: self.pi, zetas: self.zetas.clone(), syms }, e)
+        let syms = self
+            .syms
+            .iter()
+            .filter(|(n, _)| &**n != name)
+            .cloned()
+            .collect();
+        (
+            Monomial {
+                pi: self.pi,
+                zetas: self.zetas.clone(),
+                syms,
+            },
+            e,
+        )
     }
 
     pub fn mul(&self, other: &Monomial) -> Monomial {
@@ -124,7 +160,11 @@ impl Monomial {
             all.extend(other.syms.iter().cloned());
             return Monomial::from_parts(self.pi + other.pi, zetas, all);
         };
-        Monomial { pi: self.pi + other.pi, zetas, syms }
+        Monomial {
+            pi: self.pi + other.pi,
+            zetas,
+            syms,
+        }
     }
 
     pub fn pow(&self, e: u32) -> Monomial {

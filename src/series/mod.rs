@@ -22,12 +22,17 @@ pub struct Series {
 impl Series {
     /// The series with these coefficients of x^0, x^1, ...; known through the last.
     pub fn new(coeffs: Vec<Exact>) -> Self {
-        assert!(!coeffs.is_empty(), "a series holds at least its constant term");
+        assert!(
+            !coeffs.is_empty(),
+            "a series holds at least its constant term"
+        );
         Series { coeffs }
     }
 
     pub fn zero(order: usize) -> Self {
-        Series { coeffs: vec![Exact::zero(); order + 1] }
+        Series {
+            coeffs: vec![Exact::zero(); order + 1],
+        }
     }
 
     pub fn constant(c: Exact, order: usize) -> Self {
@@ -59,15 +64,21 @@ impl Series {
     }
 
     pub fn truncate(&self, order: usize) -> Series {
-        Series { coeffs: self.coeffs[..=order.min(self.order())].to_vec() }
+        Series {
+            coeffs: self.coeffs[..=order.min(self.order())].to_vec(),
+        }
     }
 
     pub fn scale(&self, c: &Exact) -> Series {
-        Series { coeffs: self.coeffs.iter().map(|a| a * c).collect() }
+        Series {
+            coeffs: self.coeffs.iter().map(|a| a * c).collect(),
+        }
     }
 
     pub fn map(&self, f: impl Fn(&Exact) -> Exact) -> Series {
-        Series { coeffs: self.coeffs.iter().map(f).collect() }
+        Series {
+            coeffs: self.coeffs.iter().map(f).collect(),
+        }
     }
 
     /// The k-th power, by repeated squaring.
@@ -109,7 +120,10 @@ impl Series {
     /// The inverse of `in_coupling`: coefficients given in `coupling`, back to g^2.
     pub fn from_coupling(&self, coupling: Coupling) -> Series {
         let (num, pi2) = coupling.ratio_to_g2();
-        self.rescale(&Exact::term(Rational::from(num), Monomial::pi_power(2 * pi2)))
+        self.rescale(&Exact::term(
+            Rational::from(num),
+            Monomial::pi_power(2 * pi2),
+        ))
     }
 
     /// The multiplicative inverse; the constant term must be invertible in the ring.
@@ -209,7 +223,9 @@ impl<'a> Add<&'a Series> for &'a Series {
     type Output = Series;
     fn add(self, rhs: &'a Series) -> Series {
         let n = self.order().min(rhs.order());
-        Series { coeffs: (0..=n).map(|k| &self.coeffs[k] + &rhs.coeffs[k]).collect() }
+        Series {
+            coeffs: (0..=n).map(|k| &self.coeffs[k] + &rhs.coeffs[k]).collect(),
+        }
     }
 }
 
@@ -217,7 +233,9 @@ impl<'a> Sub<&'a Series> for &'a Series {
     type Output = Series;
     fn sub(self, rhs: &'a Series) -> Series {
         let n = self.order().min(rhs.order());
-        Series { coeffs: (0..=n).map(|k| &self.coeffs[k] - &rhs.coeffs[k]).collect() }
+        Series {
+            coeffs: (0..=n).map(|k| &self.coeffs[k] - &rhs.coeffs[k]).collect(),
+        }
     }
 }
 
@@ -243,7 +261,9 @@ impl<'a> Mul<&'a Series> for &'a Series {
 impl Neg for &Series {
     type Output = Series;
     fn neg(self) -> Series {
-        Series { coeffs: self.coeffs.iter().map(|c| -c).collect() }
+        Series {
+            coeffs: self.coeffs.iter().map(|c| -c).collect(),
+        }
     }
 }
 
@@ -318,7 +338,10 @@ mod tests {
             assert_eq!(f.in_coupling(c).from_coupling(c), f);
         }
         // In a = 2 g^2 the two-loop coefficient is divided by 2^2 (docs/conventions.md section 1).
-        assert_eq!(*f.in_coupling(Coupling::A).coeff(2), Exact::zeta(2).unwrap().scale(&Rational::from(-2)));
+        assert_eq!(
+            *f.in_coupling(Coupling::A).coeff(2),
+            Exact::zeta(2).unwrap().scale(&Rational::from(-2))
+        );
     }
 
     #[test]

@@ -12,10 +12,18 @@ use rug::Rational;
 
 fn main() {
     let loops = 20u32;
-    let cusp = gamma(&Tilt::cos2(Rational::from((1, 2))).unwrap(), loops, &mut |_, _| {}).unwrap();
+    let cusp = gamma(
+        &Tilt::cos2(Rational::from((1, 2))).unwrap(),
+        loops,
+        &mut |_, _| {},
+    )
+    .unwrap();
     let mut text = String::from("prediction: cusp\ncoupling: g2\norders:\n");
     for l in 1..=loops as usize {
-        text.push_str(&format!("  - loop: {l}\n    exact: \"{}\"\n", cusp.coeff(l)));
+        text.push_str(&format!(
+            "  - loop: {l}\n    exact: \"{}\"\n",
+            cusp.coeff(l)
+        ));
     }
     let catalogue = Catalogue::builtin().unwrap();
     let mut best = Duration::MAX;
@@ -26,5 +34,9 @@ fn main() {
         assert!(!c.any_differs());
         best = best.min(t.elapsed());
     }
-    println!("check: {} bytes, {loops} exact orders against a {loops}-loop prediction: {:.3} s", text.len(), best.as_secs_f64());
+    println!(
+        "check: {} bytes, {loops} exact orders against a {loops}-loop prediction: {:.3} s",
+        text.len(),
+        best.as_secs_f64()
+    );
 }

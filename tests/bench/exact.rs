@@ -34,7 +34,9 @@ fn integer_backends() {
     use num_bigint::BigInt;
     let n = 20_000;
     let seed = rug::Integer::from(3u32).pow(250) + 12345u32;
-    let a: Vec<rug::Integer> = (0..n).map(|k| rug::Integer::from(&seed * (k + 1)) - 7u32 * k).collect();
+    let a: Vec<rug::Integer> = (0..n)
+        .map(|k| rug::Integer::from(&seed * (k + 1)) - 7u32 * k)
+        .collect();
     let b: Vec<rug::Integer> = (0..n).map(|k| rug::Integer::from(k * 31 + 17)).collect();
     let an: Vec<BigInt> = a.iter().map(|x| x.to_string().parse().unwrap()).collect();
     let bn: Vec<BigInt> = b.iter().map(|x| x.to_string().parse().unwrap()).collect();
@@ -64,7 +66,10 @@ fn integer_backends() {
 
 fn main() {
     let cusp = Tilt::cos2(Rational::from((1, 2))).unwrap();
-    println!("exact engine, release build, {} threads", std::thread::available_parallelism().map_or(1, |n| n.get()));
+    println!(
+        "exact engine, release build, {} threads",
+        std::thread::available_parallelism().map_or(1, |n| n.get())
+    );
     for (label, tilt, loops, runs) in [
         ("Gamma(c2) symbolic", Tilt::Symbolic, 16u32, 5usize),
         ("Gamma(pi/4)", cusp.clone(), 16, 10),

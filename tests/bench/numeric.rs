@@ -20,7 +20,11 @@ fn main() {
     for (label, f, c2) in runs {
         let start = Instant::now();
         match evaluate(f, c2, &g1, 30) {
-            Ok(est) => println!("{label}: {:>8.3} s  {}", start.elapsed().as_secs_f64(), est.to_decimal(30)),
+            Ok(est) => println!(
+                "{label}: {:>8.3} s  {}",
+                start.elapsed().as_secs_f64(),
+                est.to_decimal(30)
+            ),
             Err(e) => println!("{label}: failed: {e}"),
         }
     }

@@ -16,16 +16,19 @@ use loopwise::origin::{analyse_e, predicted_log_coefficients, r6_to_e, OriginLog
 use loopwise::origincheck::{check_origin, fit_file, parse_origin_text};
 use loopwise::prediction::Quantity;
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
-use loopwise::ring::{EvenStyle, Notation};
-use loopwise::seriesfile::parse_series_text;
 use loopwise::ring::Exact;
+use loopwise::ring::{EvenStyle, Notation};
 use loopwise::series::Series;
+use loopwise::seriesfile::parse_series_text;
 
 const LOOPS: u32 = 10;
 
 fn expand(formula: &str) -> Series {
     let catalogue = Catalogue::builtin().expect("built-in catalogue");
-    Quantity::resolve(formula, &catalogue).expect("formula").expand(LOOPS, &mut |_, _, _| {}).expect("expansion")
+    Quantity::resolve(formula, &catalogue)
+        .expect("formula")
+        .expand(LOOPS, &mut |_, _, _| {})
+        .expect("expansion")
 }
 
 fn main() {
@@ -39,12 +42,14 @@ fn main() {
 
     let t = Instant::now();
     let p = predicted_log_coefficients(LOOPS).expect("predictions");
-    let c0 = expand("-zeta(2)/2*Gamma(pi/4) + (Delta(pi/4) + Delta(pi/3) - Delta(pi/6) - Delta(0))/4");
+    let c0 =
+        expand("-zeta(2)/2*Gamma(pi/4) + (Delta(pi/4) + Delta(pi/3) - Delta(pi/6) - Delta(0))/4");
     let cusp = expand("Gamma(pi/4)");
     let ln_e = Series::new(
         (0..=LOOPS as usize)
             .map(|k| {
-                &(&(p.octagon.coeff(k) * &sum_squared) + &(p.hexagon.coeff(k) * &differences)) + c0.coeff(k)
+                &(&(p.octagon.coeff(k) * &sum_squared) + &(p.hexagon.coeff(k) * &differences))
+                    + c0.coeff(k)
             })
             .collect(),
     );
@@ -63,10 +68,17 @@ fn main() {
     let a = analyse_e(&e, &logs).expect("analysis");
     let t_analyse = t.elapsed();
     assert!(a.broken.is_none() && a.orders.len() == LOOPS as usize);
-    println!("logarithm, exponentiation check and readings: {:.3} s", t_analyse.as_secs_f64());
+    println!(
+        "logarithm, exponentiation check and readings: {:.3} s",
+        t_analyse.as_secs_f64()
+    );
 
     let catalogue = Catalogue::builtin().expect("built-in catalogue");
-    let constants: Vec<(u32, Exact)> = a.orders.iter().map(|r| (r.order as u32, r.constant.clone())).collect();
+    let constants: Vec<(u32, Exact)> = a
+        .orders
+        .iter()
+        .map(|r| (r.order as u32, r.constant.clone()))
+        .collect();
     let t = Instant::now();
     let f = fit(&constants, &default_basis(), LOOPS, &catalogue).expect("fit");
     let t_fit = t.elapsed();
@@ -76,14 +88,30 @@ fn main() {
         Solution::None(_) => "no fit".to_string(),
     };
     if let Solution::Unique(a) = &f.solution {
-        let expected = [("zeta(2)*Gamma(pi/4)", (-1, 2)), ("Delta(pi/4)", (1, 4)), ("Delta(pi/3)", (1, 4)), ("Delta(pi/6)", (-1, 4)), ("Delta(0)", (-1, 4))];
+        let expected = [
+            ("zeta(2)*Gamma(pi/4)", (-1, 2)),
+            ("Delta(pi/4)", (1, 4)),
+            ("Delta(pi/3)", (1, 4)),
+            ("Delta(pi/6)", (-1, 4)),
+            ("Delta(0)", (-1, 4)),
+        ];
         for (name, x) in f.names.iter().zip(a) {
-            let want = expected.iter().find(|(n, _)| n == name).map_or(rug::Rational::new(), |(_, v)| rug::Rational::from(*v));
+            let want = expected
+                .iter()
+                .find(|(n, _)| n == name)
+                .map_or(rug::Rational::new(), |(_, v)| rug::Rational::from(*v));
             assert_eq!(*x, want, "{name}");
         }
     }
-    println!("fit of C0 through {LOOPS} loops, default basis ({} elements): {kind}, {:.3} s", f.names.len(), t_fit.as_secs_f64());
-    println!("total, analysis and fit: {:.3} s", (t_analyse + t_fit).as_secs_f64());
+    println!(
+        "fit of C0 through {LOOPS} loops, default basis ({} elements): {kind}, {:.3} s",
+        f.names.len(),
+        t_fit.as_secs_f64()
+    );
+    println!(
+        "total, analysis and fit: {:.3} s",
+        (t_analyse + t_fit).as_secs_f64()
+    );
 
     let t = Instant::now();
     let f = fit(&constants[..2], &default_basis(), 16, &catalogue).expect("fit");
@@ -91,11 +119,7 @@ fn main() {
         Solution::Family { null_space, .. } => null_space.len(),
         _ => 0,
     };
-    println!(
-        "fit of C0 through 2 loops: {free} free parameters, fixed by {:?} (basis to 16 loops), {:.3} s",
-        f.fixing,
-        t.elapsed().as_secs_f64()
-    );
+    println!("fit of C0 through 2 loops: {free} free parameters, fixed by {:?} (basis to 16 loops), {:.3} s", f.fixing, t.elapsed().as_secs_f64());
 
     pipeline(&e, &constants);
 }
@@ -104,11 +128,17 @@ fn main() {
 fn pipeline(e: &Series, constants: &[(u32, Exact)]) {
     let mut text = "normalisation: E\ncoupling: g2\nsymbols: [l1, l2, l3]\norders:\n".to_string();
     for k in 1..=e.order() {
-        text.push_str(&format!("  - loop: {k}\n    exact: \"{}\"\n", e.coeff(k).format(EvenStyle::Zeta, Notation::Text)));
+        text.push_str(&format!(
+            "  - loop: {k}\n    exact: \"{}\"\n",
+            e.coeff(k).format(EvenStyle::Zeta, Notation::Text)
+        ));
     }
     let mut fit_text = "coupling: g2\norders:\n".to_string();
     for (k, c) in constants {
-        fit_text.push_str(&format!("  - loop: {k}\n    exact: \"{}\"\n", c.format(EvenStyle::Zeta, Notation::Text)));
+        fit_text.push_str(&format!(
+            "  - loop: {k}\n    exact: \"{}\"\n",
+            c.format(EvenStyle::Zeta, Notation::Text)
+        ));
     }
     let catalogue = Catalogue::builtin().expect("built-in catalogue");
 

@@ -13,7 +13,10 @@ struct Lcg(u64);
 
 impl Lcg {
     fn next(&mut self, below: u64) -> u64 {
-        self.0 = self.0.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+        self.0 = self
+            .0
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
         (self.0 >> 33) % below
     }
 }
@@ -80,5 +83,9 @@ fn main() {
         let f = parse_series_text(&yaml, "bench.yaml").unwrap_or_else(|e| panic!("{e}"));
         assert_eq!(f.orders.len(), 200);
     }
-    println!("read a 200-order series file ({} bytes) 50 times in {:.3} s", yaml.len(), start.elapsed().as_secs_f64());
+    println!(
+        "read a 200-order series file ({} bytes) 50 times in {:.3} s",
+        yaml.len(),
+        start.elapsed().as_secs_f64()
+    );
 }

@@ -5,7 +5,10 @@ use std::io::Write;
 use std::process::{Command, Stdio};
 
 pub fn loopwise(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_loopwise")).args(args).output().expect("the binary runs");
+    let out = Command::new(env!("CARGO_BIN_EXE_loopwise"))
+        .args(args)
+        .output()
+        .expect("the binary runs");
     (
         out.status.code().unwrap_or(-1),
         String::from_utf8_lossy(&out.stdout).into_owned(),
@@ -24,7 +27,12 @@ pub fn loopwise_with_stdin(args: &[&str], input: &str) -> (i32, String, String) 
         .stderr(Stdio::piped())
         .spawn()
         .expect("the binary runs");
-    child.stdin.take().expect("a pipe").write_all(input.as_bytes()).expect("the binary reads its input");
+    child
+        .stdin
+        .take()
+        .expect("a pipe")
+        .write_all(input.as_bytes())
+        .expect("the binary reads its input");
     let out = child.wait_with_output().expect("the binary ends");
     (
         out.status.code().unwrap_or(-1),
