@@ -15,25 +15,15 @@
 //! # Ok::<(), loopwise::Error>(())
 //! ```
 
-pub mod catalogue;
-pub mod compare;
-pub mod convergence;
-pub mod coupling;
+pub mod check;
 pub mod error;
-pub mod expr;
-pub mod finite;
+pub mod exact;
 pub mod fit;
+pub mod input;
 pub mod kernel;
-pub mod mzv;
 pub mod numeric;
 pub mod origin;
-pub mod origincheck;
-pub mod originnum;
-pub mod prediction;
+pub mod quantity;
 pub mod report;
-pub mod ring;
-pub mod series;
-pub mod seriesfile;
-pub mod suggest;
 
 pub use error::{Error, ErrorKind, Result};

@@ -9,8 +9,8 @@ mod common;
 
 use common::{loopwise, loopwise_with_stdin};
 
-use loopwise::ring::{EvenStyle, Exact, Notation};
-use loopwise::series::Series;
+use loopwise::exact::powerseries::Series;
+use loopwise::exact::ring::{EvenStyle, Exact, Notation};
 use rug::float::Constant;
 use rug::ops::Pow;
 use rug::{Float, Rational};

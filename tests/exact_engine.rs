@@ -2,9 +2,9 @@
 //! check naming its source. Reference series are built here independently of
 //! the engine (Bernoulli numbers by a different algorithm than the crate's).
 
+use loopwise::exact::powerseries::Series;
+use loopwise::exact::ring::{Exact, Monomial};
 use loopwise::kernel::{self, Tilt};
-use loopwise::ring::{Exact, Monomial};
-use loopwise::series::Series;
 use rug::{Integer, Rational};
 
 fn q(n: i64, d: i64) -> Rational {

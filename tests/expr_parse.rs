@@ -2,7 +2,7 @@
 //! and the tree they give, which inputs are rejected and what the message
 //! says, and that printing then parsing gives back the same tree.
 
-use loopwise::expr::{parse, Angle, Expr, FunctionalKind, Node};
+use loopwise::input::expr::{parse, Angle, Expr, FunctionalKind, Node};
 use rug::ops::Pow;
 use rug::{Integer, Rational};
 
@@ -35,7 +35,7 @@ fn decimal(e: &Expr) -> (Rational, Option<Rational>) {
 
 /// Pairs that must give equal trees: the left is a spelling people paste,
 /// the right the fully explicit form the language's rules (module docs of
-/// `loopwise::expr`) say it means.
+/// `loopwise::input::expr`) say it means.
 #[test]
 fn spellings_give_the_documented_structure() {
     let same = [
@@ -378,8 +378,8 @@ fn long_sums_parse_as_shallow_trees() {
         text.push_str(if k % 2 == 0 { " + 1" } else { " - 1" });
     }
     let e = p(&text);
-    fn depth(e: &loopwise::expr::Expr) -> usize {
-        use loopwise::expr::Node;
+    fn depth(e: &loopwise::input::expr::Expr) -> usize {
+        use loopwise::input::expr::Node;
         match &e.node {
             Node::Add(a, b)
             | Node::Sub(a, b)
@@ -391,8 +391,8 @@ fn long_sums_parse_as_shallow_trees() {
         }
     }
     assert!(depth(&e) < 40, "depth {}", depth(&e));
-    let mut ctx = loopwise::expr::numeric::Context::new(64);
-    let v = loopwise::expr::numeric::evaluate(&e, &mut ctx).unwrap();
+    let mut ctx = loopwise::numeric::evaluate::Context::new(64);
+    let v = loopwise::numeric::evaluate::evaluate(&e, &mut ctx).unwrap();
     assert_eq!(v.value, 1);
     // Below the threshold a sum stays left-nested, as its operators associate.
     assert_eq!(p("a - b + c"), p("(a - b) + c"));

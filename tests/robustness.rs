@@ -7,12 +7,12 @@
 //! The default run is short; the long run (over 100,000 inputs in total) is
 //! `cargo test --release --test robustness -- --ignored`.
 
-use loopwise::catalogue::Catalogue;
-use loopwise::compare;
-use loopwise::expr::numeric::{evaluate, Context};
-use loopwise::expr::parse;
-use loopwise::prediction::Quantity;
-use loopwise::seriesfile::parse_series_text;
+use loopwise::check;
+use loopwise::input::catalogue::Catalogue;
+use loopwise::input::expr::parse;
+use loopwise::input::seriesfile::parse_series_text;
+use loopwise::numeric::evaluate::{evaluate, Context};
+use loopwise::quantity::Quantity;
 use proptest::prelude::*;
 use proptest::test_runner::{Config, TestRunner};
 
@@ -116,7 +116,7 @@ fn has_free_parts(text: &str) -> bool {
         Err(_) => return true,
     };
     let mut free = false;
-    loopwise::expr::for_each_symbol(&e, &mut |_, _| free = true);
+    loopwise::input::expr::for_each_symbol(&e, &mut |_, _| free = true);
     free || text.to_lowercase().contains("gamma")
         || text.to_lowercase().contains("delta")
         || text.contains(['Γ', 'Δ'])
@@ -142,8 +142,8 @@ fn check_expression(input: &str) -> Result<(), TestCaseError> {
         TestCaseError::fail(format!("{input:?} printed as {printed:?} fails:\n{err}"))
     })?;
     prop_assert_eq!(&again, &e, "{:?} printed as {:?}", input, printed);
-    let mzv = |s: &[u32], p: u32| loopwise::mzv::mzv(s, p);
-    let evaluate_at = |tree: &loopwise::expr::Expr| {
+    let mzv = |s: &[u32], p: u32| loopwise::numeric::mzv::mzv(s, p);
+    let evaluate_at = |tree: &loopwise::input::expr::Expr| {
         let mut ctx = Context::new(128);
         ctx.mzv = Some(&mzv);
         evaluate(tree, &mut ctx)
@@ -222,7 +222,7 @@ fn check_file(input: &str) -> Result<(), TestCaseError> {
         Ok(file) => {
             let catalogue = Catalogue::builtin().map_err(|e| TestCaseError::fail(e.to_string()))?;
             if file.orders.iter().all(|o| o.loop_order <= 6) {
-                match compare::check(&file, &catalogue, 20, &mut |_, _, _| {}) {
+                match check::check(&file, &catalogue, 20, &mut |_, _, _| {}) {
                     Err(err) => prop_assert!(
                         err.message().contains("fuzz.yaml"),
                         "a check error that names no file: {}",
@@ -338,7 +338,7 @@ fn seeds_are_valid() {
     }
     assert!(parse_series_text(SEED_FILE, "seed.yaml").is_ok());
     let file = parse_series_text(SEED_CHECK, "seed.yaml").unwrap();
-    let c = compare::check(&file, &Catalogue::builtin().unwrap(), 20, &mut |_, _, _| {}).unwrap();
+    let c = check::check(&file, &Catalogue::builtin().unwrap(), 20, &mut |_, _, _| {}).unwrap();
     assert!(!c.any_differs(), "{:?}", c.summary());
 }
 

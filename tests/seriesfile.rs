@@ -1,12 +1,12 @@
 //! Series files from the outside: a full valid file, and each kind of
 //! mistake with the file, line and column its message must name.
 
-use loopwise::catalogue::Catalogue;
-use loopwise::coupling::Coupling;
 use loopwise::error::ErrorKind;
-use loopwise::expr::{parse, Node};
-use loopwise::prediction::Quantity;
-use loopwise::seriesfile::{parse_series_text, read_series_file, Normalisation};
+use loopwise::exact::coupling::Coupling;
+use loopwise::input::catalogue::Catalogue;
+use loopwise::input::expr::{parse, Node};
+use loopwise::input::seriesfile::{parse_series_text, read_series_file, Normalisation};
+use loopwise::quantity::Quantity;
 use rug::Rational;
 
 const FULL: &str = r#"# A series file: loop coefficients of one quantity, in one coupling convention.

@@ -5,11 +5,11 @@ use std::path::{Path, PathBuf};
 
 use clap::{Args as ClapArgs, ValueEnum};
 
-use loopwise::catalogue::Catalogue;
-use loopwise::compare;
+use loopwise::check;
+use loopwise::input::catalogue::Catalogue;
+use loopwise::input::seriesfile::{parse_series_text, read_series_file, SeriesFile, STDIN_NAME};
 use loopwise::report::check::{render, render_unusable};
 use loopwise::report::Format;
-use loopwise::seriesfile::{parse_series_text, read_series_file, SeriesFile, STDIN_NAME};
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
@@ -55,9 +55,9 @@ pub struct DemoArgs {
     pub format: DataFormatArg,
 }
 
-fn run_one(file: &SeriesFile, catalogue: &Catalogue, digits: u32) -> Result<compare::Comparison> {
+fn run_one(file: &SeriesFile, catalogue: &Catalogue, digits: u32) -> Result<check::Comparison> {
     let mut progress = Progress::new();
-    let c = compare::check(file, catalogue, digits, &mut |what, done, total| {
+    let c = check::check(file, catalogue, digits, &mut |what, done, total| {
         progress.update(what, done, total)
     });
     progress.finish();
@@ -94,7 +94,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
             Outcome::Differs
         });
     }
-    let results: Vec<(String, Result<compare::Comparison>)> = args
+    let results: Vec<(String, Result<check::Comparison>)> = args
         .files
         .iter()
         .map(|p| (display_name(p), checked(p)))

@@ -3,10 +3,10 @@
 
 use clap::Args as ClapArgs;
 
-use loopwise::catalogue::Catalogue;
-use loopwise::compare::working_bits;
-use loopwise::expr::numeric::{self, Context};
-use loopwise::expr::{self};
+use loopwise::check::working_bits;
+use loopwise::input::catalogue::Catalogue;
+use loopwise::input::expr::{self};
+use loopwise::numeric::evaluate::{self, Context};
 use loopwise::report::{decimal, digit_place, rounded_at};
 use loopwise::Result;
 use rug::ops::Pow;
@@ -57,15 +57,15 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
 /// are only rounding noise; an exact value that stays below the noise is
 /// printed as zero with its bound.
 fn stable_value(e: &expr::Expr, source: &str, digits: u32) -> Result<String> {
-    let mzv = |s: &[u32], p: u32| loopwise::mzv::mzv(s, p);
+    let mzv = |s: &[u32], p: u32| loopwise::numeric::mzv::mzv(s, p);
     let mut bits = working_bits(digits);
     let mut last = None;
     for _ in 0..6 {
         let at = |b: u32| {
             let mut ctx = Context::new(b);
             ctx.mzv = Some(&mzv);
-            numeric::evaluate(e, &mut ctx)
-                .map_err(|f| numeric::located(source, "<expression>", None, f))
+            evaluate::evaluate(e, &mut ctx)
+                .map_err(|f| evaluate::located(source, "<expression>", None, f))
         };
         let low = at(bits)?;
         let high = at(bits + 64)?;

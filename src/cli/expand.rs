@@ -2,10 +2,10 @@
 
 use clap::Args as ClapArgs;
 
-use loopwise::catalogue::Catalogue;
-use loopwise::coupling::Coupling;
+use loopwise::exact::coupling::Coupling;
+use loopwise::input::catalogue::Catalogue;
 use loopwise::kernel::MAX_LOOPS;
-use loopwise::prediction::Quantity;
+use loopwise::quantity::Quantity;
 use loopwise::report::expansion::Expansion;
 use loopwise::{Error, Result};
 

@@ -7,19 +7,19 @@
 mod check;
 mod eval;
 mod expand;
-mod finite;
 mod origin;
 mod progress;
+mod values;
 
 use std::io::Write;
 use std::path::PathBuf;
 
 use clap::{Parser, Subcommand, ValueEnum};
 
-use loopwise::catalogue::Catalogue;
-use loopwise::coupling::Coupling;
+use loopwise::exact::coupling::Coupling;
+use loopwise::exact::ring::EvenStyle;
+use loopwise::input::catalogue::Catalogue;
 use loopwise::report::Format;
-use loopwise::ring::EvenStyle;
 use loopwise::{Error, ErrorKind, Result};
 
 /// Exact and finite-coupling predictions for planar N=4 super-Yang-Mills loop
@@ -53,13 +53,13 @@ pub enum Command {
     /// Fit loop coefficients as an exact rational combination of basis series.
     Fit(origin::FitArgs),
     /// Values at finite coupling, with error estimates.
-    At(finite::AtArgs),
+    At(values::AtArgs),
     /// Values on a grid of couplings, as CSV or JSON.
-    Scan(finite::ScanArgs),
+    Scan(values::ScanArgs),
     /// Draw finite-coupling curves, weak- and strong-coupling expansions (SVG).
-    Plot(finite::PlotArgs),
+    Plot(values::PlotArgs),
     /// Radius of convergence of the weak-coupling series (ratio and root tests).
-    Radius(finite::RadiusArgs),
+    Radius(values::RadiusArgs),
     /// Compare the summed weak-coupling series with the numerical engine.
     Selftest,
 }
@@ -180,11 +180,11 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         },
         Command::Origin(args) => origin::origin(args, &catalogue),
         Command::Fit(args) => origin::fit(args, &catalogue),
-        Command::At(args) => finite::at(args, &catalogue),
-        Command::Scan(args) => finite::scan(args, &catalogue),
-        Command::Plot(args) => finite::plot(args, &catalogue),
-        Command::Radius(args) => finite::radius(args, &catalogue),
-        Command::Selftest => finite::selftest(),
+        Command::At(args) => values::at(args, &catalogue),
+        Command::Scan(args) => values::scan(args, &catalogue),
+        Command::Plot(args) => values::plot(args, &catalogue),
+        Command::Radius(args) => values::radius(args, &catalogue),
+        Command::Selftest => values::selftest(),
     }
 }
 
@@ -232,8 +232,8 @@ fn list(catalogue: &Catalogue) -> Result<Outcome> {
     let mut out = String::new();
     for e in catalogue.entries() {
         let status = match e.status {
-            loopwise::catalogue::Status::Established => "established",
-            loopwise::catalogue::Status::Conjecture => "CONJECTURE",
+            loopwise::input::catalogue::Status::Established => "established",
+            loopwise::input::catalogue::Status::Conjecture => "CONJECTURE",
         };
         out.push_str(&format!(
             "{:<width$}  {:<def_width$}  {:<11}  {}\n",

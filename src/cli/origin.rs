@@ -1,17 +1,17 @@
 //! `loopwise origin FILE`, `loopwise fit FILE` and `loopwise demo origin`:
-//! read the file, run the checks of [`loopwise::origincheck`], print.
+//! read the file, run the checks of [`loopwise::origin::check`], print.
 
 use std::path::PathBuf;
 
 use clap::Args as ClapArgs;
 
-use loopwise::catalogue::Catalogue;
 use loopwise::fit::{default_basis, Solution};
-use loopwise::origincheck::{
+use loopwise::input::catalogue::Catalogue;
+use loopwise::input::seriesfile::{parse_series_text, read_input};
+use loopwise::origin::check::{
     check_origin, fit_file, parse_basis, parse_origin_text, read_origin_file, OriginData,
 };
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
-use loopwise::seriesfile::{parse_series_text, read_input};
 use loopwise::Result;
 
 use super::check::MAX_DIGITS;

@@ -10,7 +10,7 @@
 
 use std::collections::HashMap;
 
-use crate::ring::Monomial;
+use crate::exact::ring::Monomial;
 
 /// The monomials of each weight 0..=top as partitions (parts descending).
 pub struct WeightBases {

@@ -11,7 +11,7 @@
 
 use rug::{Integer, Rational};
 
-use crate::ring::bernoulli::even_zeta_over_pi_power;
+use crate::exact::ring::bernoulli::even_zeta_over_pi_power;
 
 /// a_ijp and D_p for all i, j >= 1 and 2 <= p <= top.
 pub struct KernelTable {

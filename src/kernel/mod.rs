@@ -17,8 +17,8 @@ mod recursion;
 mod tilt;
 
 use crate::error::{Error, Result};
-use crate::ring::Exact;
-use crate::series::Series;
+use crate::exact::powerseries::Series;
+use crate::exact::ring::Exact;
 
 pub use entries::entry;
 pub use recursion::TiltFactors;

@@ -21,7 +21,7 @@ use rug::{Integer, Rational};
 
 use super::basis::WeightBases;
 use super::entries::KernelTable;
-use crate::ring::{Exact, Monomial};
+use crate::exact::ring::{Exact, Monomial};
 
 /// How the tilt enters: the factor 2 c2 on most entries and 2 s2 = 2 (1 - c2)
 /// on entries with i even and j odd (docs/conventions.md section 3, rational form).

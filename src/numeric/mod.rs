@@ -12,8 +12,10 @@
 //! control estimates; every value is computed in MPFR.
 
 mod bessel;
-mod kernel;
-pub mod plot;
+pub mod convergence;
+pub mod evaluate;
+mod matrix;
+pub mod mzv;
 mod quadrature;
 
 use std::f64::consts::LN_10;
@@ -23,7 +25,7 @@ use rug::Float;
 
 use crate::error::{Error, Result};
 use bessel::ln_magnitude;
-use kernel::{factor, kernel_integrals, tilted_system};
+use matrix::{factor, kernel_integrals, tilted_system};
 use quadrature::{plan, weighted_nodes, RuleCache};
 
 pub use bessel::bessel_j_upto;
@@ -209,7 +211,7 @@ fn attempt(
     let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec);
     let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec);
 
-    let pick = |sv: kernel::Solved| -> Float {
+    let pick = |sv: matrix::Solved| -> Float {
         match f {
             Functional::Gamma => {
                 let g2 = Float::with_val(prec, g * g) * 4u32;

@@ -7,7 +7,7 @@ use serde::Serialize;
 
 use super::expansion::status_line;
 use super::{decimal, in_units_text, serialized, Format, JsonVerdict};
-use crate::compare::{Comparison, OrderResult, Verdict};
+use crate::check::{Comparison, OrderResult, Verdict};
 use crate::error::{Error, Result};
 
 #[derive(Serialize)]

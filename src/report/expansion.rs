@@ -5,11 +5,11 @@ use serde::Serialize;
 
 use super::latex::{escape, math_cell};
 use super::{bits_for_digits, decimal, Format};
-use crate::catalogue::{Entry, Status};
-use crate::coupling::Coupling;
 use crate::error::Result;
-use crate::ring::{EvenStyle, Exact, Notation};
-use crate::series::Series;
+use crate::exact::coupling::Coupling;
+use crate::exact::powerseries::Series;
+use crate::exact::ring::{EvenStyle, Exact, Notation};
+use crate::input::catalogue::{Entry, Status};
 
 /// Everything `expand` shows.
 pub struct Expansion {

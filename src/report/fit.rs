@@ -9,7 +9,7 @@ use serde::Serialize;
 use super::Format;
 use crate::error::{Error, Result};
 use crate::fit::{Fixing, Solution};
-use crate::origincheck::FitReport;
+use crate::origin::check::FitReport;
 
 /// The caution every fit report carries.
 pub const CAUTION: &str = "CAUTION: a fit turns data into a conjecture, not a derivation. A combination \

@@ -4,10 +4,11 @@
 
 pub mod check;
 pub mod expansion;
-pub mod finite;
 pub mod fit;
 pub mod latex;
 pub mod origin;
+pub mod svg;
+pub mod values;
 
 use std::fmt;
 
@@ -61,10 +62,10 @@ pub struct JsonVerdict {
 
 /// A difference in units of its uncertainty, as the text reports say it;
 /// `bound` names the rounding bound where no uncertainty was stated.
-pub fn in_units_text(u: &crate::compare::InUnits, digits: u32, bound: &str) -> String {
+pub fn in_units_text(u: &crate::check::InUnits, digits: u32, bound: &str) -> String {
     match u {
-        crate::compare::InUnits::Sigmas(x) => format!("{} sigma", decimal(x, digits)),
-        crate::compare::InUnits::RoundingBounds(x) => {
+        crate::check::InUnits::Sigmas(x) => format!("{} sigma", decimal(x, digits)),
+        crate::check::InUnits::RoundingBounds(x) => {
             format!("{} times {bound}", decimal(x, digits))
         }
     }
@@ -84,8 +85,11 @@ impl JsonVerdict {
     }
 
     /// `exact` writes an exact difference in the report's style.
-    pub fn of(v: &crate::compare::Verdict, exact: impl Fn(&crate::ring::Exact) -> String) -> Self {
-        use crate::compare::Verdict;
+    pub fn of(
+        v: &crate::check::Verdict,
+        exact: impl Fn(&crate::exact::ring::Exact) -> String,
+    ) -> Self {
+        use crate::check::Verdict;
         let mut out = JsonVerdict::named(v.name());
         let in_units = match v {
             Verdict::DiffersExactly { difference, size } => {
@@ -109,8 +113,8 @@ impl JsonVerdict {
             _ => None,
         };
         match in_units {
-            Some(crate::compare::InUnits::Sigmas(x)) => out.sigmas = Some(decimal(x, 4)),
-            Some(crate::compare::InUnits::RoundingBounds(x)) => {
+            Some(crate::check::InUnits::Sigmas(x)) => out.sigmas = Some(decimal(x, 4)),
+            Some(crate::check::InUnits::RoundingBounds(x)) => {
                 out.rounding_bounds = Some(decimal(x, 4))
             }
             None => {}

@@ -9,14 +9,14 @@
 use serde::Serialize;
 
 use super::{decimal, in_units_text, Format, JsonVerdict};
-use crate::catalogue::{Entry, Status};
-use crate::compare::Verdict;
+use crate::check::Verdict;
 use crate::error::{Error, Result};
-use crate::expr::numeric::Approx;
+use crate::exact::ring::{EvenStyle, Exact, Notation};
+use crate::input::catalogue::{Entry, Status};
+use crate::numeric::evaluate::Approx;
+use crate::origin::check::{Broken, HexagonCell, Judged, OriginCheck, Reading};
+use crate::origin::numeric::{monomial_text, written, NumTerm};
 use crate::origin::OriginLogs;
-use crate::origincheck::{Broken, HexagonCell, Judged, OriginCheck, Reading};
-use crate::originnum::{monomial_text, written, NumTerm};
-use crate::ring::{EvenStyle, Exact, Notation};
 
 fn show(x: &Exact, even: EvenStyle) -> String {
     x.format(even, Notation::Text)
@@ -337,7 +337,7 @@ pub fn notes(c: &OriginCheck) -> Vec<String> {
             "C0 formula `{f}` comes from the file: it is the user's conjecture, compared at every order, not a prediction of loopwise."
         ));
     }
-    if c.normalisation == crate::seriesfile::Normalisation::R6 {
+    if c.normalisation == crate::input::seriesfile::Normalisation::R6 {
         out.push(
             "R6 was read as ln E = R6 + Gamma_cusp/4 E^(1), with Gamma_cusp = Gamma(pi/4)."
                 .to_string(),
@@ -491,7 +491,7 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
                     let value = j
                         .predicted
                         .as_ref()
-                        .and_then(|p| p.evaluate(crate::compare::working_bits(c.digits)).ok())
+                        .and_then(|p| p.evaluate(crate::check::working_bits(c.digits)).ok())
                         .map_or(String::new(), |v| format!(" = {}", decimal(&v, 12)));
                     let s = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, PROPAGATED_BOUND)));
                     differences.push(format!(

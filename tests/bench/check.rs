@@ -4,10 +4,10 @@
 
 use std::time::{Duration, Instant};
 
-use loopwise::catalogue::Catalogue;
-use loopwise::compare::check;
+use loopwise::check::check;
+use loopwise::input::catalogue::Catalogue;
+use loopwise::input::seriesfile::parse_series_text;
 use loopwise::kernel::{gamma, Tilt};
-use loopwise::seriesfile::parse_series_text;
 use rug::Rational;
 
 fn main() {

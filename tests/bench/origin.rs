@@ -10,16 +10,16 @@
 
 use std::time::Instant;
 
-use loopwise::catalogue::Catalogue;
+use loopwise::exact::powerseries::Series;
+use loopwise::exact::ring::Exact;
+use loopwise::exact::ring::{EvenStyle, Notation};
 use loopwise::fit::{default_basis, fit, Solution};
+use loopwise::input::catalogue::Catalogue;
+use loopwise::input::seriesfile::parse_series_text;
+use loopwise::origin::check::{check_origin, fit_file, parse_origin_text};
 use loopwise::origin::{analyse_e, predicted_log_coefficients, r6_to_e, OriginLogs};
-use loopwise::origincheck::{check_origin, fit_file, parse_origin_text};
-use loopwise::prediction::Quantity;
+use loopwise::quantity::Quantity;
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
-use loopwise::ring::Exact;
-use loopwise::ring::{EvenStyle, Notation};
-use loopwise::series::Series;
-use loopwise::seriesfile::parse_series_text;
 
 const LOOPS: u32 = 10;
 

@@ -4,8 +4,8 @@
 
 use std::time::Instant;
 
-use loopwise::expr::parse;
-use loopwise::seriesfile::parse_series_text;
+use loopwise::input::expr::parse;
+use loopwise::input::seriesfile::parse_series_text;
 
 /// Deterministic pseudo-random numbers (a 64-bit linear congruential step
 /// with Knuth's MMIX constants), so every run times the same text.

@@ -10,10 +10,10 @@ use std::fmt;
 use rug::Rational;
 
 use super::{judge, Supplied, Verdict};
-use crate::coupling::Coupling;
 use crate::error::Result;
-use crate::ring::Exact;
-use crate::series::Series;
+use crate::exact::coupling::Coupling;
+use crate::exact::powerseries::Series;
+use crate::exact::ring::Exact;
 
 /// What the diagnosis found.
 #[derive(Clone, Debug, PartialEq)]

@@ -1,7 +1,7 @@
 //! Series files: the YAML files in which users keep the loop coefficients of
 //! one quantity, in one coupling convention, next to their own code. This
 //! module owns the format, its reader, and its checks; every expression in a
-//! file goes through [`crate::expr::parse`], and every error names the file,
+//! file goes through [`crate::input::expr::parse`], and every error names the file,
 //! the line and the column.
 //!
 //! # The format
@@ -63,9 +63,9 @@ use std::sync::Arc;
 
 use serde::de::{self, Deserialize, Deserializer, IgnoredAny, MapAccess, Visitor};
 
-use crate::coupling::Coupling;
 use crate::error::{Error, ErrorKind, Result};
-use crate::expr::{self, line_column, Expr, Node, Site, Span};
+use crate::exact::coupling::Coupling;
+use crate::input::expr::{self, line_column, Expr, Node, Site, Span};
 
 /// Largest accepted series file, in bytes.
 pub const MAX_FILE_BYTES: usize = 16 << 20;
@@ -102,7 +102,7 @@ impl SeriesFile {
     /// digits, `-` and `_`, as catalogue names are written), not a formula.
     pub fn catalogue_name(&self) -> Option<&str> {
         let text = self.prediction.as_ref()?.text.trim();
-        crate::catalogue::looks_like_name(text).then_some(text)
+        crate::input::catalogue::looks_like_name(text).then_some(text)
     }
 }
 
@@ -489,7 +489,7 @@ enum Names<'s> {
 }
 
 fn suggestion(key: &str, known: &[&str]) -> String {
-    use crate::suggest::edit_distance;
+    use crate::input::suggest::edit_distance;
     let lower = key.to_lowercase();
     let best = known.iter().map(|k| (edit_distance(&lower, k), *k)).min();
     match best {
@@ -623,7 +623,7 @@ impl<'a> Reader<'a> {
         });
         match bad {
             None => Ok(()),
-            Some((name, span)) if name == crate::prediction::COUPLING => Err(self.error_in_file(
+            Some((name, span)) if name == crate::quantity::COUPLING => Err(self.error_in_file(
                 ErrorKind::Input,
                 start,
                 text,

@@ -6,11 +6,11 @@
 use std::collections::HashMap;
 
 use crate::error::{Error, Result};
-use crate::expr::numeric::{self, needs_numbers, written_digits, Approx, Context};
-use crate::expr::Node;
-use crate::prediction::Expander;
-use crate::ring::Exact;
-use crate::seriesfile::Located;
+use crate::exact::ring::Exact;
+use crate::input::expr::Node;
+use crate::input::seriesfile::Located;
+use crate::numeric::evaluate::{self, needs_numbers, written_digits, Approx, Context};
+use crate::quantity::Expander;
 
 /// One supplied coefficient.
 #[derive(Clone, Debug)]
@@ -47,9 +47,9 @@ pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
 /// Reads a located coefficient as a number, whatever it holds.
 pub fn read_number(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
     let mut ctx = Context::new(prec);
-    let mzv = |s: &[u32], p: u32| crate::mzv::mzv(s, p);
+    let mzv = |s: &[u32], p: u32| crate::numeric::mzv::mzv(s, p);
     ctx.mzv = Some(&mzv);
-    let approx = numeric::evaluate(&located.expr, &mut ctx)
+    let approx = evaluate::evaluate(&located.expr, &mut ctx)
         .map_err(|(span, msg)| located.error_at(origin, span, &msg))?;
     let written = match &located.expr.node {
         Node::Decimal { text, .. } => Some(written_digits(text)),

@@ -7,9 +7,9 @@ use serde::Serialize;
 
 use super::expansion::status_line;
 use super::{decimal, Format};
-use crate::catalogue::{Entry, Status};
-use crate::convergence::RadiusEstimate;
 use crate::error::{Error, Result};
+use crate::input::catalogue::{Entry, Status};
+use crate::numeric::convergence::RadiusEstimate;
 use crate::numeric::Estimate;
 
 /// One coupling of `at`.

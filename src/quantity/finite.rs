@@ -8,14 +8,14 @@ use std::collections::HashMap;
 
 use rug::Float;
 
-use crate::convergence::{self, Pade, RadiusEstimate};
 use crate::error::{Error, Result};
-use crate::expr::numeric::{self, Approx, Context};
-use crate::expr::{self, Angle, Expr, FunctionalKind, Node};
+use crate::exact::powerseries::Series;
+use crate::input::expr::{self, Angle, Expr, FunctionalKind, Node};
 use crate::kernel::Functional;
+use crate::numeric::convergence::{self, Pade, RadiusEstimate};
+use crate::numeric::evaluate::{self, Approx, Context};
 use crate::numeric::{self as engine, Estimate};
-use crate::prediction::{Quantity, COUPLING};
-use crate::series::Series;
+use crate::quantity::{Quantity, COUPLING};
 
 /// Bits for `digits` decimal digits plus guard bits.
 fn bits(digits: u32) -> u32 {
@@ -31,7 +31,7 @@ fn cos2_of(angle: &Angle, q: &Quantity, prec: u32) -> Result<Float> {
             q.label
         ))),
         Angle::Cos2(e) => {
-            let v = numeric::evaluate(e, &mut Context::new(prec)).map_err(fail)?;
+            let v = evaluate::evaluate(e, &mut Context::new(prec)).map_err(fail)?;
             if v.value < 0 || v.value > 1 {
                 return Err(Error::range(format!(
                     "{}: c2 = {} is outside [0, 1]",
@@ -42,7 +42,7 @@ fn cos2_of(angle: &Angle, q: &Quantity, prec: u32) -> Result<Float> {
             Ok(v.value)
         }
         Angle::Radians(e) => {
-            let v = numeric::evaluate(e, &mut Context::new(prec)).map_err(fail)?;
+            let v = evaluate::evaluate(e, &mut Context::new(prec)).map_err(fail)?;
             Ok(v.value.cos().square())
         }
     }
@@ -135,7 +135,7 @@ pub fn values(
             functional: Some(&mut callback),
             mzv: None,
         };
-        let v = numeric::evaluate(&q.expr, &mut ctx).map_err(|f| q.error_at(f.0, &f.1))?;
+        let v = evaluate::evaluate(&q.expr, &mut ctx).map_err(|f| q.error_at(f.0, &f.1))?;
         out.push(Estimate {
             value: v.value,
             error: v.uncertainty,
@@ -158,7 +158,7 @@ pub fn strong_coupling(q: &Quantity, g: &Float, prec: u32) -> Result<Option<Floa
         functional: None,
         mzv: None,
     };
-    let v = numeric::evaluate(&e, &mut ctx)
+    let v = evaluate::evaluate(&e, &mut ctx)
         .map_err(|f| expr::error_at(&sc.formula, &origin, None, f.0, &f.1))?;
     Ok(Some(v.value))
 }

@@ -13,9 +13,9 @@ use std::path::Path;
 
 use serde::Deserialize;
 
-use crate::coupling::Coupling;
 use crate::error::{Error, Result};
-use crate::suggest::did_you_mean;
+use crate::exact::coupling::Coupling;
+use crate::input::suggest::did_you_mean;
 
 fn coupling_name<'de, D: serde::Deserializer<'de>>(
     d: D,
@@ -234,7 +234,7 @@ pub fn looks_like_name(text: &str) -> bool {
 /// Reads one entry; errors name the file, line and column, and suggest keys.
 pub fn parse_entry(text: &str, origin: &str) -> Result<Entry> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
-    crate::seriesfile::check_depth(text, origin)?;
+    crate::input::seriesfile::check_depth(text, origin)?;
     let mut entry: Entry = serde_yaml::from_str(text).map_err(|e| {
         // serde_yaml places errors raised while converting a value at the
         // document's start; point at the `coupling:` line instead.

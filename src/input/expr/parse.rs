@@ -13,7 +13,7 @@ use pest::pratt_parser::{Assoc, Op, PrattParser};
 use pest::Parser;
 use rug::{Integer, Rational};
 
-use super::report::render;
+use super::site::render;
 use super::{Angle, Expr, FunctionalKind, Node, Span};
 use crate::error::{ErrorKind, Result};
 

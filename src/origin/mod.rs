@@ -15,15 +15,18 @@
 //! factor of every product (a coefficient of ln E, or of the exponent) in the
 //! outer loop; the ring's own `Exact` is used at the edges only.
 
+pub mod check;
+pub mod numeric;
+
 use std::collections::HashMap;
 use std::hash::{BuildHasherDefault, Hasher};
 
 use rug::Rational;
 
 use crate::error::{Error, Result};
+use crate::exact::powerseries::Series;
+use crate::exact::ring::{Exact, Monomial};
 use crate::kernel::{self, Tilt};
-use crate::ring::{Exact, Monomial};
-use crate::series::Series;
 
 /// Which logarithms the coefficients are written in.
 #[derive(Clone, Debug, PartialEq, Eq)]

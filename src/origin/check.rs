@@ -2,7 +2,7 @@
 //! to a report value: reading origin files (polynomials in the logs, E or R6,
 //! any coupling) into exact series in g^2, judging what [`crate::origin`]
 //! reads from them against the predictions with the verdicts of `check`
-//! ([`crate::compare::judge`]), naming the coupling and sign slips that
+//! ([`crate::check::judge`]), naming the coupling and sign slips that
 //! would make a differing file agree, and running [`crate::fit`] on the loop
 //! coefficients of a file with a basis given on the command line.
 //!
@@ -13,22 +13,22 @@
 //! An order written with decimals (or other numbers outside the exact ring)
 //! makes the whole file numerical: every order becomes a polynomial with
 //! [`Approx`] coefficients at the working precision and the analysis runs
-//! in [`crate::originnum`], judged with [`crate::compare::judge_numbers`].
+//! in [`crate::origin::numeric`], judged with [`crate::check::judge_numbers`].
 //! A file that is all exact takes the exact path alone.
 
-use crate::catalogue::{Catalogue, Entry};
-use crate::compare::{judge, judge_numbers, working_bits, Supplied, Verdict};
-use crate::coupling::Coupling;
+use crate::check::{judge, judge_numbers, working_bits, Supplied, Verdict};
 use crate::error::{Error, Result};
-use crate::expr::numeric::Approx;
+use crate::exact::coupling::Coupling;
+use crate::exact::powerseries::Series;
+use crate::exact::ring::Exact;
 use crate::fit::{self, BasisElement, Fit};
+use crate::input::catalogue::{Catalogue, Entry};
+use crate::input::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile};
 use crate::kernel::{self, MAX_LOOPS};
+use crate::numeric::evaluate::Approx;
+use crate::origin::numeric::{self, needs_numbers, NumBreakdown, NumPoly, NumTerm};
 use crate::origin::{self, Breakdown, HexagonSlot, OriginLogs};
-use crate::originnum::{self, needs_numbers, NumBreakdown, NumPoly, NumTerm};
-use crate::prediction::{Expander, Quantity};
-use crate::ring::Exact;
-use crate::series::Series;
-use crate::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile};
+use crate::quantity::{Expander, Quantity};
 
 /// An origin file, read and checked: the coefficients as one series in g^2.
 #[derive(Clone, Debug)]
@@ -46,7 +46,7 @@ pub struct OriginData {
 
 /// Reads an origin file from disk, or from standard input when `path` is `-`.
 pub fn read_origin_file(path: &std::path::Path) -> Result<OriginData> {
-    let (text, origin) = crate::seriesfile::read_input(path)?;
+    let (text, origin) = crate::input::seriesfile::read_input(path)?;
     parse_origin_text(&text, &origin)
 }
 
@@ -434,7 +434,7 @@ fn numeric_series(data: &OriginData, v: Variant, prec: u32) -> Result<Vec<NumPol
         let entry = file.orders.iter().find(|o| o.loop_order as usize == k);
         let poly = match entry.and_then(numeric_source) {
             Some(located) => {
-                let p = originnum::read_polynomial(located, &file.origin, &data.logs, prec)?;
+                let p = numeric::read_polynomial(located, &file.origin, &data.logs, prec)?;
                 p.scale(&(to_g2(k, v.coupling).evaluate(prec)? * sign))
             }
             None => {
@@ -455,8 +455,8 @@ fn numeric_readings(
     let prec = working_bits(digits);
     let series = numeric_series(data, v, prec)?;
     let analysis = match cusp {
-        None => originnum::analyse_e(&series, &data.logs, digits),
-        Some(cusp) => originnum::analyse_r6(&series, cusp, &data.logs, digits),
+        None => numeric::analyse_e(&series, &data.logs, digits),
+        Some(cusp) => numeric::analyse_r6(&series, cusp, &data.logs, digits),
     }
     .map_err(|e| e.context(&data.file.origin))?;
     let c = v.coupling;
@@ -464,7 +464,7 @@ fn numeric_readings(
     let mut orders = Vec::new();
     for r in &analysis.orders {
         let f = back(r.order)?;
-        let at = |a: &Approx| Reading::Number(originnum::scaled(a, &f));
+        let at = |a: &Approx| Reading::Number(numeric::scaled(a, &f));
         orders.push((
             r.order,
             at(&r.octagon),
@@ -481,7 +481,7 @@ fn numeric_readings(
                 ts.iter()
                     .map(|t| NumTerm {
                         exponents: t.exponents,
-                        coefficient: originnum::scaled(&t.coefficient, &f),
+                        coefficient: numeric::scaled(&t.coefficient, &f),
                     })
                     .collect()
             };
@@ -707,8 +707,8 @@ pub fn fit_target(file: &SeriesFile) -> Result<Vec<(u32, Exact)>> {
 /// Why a fit takes no decimals, pointing at the first number outside the
 /// exact ring (or at the `value` given alone).
 fn refuse_numbers(file: &SeriesFile, entry: &OrderEntry, located: &Located) -> Error {
-    fn first_inexact(e: &crate::expr::Expr) -> Option<crate::expr::Span> {
-        use crate::expr::Node;
+    fn first_inexact(e: &crate::input::expr::Expr) -> Option<crate::input::expr::Span> {
+        use crate::input::expr::Node;
         match &e.node {
             Node::Decimal { .. } | Node::Catalan | Node::Log(_) => Some(e.span),
             Node::Zeta(args) if args.len() > 1 => Some(e.span),
@@ -815,7 +815,7 @@ pub fn fit_file(
     file: &SeriesFile,
     elements: Vec<BasisElement>,
     ceiling: u32,
-    catalogue: &crate::catalogue::Catalogue,
+    catalogue: &crate::input::catalogue::Catalogue,
 ) -> Result<FitReport> {
     if ceiling == 0 || ceiling > MAX_LOOPS {
         return Err(Error::range(format!(

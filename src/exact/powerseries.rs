@@ -9,9 +9,9 @@ use std::ops::{Add, AddAssign, Mul, Neg, Sub, SubAssign};
 
 use rug::Rational;
 
-use crate::coupling::Coupling;
 use crate::error::{Error, Result};
-use crate::ring::{Exact, Monomial};
+use crate::exact::coupling::Coupling;
+use crate::exact::ring::{Exact, Monomial};
 
 /// sum_{k=0}^{order} c_k x^k, known through x^order.
 #[derive(Clone, Debug, PartialEq, Eq)]

@@ -5,19 +5,21 @@
 //! Kernel expansions are cached per (functional, tilt), so a formula that
 //! uses Gamma(pi/4) twice expands it once.
 
+pub mod finite;
+
 use std::collections::HashMap;
 
 use rug::Rational;
 
-use crate::catalogue::{looks_like_name, Catalogue, Entry, Status};
-use crate::coupling::Coupling;
 use crate::error::{Error, Result};
-use crate::expr::{self, Angle, Expr, FunctionalKind, Node, Site, Span};
+use crate::exact::coupling::Coupling;
+use crate::exact::powerseries::Series;
+use crate::exact::ring::{Exact, Monomial};
+use crate::input::catalogue::{looks_like_name, Catalogue, Entry, Status};
+use crate::input::expr::{self, Angle, Expr, FunctionalKind, Node, Site, Span};
+use crate::input::seriesfile::SeriesFile;
+use crate::input::suggest::did_you_mean;
 use crate::kernel::{self, Functional, Tilt};
-use crate::ring::{Exact, Monomial};
-use crate::series::Series;
-use crate::seriesfile::SeriesFile;
-use crate::suggest::did_you_mean;
 
 /// The name of the coupling in formulas.
 pub const COUPLING: &str = "g";

@@ -24,12 +24,12 @@ use std::collections::BTreeSet;
 
 use rug::Rational;
 
-use crate::catalogue::Catalogue;
 use crate::error::{Error, Result};
+use crate::exact::powerseries::Series;
+use crate::exact::ring::{Exact, Monomial};
+use crate::input::catalogue::Catalogue;
 use crate::kernel;
-use crate::prediction::{Expander, Quantity, Scope};
-use crate::ring::{Exact, Monomial};
-use crate::series::Series;
+use crate::quantity::{Expander, Quantity, Scope};
 
 /// One named basis series, given by a formula in the coefficient language.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -96,7 +96,7 @@ pub fn expand_basis(
         dropped: Vec::new(),
     };
     // Earlier named elements may be used in later formulas (`A=Gamma(0); B=2*A`).
-    let mut named: Vec<(String, crate::expr::Expr)> = Vec::new();
+    let mut named: Vec<(String, crate::input::expr::Expr)> = Vec::new();
     for element in elements {
         let scope = Scope {
             symbols: &[],

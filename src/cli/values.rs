@@ -7,12 +7,13 @@ use clap::{Args as ClapArgs, ValueEnum};
 use rug::ops::Pow;
 use rug::Float;
 
-use loopwise::catalogue::{Catalogue, Status};
-use loopwise::finite::{self, parse_couplings, GridPoints};
+use loopwise::input::catalogue::{Catalogue, Status};
 use loopwise::kernel::{Functional, Tilt, MAX_LOOPS};
-use loopwise::numeric::{self, plot, MAX_DIGITS};
-use loopwise::prediction::Quantity;
-use loopwise::report::finite::{radius_text, scan_rows, AtReport, AtRow};
+use loopwise::numeric::{self, MAX_DIGITS};
+use loopwise::quantity::finite::{self, parse_couplings, GridPoints};
+use loopwise::quantity::Quantity;
+use loopwise::report::svg as plot;
+use loopwise::report::values::{radius_text, scan_rows, AtReport, AtRow};
 use loopwise::report::{bits_for_digits, decimal};
 use loopwise::{Error, Result};
 use rug::Rational;

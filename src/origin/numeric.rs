@@ -5,12 +5,12 @@
 //! the exponentiation check and the readings of the double-log coefficients,
 //! the linear term and C0.
 //!
-//! Uncertainties are those of [`crate::expr::numeric`]: written by the user
+//! Uncertainties are those of [`crate::numeric::evaluate`]: written by the user
 //! or half a unit in the last written digit, propagated to first order in
 //! the worst case (|a| u_b + |b| u_a + u_a u_b for a product, sums for
 //! sums). A coefficient that is exact carries none. Whether a term that
 //! should vanish (degree > 2, or an asymmetric part) is nonzero is decided
-//! with [`crate::compare::judge_numbers`] against zero, so the criteria are
+//! with [`crate::check::judge_numbers`] against zero, so the criteria are
 //! those of `check`: beyond 3 sigma for a stated uncertainty, beyond the
 //! rounding bound for an implied one, beyond the working precision for none.
 
@@ -18,15 +18,15 @@ use std::collections::{BTreeMap, BTreeSet};
 
 use rug::{Float, Integer, Rational};
 
-use crate::compare::judge_numbers;
+use crate::check::judge_numbers;
 use crate::error::{Error, Result};
-pub use crate::expr::numeric::needs_numbers;
-use crate::expr::numeric::{self, product, Approx, Context};
-use crate::expr::{for_each_symbol, Expr, Node};
+use crate::exact::powerseries::Series;
+use crate::exact::ring::Exact;
+use crate::input::expr::{for_each_symbol, Expr, Node};
+use crate::input::seriesfile::Located;
+pub use crate::numeric::evaluate::needs_numbers;
+use crate::numeric::evaluate::{self, product, Approx, Context};
 use crate::origin::{one_loop_limit, OriginLogs};
-use crate::ring::Exact;
-use crate::series::Series;
-use crate::seriesfile::Located;
 
 /// Exponents of (l1, l2, l3); on the line only the first is used.
 pub type Exponents = [u32; 3];
@@ -240,15 +240,15 @@ fn has_symbol(e: &Expr) -> bool {
 }
 
 impl Reader<'_> {
-    fn fail(&self, span: crate::expr::Span, message: &str) -> Error {
+    fn fail(&self, span: crate::input::expr::Span, message: &str) -> Error {
         self.located.error_at(self.origin, span, message)
     }
 
     fn number(&self, e: &Expr) -> Result<Approx> {
         let mut ctx = Context::new(self.prec);
-        let mzv = |s: &[u32], p: u32| crate::mzv::mzv(s, p);
+        let mzv = |s: &[u32], p: u32| crate::numeric::mzv::mzv(s, p);
         ctx.mzv = Some(&mzv);
-        numeric::evaluate(e, &mut ctx).map_err(|(span, msg)| self.fail(span, &msg))
+        evaluate::evaluate(e, &mut ctx).map_err(|(span, msg)| self.fail(span, &msg))
     }
 
     fn poly(&self, e: &Expr) -> Result<NumPoly> {
@@ -662,12 +662,12 @@ fn power_of_ten(e: i64) -> Rational {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::expr::parse;
+    use crate::input::expr::parse;
 
     const PREC: u32 = 200;
 
     fn num(text: &str) -> Approx {
-        numeric::evaluate(
+        evaluate::evaluate(
             &parse(text, "<test>", None).unwrap(),
             &mut Context::new(PREC),
         )

@@ -24,9 +24,8 @@
 //! a Fortran exponent (`1.2d3`). `+-` right after a number literal is ±, so
 //! write `2 + -3` for a sum with a negative term.
 
-pub mod numeric;
 mod parse;
-mod report;
+mod site;
 
 use std::fmt;
 
@@ -35,8 +34,8 @@ pub use parse::{
     MAX_DEPTH, MAX_DIGITS, MAX_EXPONENT, MAX_NESTING, MAX_SOURCE_BYTES, MAX_ZETA_ARGUMENT,
     MAX_ZETA_DEPTH,
 };
-pub(crate) use report::line_column;
-pub use report::Site;
+pub(crate) use site::line_column;
+pub use site::Site;
 
 use crate::error::{Error, ErrorKind, Result};
 
@@ -133,7 +132,7 @@ pub fn error_at(
 ) -> Error {
     match site {
         Some(site) => site.render(ErrorKind::Input, source, origin, span, message),
-        None => report::render(ErrorKind::Input, source, origin, None, span, message),
+        None => site::render(ErrorKind::Input, source, origin, None, span, message),
     }
 }
 

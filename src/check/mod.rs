@@ -16,12 +16,12 @@ pub mod supplied;
 use rug::ops::Pow;
 use rug::Float;
 
-use crate::catalogue::Entry;
-use crate::coupling::Coupling;
 use crate::error::Result;
-use crate::expr::numeric::Approx;
-use crate::ring::Exact;
-use crate::series::Series;
+use crate::exact::coupling::Coupling;
+use crate::exact::powerseries::Series;
+use crate::exact::ring::Exact;
+use crate::input::catalogue::Entry;
+use crate::numeric::evaluate::Approx;
 
 pub use diagnose::{diagnose, Diagnosis};
 pub use supplied::Supplied;
@@ -331,14 +331,14 @@ pub fn compare_orders(
 
 /// Checks a series file against the prediction it names.
 pub fn check(
-    file: &crate::seriesfile::SeriesFile,
-    catalogue: &crate::catalogue::Catalogue,
+    file: &crate::input::seriesfile::SeriesFile,
+    catalogue: &crate::input::catalogue::Catalogue,
     digits: u32,
     progress: &mut dyn FnMut(&str, usize, usize),
 ) -> Result<Comparison> {
     use crate::error::Error;
     use crate::kernel::MAX_LOOPS;
-    use crate::prediction::Quantity;
+    use crate::quantity::Quantity;
 
     let quantity = Quantity::from_file(file, catalogue)?.ok_or_else(|| {
         Error::input(format!(

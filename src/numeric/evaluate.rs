@@ -12,8 +12,8 @@ use rug::float::Constant;
 use rug::ops::Pow;
 use rug::{Float, Integer, Rational};
 
-use super::{Angle, Expr, FunctionalKind, Node};
 use crate::error::{Error, Result};
+use crate::input::expr::{Angle, Expr, FunctionalKind, Node};
 
 /// A number known to within an absolute uncertainty.
 #[derive(Clone, Debug)]
@@ -76,7 +76,7 @@ impl<'a> Context<'a> {
 pub fn evaluate(
     e: &Expr,
     ctx: &mut Context<'_>,
-) -> std::result::Result<Approx, (super::Span, String)> {
+) -> std::result::Result<Approx, (crate::input::expr::Span, String)> {
     let p = ctx.prec;
     let exact = |v: Float| Ok(Approx::exact(v));
     match &e.node {
@@ -302,16 +302,16 @@ pub fn written_digits(text: &str) -> u32 {
 pub fn located(
     source: &str,
     origin: &str,
-    site: Option<&super::Site>,
-    failure: (super::Span, String),
+    site: Option<&crate::input::expr::Site>,
+    failure: (crate::input::expr::Span, String),
 ) -> Error {
-    super::error_at(source, origin, site, failure.0, &failure.1)
+    crate::input::expr::error_at(source, origin, site, failure.0, &failure.1)
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::expr::parse;
+    use crate::input::expr::parse;
 
     fn eval(text: &str) -> Approx {
         let e = parse(text, "<test>", None).unwrap();
