@@ -152,7 +152,7 @@ fn check_expression(input: &str) -> Result<(), TestCaseError> {
     match (&numeric, evaluate_at(&again)) {
         (Ok(a), Ok(b)) => {
             prop_assert!(
-                a.value.is_finite() && a.uncertainty.is_finite() && a.uncertainty >= 0,
+                a.value.is_finite() && a.error.is_finite() && a.error >= 0,
                 "{input:?}: {a:?}"
             );
             prop_assert_eq!(
@@ -163,8 +163,8 @@ fn check_expression(input: &str) -> Result<(), TestCaseError> {
                 printed
             );
             prop_assert_eq!(
-                &a.uncertainty,
-                &b.uncertainty,
+                &a.error,
+                &b.error,
                 "{:?} printed as {:?} changes its uncertainty",
                 input,
                 printed

@@ -21,7 +21,8 @@ use crate::exact::coupling::Coupling;
 use crate::exact::powerseries::Series;
 use crate::exact::ring::Exact;
 use crate::input::catalogue::Entry;
-use crate::numeric::evaluate::Approx;
+use crate::numeric::working_bits;
+use crate::numeric::Estimate;
 
 pub use diagnose::{diagnose, Diagnosis};
 pub use supplied::Supplied;
@@ -186,11 +187,6 @@ impl Comparison {
     }
 }
 
-/// Bits of working precision for `digits` decimal digits, with guard bits.
-pub fn working_bits(digits: u32) -> u32 {
-    crate::report::bits_for_digits(digits) + 64
-}
-
 /// Judges one supplied coefficient against a predicted one.
 pub fn judge(supplied: &Supplied, predicted: &Exact, digits: u32) -> Result<Verdict> {
     let prec = working_bits(digits);
@@ -220,22 +216,22 @@ fn supplied_digits(s: &Supplied) -> Option<u32> {
 }
 
 /// The numerical verdict of `x` against the predicted value `p`.
-pub fn judge_numbers(x: &Approx, p: &Float, written: Option<u32>, digits: u32) -> Verdict {
+pub fn judge_numbers(x: &Estimate, p: &Float, written: Option<u32>, digits: u32) -> Verdict {
     let prec = p.prec().max(x.value.prec());
     let difference = Float::with_val(prec, &x.value - p);
     let abs = Float::with_val(prec, difference.abs_ref());
     let agreeing = agreeing_digits(&abs, p)
         .min(written.unwrap_or(digits))
         .min(digits);
-    let in_units = (!x.uncertainty.is_zero()).then(|| {
-        let ratio = Float::with_val(prec, &abs / &x.uncertainty);
+    let in_units = (!x.error.is_zero()).then(|| {
+        let ratio = Float::with_val(prec, &abs / &x.error);
         if x.stated {
             InUnits::Sigmas(ratio)
         } else {
             InUnits::RoundingBounds(ratio)
         }
     });
-    let agrees = if x.uncertainty.is_zero() {
+    let agrees = if x.error.is_zero() {
         let scale = if p.is_zero() {
             Float::with_val(prec, 1)
         } else {
@@ -244,11 +240,11 @@ pub fn judge_numbers(x: &Approx, p: &Float, written: Option<u32>, digits: u32) -
         let tolerance = Float::with_val(prec, 10u32).pow(digits.saturating_sub(3));
         Float::with_val(prec, &abs * &tolerance) <= scale
     } else if x.stated {
-        abs <= Float::with_val(prec, &x.uncertainty * 3u32)
+        abs <= Float::with_val(prec, &x.error * 3u32)
     } else {
         // The rounding bound of the written digits, with room for the
         // binary representation of the literal itself.
-        abs <= Float::with_val(prec, &x.uncertainty * 1.000001f64)
+        abs <= Float::with_val(prec, &x.error * 1.000001f64)
     };
     if agrees {
         Verdict::AgreesNumerically {

@@ -9,7 +9,8 @@ use crate::error::{Error, Result};
 use crate::exact::ring::Exact;
 use crate::input::expr::Node;
 use crate::input::seriesfile::Located;
-use crate::numeric::evaluate::{self, needs_numbers, written_digits, Approx, Context};
+use crate::numeric::evaluate::{self, needs_numbers, written_digits, Context};
+use crate::numeric::Estimate;
 use crate::quantity::Expander;
 
 /// One supplied coefficient.
@@ -17,7 +18,7 @@ use crate::quantity::Expander;
 pub enum Supplied {
     Exact(Exact),
     Number {
-        approx: Approx,
+        approx: Estimate,
         /// Significant digits the user wrote, when the value came from a
         /// decimal; caps how many digits can be said to agree.
         written: Option<u32>,
@@ -68,9 +69,9 @@ pub fn read_number(located: &Located, origin: &str, prec: u32) -> Result<Supplie
 
 impl Supplied {
     /// The value as a number at `prec` bits (exact values carry no uncertainty).
-    pub fn approx(&self, prec: u32) -> Result<Approx> {
+    pub fn approx(&self, prec: u32) -> Result<Estimate> {
         match self {
-            Supplied::Exact(x) => Ok(Approx::exact(x.evaluate(prec)?)),
+            Supplied::Exact(x) => Ok(Estimate::exact(x.evaluate(prec)?)),
             Supplied::Number { approx, .. } => Ok(approx.clone()),
         }
     }

@@ -9,12 +9,13 @@ use rug::Float;
 
 use loopwise::input::catalogue::{Catalogue, Status};
 use loopwise::kernel::{Functional, Tilt, MAX_LOOPS};
+use loopwise::numeric::bits_for_digits;
 use loopwise::numeric::{self, MAX_DIGITS};
 use loopwise::quantity::finite::{self, parse_couplings, GridPoints};
 use loopwise::quantity::Quantity;
+use loopwise::report::decimal;
 use loopwise::report::svg as plot;
 use loopwise::report::values::{radius_text, scan_rows, AtReport, AtRow};
-use loopwise::report::{bits_for_digits, decimal};
 use loopwise::{Error, Result};
 use rug::Rational;
 

@@ -13,36 +13,13 @@ use rug::ops::Pow;
 use rug::{Float, Integer, Rational};
 
 use crate::error::{Error, Result};
+use crate::input::catalogue::Catalogue;
+use crate::input::expr;
 use crate::input::expr::{Angle, Expr, FunctionalKind, Node};
-
-/// A number known to within an absolute uncertainty.
-#[derive(Clone, Debug)]
-pub struct Approx {
-    pub value: Float,
-    /// Absolute uncertainty; zero for exact values.
-    pub uncertainty: Float,
-    /// Whether the uncertainty was written by the user (`(2)`, `±`), as
-    /// opposed to implied by the written digits or absent.
-    pub stated: bool,
-}
-
-impl Approx {
-    pub fn exact(value: Float) -> Self {
-        let prec = value.prec();
-        Approx {
-            value,
-            uncertainty: Float::with_val(prec, 0),
-            stated: false,
-        }
-    }
-
-    pub fn is_exact(&self) -> bool {
-        self.uncertainty.is_zero()
-    }
-}
+use crate::numeric::Estimate;
 
 /// Values of the functionals at the context's coupling.
-pub type FunctionalValues<'a> = &'a mut dyn FnMut(FunctionalKind, &Angle) -> Result<Approx>;
+pub type FunctionalValues<'a> = &'a mut dyn FnMut(FunctionalKind, &Angle) -> Result<Estimate>;
 
 /// Multiple zeta values (arguments, precision in bits).
 pub type MzvValues<'a> = &'a dyn Fn(&[u32], u32) -> Result<Float>;
@@ -76,9 +53,9 @@ impl<'a> Context<'a> {
 pub fn evaluate(
     e: &Expr,
     ctx: &mut Context<'_>,
-) -> std::result::Result<Approx, (crate::input::expr::Span, String)> {
+) -> std::result::Result<Estimate, (crate::input::expr::Span, String)> {
     let p = ctx.prec;
-    let exact = |v: Float| Ok(Approx::exact(v));
+    let exact = |v: Float| Ok(Estimate::exact(v));
     match &e.node {
         Node::Integer(i) => exact(Float::with_val(p, i)),
         Node::Decimal {
@@ -88,14 +65,14 @@ pub fn evaluate(
         } => {
             let v = Float::with_val(p, value);
             match uncertainty {
-                Some(u) => Ok(Approx {
+                Some(u) => Ok(Estimate {
                     value: v,
-                    uncertainty: Float::with_val(p, u),
+                    error: Float::with_val(p, u),
                     stated: true,
                 }),
-                None => Ok(Approx {
+                None => Ok(Estimate {
                     value: v,
-                    uncertainty: Float::with_val(p, half_last_digit(text)),
+                    error: Float::with_val(p, half_last_digit(text)),
                     stated: false,
                 }),
             }
@@ -105,7 +82,7 @@ pub fn evaluate(
         Node::Zeta(args) if args.len() == 1 => exact(Float::with_val(p, Float::zeta_u(args[0]))),
         Node::Zeta(args) => match ctx.mzv {
             Some(f) => f(args, p)
-                .map(Approx::exact)
+                .map(Estimate::exact)
                 .map_err(|err| (e.span, err.message().to_string())),
             None => Err((
                 e.span,
@@ -114,17 +91,17 @@ pub fn evaluate(
         },
         Node::Log(a) => {
             let x = evaluate(a, ctx)?;
-            if x.value <= 0 || Float::with_val(p, &x.value - &x.uncertainty) <= 0 {
+            if x.value <= 0 || Float::with_val(p, &x.value - &x.error) <= 0 {
                 return Err((
                     a.span,
                     "the logarithm needs a positive argument (also within its uncertainty)"
                         .to_string(),
                 ));
             }
-            let u = Float::with_val(p, &x.uncertainty / &x.value);
-            Ok(Approx {
+            let u = Float::with_val(p, &x.error / &x.value);
+            Ok(Estimate {
                 value: x.value.ln(),
-                uncertainty: u,
+                error: u,
                 stated: x.stated,
             })
         }
@@ -140,51 +117,17 @@ pub fn evaluate(
                     .to_string(),
             )),
         },
-        Node::Neg(a) => {
-            let x = evaluate(a, ctx)?;
-            Ok(Approx {
-                value: -x.value,
-                ..x
-            })
-        }
-        Node::Add(a, b) | Node::Sub(a, b) => {
-            let x = evaluate(a, ctx)?;
-            let y = evaluate(b, ctx)?;
-            let value = if matches!(e.node, Node::Add(..)) {
-                x.value + &y.value
-            } else {
-                x.value - &y.value
-            };
-            Ok(Approx {
-                value,
-                uncertainty: x.uncertainty + &y.uncertainty,
-                stated: x.stated || y.stated,
-            })
-        }
-        Node::Mul(a, b) => {
-            let x = evaluate(a, ctx)?;
-            let y = evaluate(b, ctx)?;
-            Ok(product(&x, &y))
-        }
+        Node::Neg(a) => Ok(evaluate(a, ctx)?.negated()),
+        Node::Add(a, b) => Ok(evaluate(a, ctx)?.sum(&evaluate(b, ctx)?)),
+        Node::Sub(a, b) => Ok(evaluate(a, ctx)?.difference(&evaluate(b, ctx)?)),
+        Node::Mul(a, b) => Ok(evaluate(a, ctx)?.product(&evaluate(b, ctx)?)),
         Node::Div(a, b) => {
             let x = evaluate(a, ctx)?;
-            let y = evaluate(b, ctx)?;
-            if Float::with_val(p, y.value.abs_ref()) <= y.uncertainty {
-                return Err((
+            x.quotient(&evaluate(b, ctx)?).ok_or_else(|| {
+                (
                     b.span,
                     "division by a number that is zero within its uncertainty".to_string(),
-                ));
-            }
-            let value = Float::with_val(p, &x.value / &y.value);
-            let ay = Float::with_val(p, y.value.abs_ref());
-            let spread = Float::with_val(p, &x.uncertainty * &ay)
-                + Float::with_val(p, x.value.abs_ref()) * &y.uncertainty;
-            let denominator =
-                Float::with_val(p, &ay * &ay) - Float::with_val(p, &ay * &y.uncertainty);
-            Ok(Approx {
-                value,
-                uncertainty: spread / denominator,
-                stated: x.stated || y.stated,
+                )
             })
         }
         Node::Pow(a, b) => {
@@ -204,13 +147,11 @@ pub fn evaluate(
                 let u = if x.is_exact() || k == 0 {
                     Float::with_val(p, 0)
                 } else {
-                    Float::with_val(p, (&x.value).pow(k - 1)).abs()
-                        * &x.uncertainty
-                        * k.unsigned_abs()
+                    Float::with_val(p, (&x.value).pow(k - 1)).abs() * &x.error * k.unsigned_abs()
                 };
-                return Ok(Approx {
+                return Ok(Estimate {
                     value,
-                    uncertainty: u,
+                    error: u,
                     stated: x.stated,
                 });
             }
@@ -223,29 +164,87 @@ pub fn evaluate(
             let value = Float::with_val(p, (&x.value).pow(&y.value));
             let ln = Float::with_val(p, x.value.ln_ref());
             let d_base = Float::with_val(p, &y.value * &value) / &x.value;
-            let u = d_base.abs() * &x.uncertainty
-                + Float::with_val(p, &ln * &value).abs() * &y.uncertainty;
-            Ok(Approx {
+            let u = d_base.abs() * &x.error + Float::with_val(p, &ln * &value).abs() * &y.error;
+            Ok(Estimate {
                 value,
-                uncertainty: u,
+                error: u,
                 stated: x.stated || y.stated,
             })
         }
     }
 }
 
-/// x * y with first-order worst-case propagation: |x| u_y + |y| u_x + u_x u_y.
-pub fn product(x: &Approx, y: &Approx) -> Approx {
-    let p = x.value.prec().max(y.value.prec());
-    let value = Float::with_val(p, &x.value * &y.value);
-    let u = Float::with_val(p, x.value.abs_ref()) * &y.uncertainty
-        + Float::with_val(p, y.value.abs_ref()) * &x.uncertainty
-        + Float::with_val(p, &x.uncertainty * &y.uncertainty);
-    Approx {
-        value,
-        uncertainty: u,
-        stated: x.stated || y.stated,
+/// An expression's value as `eval` settles it: digits that survived a
+/// doubling of the working precision.
+#[derive(Clone, Debug)]
+pub enum Settled {
+    /// An exact expression, stable to the requested digits.
+    Exact(Float),
+    /// A value with an uncertainty from the input, stable far below it.
+    Uncertain(Estimate),
+    /// An exact value that stayed below the rounding noise at every
+    /// precision tried: zero to within `bound` at `bits` bits.
+    Zero { bound: Float, bits: u32 },
+}
+
+/// Parses `text` and evaluates it to `digits` significant digits. A
+/// catalogue name is refused with a pointer to `at`: it is a function of the
+/// coupling, not a number.
+pub fn number(text: &str, catalogue: &Catalogue, digits: u32) -> Result<Settled> {
+    let e = expr::parse(&catalogue.mask_hyphens(text), "<expression>", None)?;
+    let mut quantity = None;
+    expr::for_each_symbol(&e, &mut |name, span| {
+        if quantity.is_none() && catalogue.get_in_formula(name).is_some() {
+            quantity = Some((name.replace('_', "-"), span));
+        }
+    });
+    if let Some((name, span)) = quantity {
+        return Err(expr::error_at(
+            text,
+            "<expression>",
+            None,
+            span,
+            &format!("`{name}` is a function of the coupling, not a number; `loopwise at \"{}\" --g VALUE` gives its value", text.trim()),
+        ));
     }
+    settle(&e, text, digits)
+}
+
+/// Evaluates at two precisions and raises both until they agree to the
+/// digits that will be printed, so that cancellation never shows digits that
+/// are only rounding noise.
+fn settle(e: &Expr, source: &str, digits: u32) -> Result<Settled> {
+    let mzv = |s: &[u32], p: u32| crate::numeric::mzv::mzv(s, p);
+    let mut bits = crate::numeric::working_bits(digits);
+    let mut last = None;
+    // Six doublings take 30 digits to about 2,000: a value still below the
+    // noise there is zero for every practical purpose.
+    for _ in 0..6 {
+        let at = |b: u32| {
+            let mut ctx = Context::new(b);
+            ctx.mzv = Some(&mzv);
+            evaluate(e, &mut ctx).map_err(|f| located(source, "<expression>", None, f))
+        };
+        let low = at(bits)?;
+        let high = at(bits + 64)?;
+        let noise = Float::with_val(bits, &high.value - &low.value).abs();
+        let scale = Float::with_val(bits, high.value.abs_ref());
+        let tolerance =
+            Float::with_val(bits, &scale / Float::with_val(bits, 10u32).pow(digits + 1));
+        if !high.is_exact() {
+            // At most the uncertainty's second digit is printed: noise a
+            // thousand times below it cannot reach a printed digit.
+            if noise <= Float::with_val(bits, &high.error / 1000u32).max(&tolerance) {
+                return Ok(Settled::Uncertain(high));
+            }
+        } else if !high.value.is_zero() && noise <= tolerance {
+            return Ok(Settled::Exact(high.value));
+        }
+        last = Some((noise.max(&scale), bits + 64));
+        bits *= 2;
+    }
+    let (bound, bits) = last.unwrap_or_else(|| (Float::new(bits), bits));
+    Ok(Settled::Zero { bound, bits })
 }
 
 /// Whether an expression needs numbers outside the exact ring: decimals,
@@ -313,7 +312,7 @@ mod tests {
     use super::*;
     use crate::input::expr::parse;
 
-    fn eval(text: &str) -> Approx {
+    fn eval(text: &str) -> Estimate {
         let e = parse(text, "<test>", None).unwrap();
         evaluate(&e, &mut Context::new(200)).unwrap()
     }
@@ -327,7 +326,7 @@ mod tests {
         assert_eq!(written_digits("0.00120"), 3);
         let a = eval("-1240.9(2)");
         assert!(a.stated);
-        assert_eq!(a.uncertainty, Float::with_val(200, Rational::from((1, 5))));
+        assert_eq!(a.error, Float::with_val(200, Rational::from((1, 5))));
     }
 
     /// Values against MPFR's own constants (an independent path through the library).
@@ -346,7 +345,7 @@ mod tests {
     fn propagation_is_first_order_worst_case() {
         let x = eval("2.0(1) * 3.0(2)");
         // |2| 0.2 + |3| 0.1 + 0.1*0.2 = 0.72
-        assert!(Float::with_val(64, x.uncertainty - 0.72f64).abs() < 1e-12);
+        assert!(Float::with_val(64, x.error - 0.72f64).abs() < 1e-12);
         let e = parse("1/0.0(1)", "<test>", None).unwrap();
         assert!(evaluate(&e, &mut Context::new(64)).is_err());
         let e = parse("l1 + 1", "<test>", None).unwrap();

@@ -13,6 +13,7 @@
 
 mod bessel;
 pub mod convergence;
+pub mod estimate;
 pub mod evaluate;
 mod matrix;
 pub mod mzv;
@@ -29,85 +30,19 @@ use matrix::{factor, kernel_integrals, tilted_system};
 use quadrature::{plan, weighted_nodes, RuleCache};
 
 pub use bessel::bessel_j_upto;
+pub use estimate::Estimate;
 
 pub use crate::kernel::Functional;
 
-/// A value with an estimated bound on its absolute error.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Estimate {
-    pub value: Float,
-    /// Absolute error bound estimate (non-negative).
-    pub error: Float,
+/// Bits of MPFR precision that carry `digits` decimal digits.
+pub fn bits_for_digits(digits: u32) -> u32 {
+    (f64::from(digits) * std::f64::consts::LOG2_10).ceil() as u32 + 8
 }
 
-impl Estimate {
-    /// Significant digits k such that rounding `value` to k digits stays
-    /// within one unit of the k-th digit of the true value: the error is at
-    /// most half that unit. Zero when the error reaches the value's size.
-    pub fn digits_supported(&self) -> u32 {
-        if self.value.is_zero() || !self.value.is_finite() || !self.error.is_finite() {
-            return 0;
-        }
-        let lead = self.value.clone().abs().log10().floor().to_f64();
-        if self.error.is_zero() {
-            return (self.value.prec() as f64 * 2f64.log10()).floor() as u32;
-        }
-        let two_err = Float::with_val(64, &self.error * 2u32).log10().to_f64();
-        let k = (lead + 1.0 - two_err).floor();
-        if k < 1.0 {
-            0
-        } else {
-            k.min(self.value.prec() as f64 * 2f64.log10()) as u32
-        }
-    }
-
-    /// The value rounded to exactly min(digits_supported, max_digits)
-    /// significant digits (trailing zeros included, since they are supported
-    /// digits too), in plain decimal when that needs no padding zeros and as
-    /// mantissa`e`exponent otherwise. Only digits the error supports are
-    /// printed; when none are (the error reaches the value's size), the value
-    /// is rounded at the error's leading digit (common practice), so that the
-    /// text stays one number whose every digit the error vouches for.
-    pub fn to_decimal(&self, max_digits: u32) -> String {
-        let k = self.digits_supported().min(max_digits);
-        if k == 0 {
-            return crate::report::digit_place(&self.error, 1)
-                .filter(|_| self.value.is_finite())
-                .map_or_else(
-                    || "nan".to_string(),
-                    |place| crate::report::rounded_at(&self.value, place),
-                );
-        }
-        // Scientific text with k significant digits (rug counts the
-        // precision in significant digits), rounded to nearest:
-        // "-d.ddd...e<exp>", split into sign, digits and exponent.
-        let sci = format!("{:.*e}", k as usize, self.value);
-        let (mantissa, exp_text) = sci.split_once('e').unwrap_or((&sci, "0"));
-        let sign = if mantissa.starts_with('-') { "-" } else { "" };
-        let digits: String = mantissa.chars().filter(char::is_ascii_digit).collect();
-        let exp = exp_text.parse::<i64>().unwrap_or(0) + 1;
-        // value = 0.d1d2d3... x 10^exp
-        // Plain decimals unless that would need padding zeros that look
-        // like digits (a large integer part) or many leading zeros.
-        if (-5..=digits.len() as i64).contains(&exp) {
-            if exp <= 0 {
-                format!("{sign}0.{}{digits}", "0".repeat((-exp) as usize))
-            } else if exp as usize == digits.len() {
-                format!("{sign}{digits}")
-            } else {
-                let (a, b) = digits.split_at(exp as usize);
-                format!("{sign}{a}.{b}")
-            }
-        } else {
-            let (a, b) = digits.split_at(1);
-            let b = if b.is_empty() {
-                String::new()
-            } else {
-                format!(".{b}")
-            };
-            format!("{sign}{a}{b}e{}", exp - 1)
-        }
-    }
+/// Bits of working precision for `digits` decimal digits, with 64 guard
+/// bits: room for the cancellation of a sum of a few thousand terms.
+pub fn working_bits(digits: u32) -> u32 {
+    bits_for_digits(digits) + 64
 }
 
 /// Largest number of significant digits `evaluate` accepts.
@@ -237,7 +172,7 @@ fn attempt(
         }
     }
     error += rounding;
-    Ok(Estimate { value: best, error })
+    Ok(Estimate::new(best, error))
 }
 
 fn check_inputs(c2: &Float, g: &Float, digits: u32) -> Result<()> {
@@ -284,10 +219,7 @@ fn evaluate_with(
     check_inputs(c2, g, digits)?;
     let out_prec = (f64::from(digits + 10) * 10f64.log2()).ceil() as u32;
     if g.is_zero() {
-        return Ok(Estimate {
-            value: Float::new(out_prec),
-            error: Float::new(out_prec),
-        });
+        return Ok(Estimate::exact(Float::new(out_prec)));
     }
     let gf = g.to_f64();
     // The expected size of the functional in the unit its tolerance is
@@ -348,7 +280,7 @@ fn round_out(est: Estimate, prec: u32) -> Estimate {
     let mut error = Float::with_val_round(prec, &est.error, Round::Up).0;
     // Rounding the value to the output precision adds half an ulp.
     error += Float::with_val(prec, value.abs_ref()) >> (prec as i32);
-    Estimate { value, error }
+    Estimate::new(value, error)
 }
 
 /// `evaluate` over a list of couplings, sharing the quadrature rules between

@@ -12,11 +12,11 @@
 //!
 //! An order written with decimals (or other numbers outside the exact ring)
 //! makes the whole file numerical: every order becomes a polynomial with
-//! [`Approx`] coefficients at the working precision and the analysis runs
+//! [`Estimate`] coefficients at the working precision and the analysis runs
 //! in [`crate::origin::numeric`], judged with [`crate::check::judge_numbers`].
 //! A file that is all exact takes the exact path alone.
 
-use crate::check::{judge, judge_numbers, working_bits, Supplied, Verdict};
+use crate::check::{judge, judge_numbers, Supplied, Verdict};
 use crate::error::{Error, Result};
 use crate::exact::coupling::Coupling;
 use crate::exact::powerseries::Series;
@@ -25,7 +25,8 @@ use crate::fit::{self, BasisElement, Fit};
 use crate::input::catalogue::{Catalogue, Entry};
 use crate::input::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile};
 use crate::kernel::{self, MAX_LOOPS};
-use crate::numeric::evaluate::Approx;
+use crate::numeric::working_bits;
+use crate::numeric::Estimate;
 use crate::origin::numeric::{self, needs_numbers, NumBreakdown, NumPoly, NumTerm};
 use crate::origin::{self, Breakdown, HexagonSlot, OriginLogs};
 use crate::quantity::{Expander, Quantity};
@@ -159,14 +160,14 @@ fn exact_coefficient(file: &SeriesFile, entry: &OrderEntry) -> Result<Exact> {
 #[derive(Clone, Debug)]
 pub enum Reading {
     Exact(Exact),
-    Number(Approx),
+    Number(Estimate),
 }
 
 impl Reading {
     fn negated(&self) -> Reading {
         match self {
             Reading::Exact(x) => Reading::Exact(-x),
-            Reading::Number(a) => Reading::Number(Approx {
+            Reading::Number(a) => Reading::Number(Estimate {
                 value: rug::Float::with_val(a.value.prec(), -&a.value),
                 ..a.clone()
             }),
@@ -176,7 +177,7 @@ impl Reading {
     pub fn is_zero(&self) -> bool {
         match self {
             Reading::Exact(x) => x.is_zero(),
-            Reading::Number(a) => a.value.is_zero() && a.uncertainty.is_zero(),
+            Reading::Number(a) => a.value.is_zero() && a.error.is_zero(),
         }
     }
 }
@@ -464,7 +465,7 @@ fn numeric_readings(
     let mut orders = Vec::new();
     for r in &analysis.orders {
         let f = back(r.order)?;
-        let at = |a: &Approx| Reading::Number(numeric::scaled(a, &f));
+        let at = |a: &Estimate| Reading::Number(a.scaled(&f));
         orders.push((
             r.order,
             at(&r.octagon),
@@ -481,7 +482,7 @@ fn numeric_readings(
                 ts.iter()
                     .map(|t| NumTerm {
                         exponents: t.exponents,
-                        coefficient: numeric::scaled(&t.coefficient, &f),
+                        coefficient: t.coefficient.scaled(&f),
                     })
                     .collect()
             };

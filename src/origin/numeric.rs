@@ -1,5 +1,5 @@
 //! Origin files with numerical coefficients: polynomials in the logs whose
-//! coefficients are numbers with an uncertainty ([`Approx`]), read from
+//! coefficients are numbers with an uncertainty ([`Estimate`]), read from
 //! decimals such as `-0.16667(1)*l1^2 + 1.6449 l1 l2 - 4.93480220054(2)`,
 //! and the numerical counterpart of [`crate::origin`]: ln E order by order,
 //! the exponentiation check and the readings of the double-log coefficients,
@@ -16,7 +16,7 @@
 
 use std::collections::{BTreeMap, BTreeSet};
 
-use rug::{Float, Integer, Rational};
+use rug::{Float, Rational};
 
 use crate::check::judge_numbers;
 use crate::error::{Error, Result};
@@ -25,7 +25,8 @@ use crate::exact::ring::Exact;
 use crate::input::expr::{for_each_symbol, Expr, Node};
 use crate::input::seriesfile::Located;
 pub use crate::numeric::evaluate::needs_numbers;
-use crate::numeric::evaluate::{self, product, Approx, Context};
+use crate::numeric::evaluate::{self, Context};
+use crate::numeric::Estimate;
 use crate::origin::{one_loop_limit, OriginLogs};
 
 /// Exponents of (l1, l2, l3); on the line only the first is used.
@@ -35,56 +36,15 @@ pub type Exponents = [u32; 3];
 /// any bootstrap output (degree 2L), and it keeps products from overflowing.
 const MAX_POWER: u32 = 1 << 16;
 
-fn zero(prec: u32) -> Approx {
-    Approx::exact(Float::with_val(prec, 0))
-}
-
-fn sum(x: &Approx, y: &Approx) -> Approx {
-    let p = x.value.prec().max(y.value.prec());
-    Approx {
-        value: Float::with_val(p, &x.value + &y.value),
-        uncertainty: Float::with_val(p, &x.uncertainty + &y.uncertainty),
-        stated: x.stated || y.stated,
-    }
-}
-
-fn negated(x: &Approx) -> Approx {
-    Approx {
-        value: Float::with_val(x.value.prec(), -&x.value),
-        ..x.clone()
-    }
-}
-
-/// `x` times an exact number.
-pub fn scaled(x: &Approx, factor: &Float) -> Approx {
-    let p = x.value.prec().max(factor.prec());
-    Approx {
-        value: Float::with_val(p, &x.value * factor),
-        uncertainty: Float::with_val(p, &x.uncertainty * factor).abs(),
-        stated: x.stated,
-    }
-}
-
-/// x / y to first order, worst case; y must be nonzero beyond its uncertainty.
-fn quotient(x: &Approx, y: &Approx) -> Approx {
-    let p = x.value.prec().max(y.value.prec());
-    let value = Float::with_val(p, &x.value / &y.value);
-    let ay = Float::with_val(p, y.value.abs_ref());
-    let spread = Float::with_val(p, &x.uncertainty * &ay)
-        + Float::with_val(p, x.value.abs_ref()) * &y.uncertainty;
-    let denominator = Float::with_val(p, &ay * &ay) - Float::with_val(p, &ay * &y.uncertainty);
-    Approx {
-        value,
-        uncertainty: spread / denominator,
-        stated: x.stated || y.stated,
-    }
+fn zero(prec: u32) -> Estimate {
+    Estimate::exact(Float::with_val(prec, 0))
 }
 
 /// A polynomial in the logs with numerical coefficients.
 #[derive(Clone, Debug)]
 pub struct NumPoly {
     prec: u32,
-    terms: BTreeMap<Exponents, Approx>,
+    terms: BTreeMap<Exponents, Estimate>,
 }
 
 impl NumPoly {
@@ -95,27 +55,27 @@ impl NumPoly {
         }
     }
 
-    pub fn constant(c: Approx) -> Self {
+    pub fn constant(c: Estimate) -> Self {
         let mut p = NumPoly::zero(c.value.prec());
         p.terms.insert([0, 0, 0], c);
         p
     }
 
     /// The coefficient of one monomial; zero (exactly) when absent.
-    pub fn coefficient(&self, e: Exponents) -> Approx {
+    pub fn coefficient(&self, e: Exponents) -> Estimate {
         self.terms
             .get(&e)
             .cloned()
             .unwrap_or_else(|| zero(self.prec))
     }
 
-    pub fn terms(&self) -> impl Iterator<Item = (&Exponents, &Approx)> {
+    pub fn terms(&self) -> impl Iterator<Item = (&Exponents, &Estimate)> {
         self.terms.iter()
     }
 
-    fn add_term(&mut self, e: Exponents, c: &Approx) {
+    fn add_term(&mut self, e: Exponents, c: &Estimate) {
         let merged = match self.terms.get(&e) {
-            Some(old) => sum(old, c),
+            Some(old) => old.sum(c),
             None => c.clone(),
         };
         self.terms.insert(e, merged);
@@ -132,7 +92,7 @@ impl NumPoly {
     pub fn neg(&self) -> NumPoly {
         NumPoly {
             prec: self.prec,
-            terms: self.terms.iter().map(|(e, c)| (*e, negated(c))).collect(),
+            terms: self.terms.iter().map(|(e, c)| (*e, c.negated())).collect(),
         }
     }
 
@@ -142,20 +102,22 @@ impl NumPoly {
             terms: self
                 .terms
                 .iter()
-                .map(|(e, c)| (*e, scaled(c, factor)))
+                .map(|(e, c)| (*e, c.scaled(factor)))
                 .collect(),
         }
     }
 
-    fn divide(&self, d: &Approx) -> NumPoly {
-        NumPoly {
+    /// None when `d` is zero within its error.
+    fn divide(&self, d: &Estimate) -> Option<NumPoly> {
+        let terms = self
+            .terms
+            .iter()
+            .map(|(e, c)| Some((*e, c.quotient(d)?)))
+            .collect::<Option<_>>()?;
+        Some(NumPoly {
             prec: self.prec,
-            terms: self
-                .terms
-                .iter()
-                .map(|(e, c)| (*e, quotient(c, d)))
-                .collect(),
-        }
+            terms,
+        })
     }
 
     pub fn mul(&self, other: &NumPoly) -> Result<NumPoly> {
@@ -171,14 +133,14 @@ impl NumPoly {
                         )));
                     }
                 }
-                out.add_term(e, &product(ca, cb));
+                out.add_term(e, &ca.product(cb));
             }
         }
         Ok(out)
     }
 
     fn pow(&self, k: u32) -> Result<NumPoly> {
-        let mut out = NumPoly::constant(Approx::exact(Float::with_val(self.prec, 1)));
+        let mut out = NumPoly::constant(Estimate::exact(Float::with_val(self.prec, 1)));
         for _ in 0..k {
             out = out.mul(self)?;
         }
@@ -203,7 +165,7 @@ impl NumPoly {
                 e[slot] = *power;
             }
             let value = Exact::term(c.clone(), rest).evaluate(prec)?;
-            out.add_term(e, &Approx::exact(value));
+            out.add_term(e, &Estimate::exact(value));
         }
         Ok(out)
     }
@@ -244,7 +206,7 @@ impl Reader<'_> {
         self.located.error_at(self.origin, span, message)
     }
 
-    fn number(&self, e: &Expr) -> Result<Approx> {
+    fn number(&self, e: &Expr) -> Result<Estimate> {
         let mut ctx = Context::new(self.prec);
         let mzv = |s: &[u32], p: u32| crate::numeric::mzv::mzv(s, p);
         ctx.mzv = Some(&mzv);
@@ -270,7 +232,7 @@ impl Reader<'_> {
                 let mut exps = [0; 3];
                 exps[slot] = 1;
                 let mut p = NumPoly::zero(self.prec);
-                p.add_term(exps, &Approx::exact(Float::with_val(self.prec, 1)));
+                p.add_term(exps, &Estimate::exact(Float::with_val(self.prec, 1)));
                 Ok(p)
             }
             Node::Neg(a) => Ok(self.poly(a)?.neg()),
@@ -285,13 +247,12 @@ impl Reader<'_> {
                     ));
                 }
                 let d = self.number(b)?;
-                if Float::with_val(self.prec, d.value.abs_ref()) <= d.uncertainty {
-                    return Err(self.fail(
+                self.poly(a)?.divide(&d).ok_or_else(|| {
+                    self.fail(
                         b.span,
                         "division by a number that is zero within its uncertainty",
-                    ));
-                }
-                Ok(self.poly(a)?.divide(&d))
+                    )
+                })
             }
             Node::Pow(a, b) => {
                 let k = if has_symbol(b) {
@@ -319,18 +280,18 @@ impl Reader<'_> {
 #[derive(Clone, Debug)]
 pub struct NumReading {
     pub order: usize,
-    pub octagon: Approx,
+    pub octagon: Estimate,
     /// None on the line u1 = u2 = u3, where it cannot be read.
-    pub hexagon: Option<Approx>,
-    pub linear: Approx,
-    pub constant: Approx,
+    pub hexagon: Option<Estimate>,
+    pub linear: Estimate,
+    pub constant: Estimate,
 }
 
 /// A term of ln E that should vanish and does not.
 #[derive(Clone, Debug)]
 pub struct NumTerm {
     pub exponents: Exponents,
-    pub coefficient: Approx,
+    pub coefficient: Estimate,
 }
 
 /// The first order at which ln E is not, within the uncertainties, a
@@ -457,15 +418,15 @@ fn permuted(e: Exponents, perm: [usize; 3]) -> Exponents {
 
 /// The mean of the coefficients over the orbit of `e` under permutations of
 /// the logs (three distinct monomials for the shapes read here).
-fn orbit_mean(c: &NumPoly, e: Exponents) -> Approx {
+fn orbit_mean(c: &NumPoly, e: Exponents) -> Estimate {
     let orbit: BTreeSet<Exponents> = PERMS.iter().map(|&p| permuted(e, p)).collect();
     let n = Float::with_val(c.prec, orbit.len() as u32);
     let total = orbit
         .iter()
-        .fold(zero(c.prec), |acc, &m| sum(&acc, &c.coefficient(m)));
-    Approx {
+        .fold(zero(c.prec), |acc, &m| acc.sum(&c.coefficient(m)));
+    Estimate {
         value: Float::with_val(c.prec, &total.value / &n),
-        uncertainty: Float::with_val(c.prec, &total.uncertainty / &n),
+        error: Float::with_val(c.prec, &total.error / &n),
         ..total
     }
 }
@@ -478,7 +439,7 @@ fn examine(
     digits: u32,
 ) -> (Option<NumReading>, Option<NumBreakdown>) {
     let nought = Float::with_val(c.prec, 0);
-    let nonzero = |a: &Approx| judge_numbers(a, &nought, None, digits).differs();
+    let nonzero = |a: &Estimate| judge_numbers(a, &nought, None, digits).differs();
     let high_degree: Vec<NumTerm> = c
         .terms
         .iter()
@@ -517,8 +478,8 @@ fn examine(
             let two = Float::with_val(c.prec, 2);
             NumReading {
                 order: k,
-                octagon: scaled(&sum(&a, &b), &third),
-                hexagon: Some(scaled(&sum(&scaled(&a, &two), &negated(&b)), &sixth)),
+                octagon: a.sum(&b).scaled(&third),
+                hexagon: Some(a.scaled(&two).difference(&b).scaled(&sixth)),
                 linear: orbit_mean(c, [1, 0, 0]),
                 constant,
             }
@@ -526,12 +487,11 @@ fn examine(
         // On the line (sum l)^2 = 9 l^2 and l1 + l2 + l3 = 3 l.
         OriginLogs::Line(_) => NumReading {
             order: k,
-            octagon: scaled(
-                &c.coefficient([2, 0, 0]),
-                &Float::with_val(c.prec, Rational::from((1, 9))),
-            ),
+            octagon: c
+                .coefficient([2, 0, 0])
+                .scaled(&Float::with_val(c.prec, Rational::from((1, 9)))),
             hexagon: None,
-            linear: scaled(&c.coefficient([1, 0, 0]), &third),
+            linear: c.coefficient([1, 0, 0]).scaled(&third),
             constant,
         },
     };
@@ -556,11 +516,11 @@ fn asymmetric_part(c: &NumPoly) -> Vec<NumTerm> {
         for perm in PERMS {
             let moved = permuted(e, perm);
             if moved != e {
-                acc = sum(&acc, &sum(&ce, &negated(&c.coefficient(moved))));
+                acc = acc.sum(&ce.difference(&c.coefficient(moved)));
             }
         }
-        let part = scaled(&acc, &sixth);
-        if !(part.value.is_zero() && part.uncertainty.is_zero()) {
+        let part = acc.scaled(&sixth);
+        if !(part.value.is_zero() && part.error.is_zero()) {
             out.push(NumTerm {
                 exponents: e,
                 coefficient: part,
@@ -592,73 +552,6 @@ pub fn monomial_text(e: Exponents, logs: &OriginLogs) -> String {
     }
 }
 
-/// A number with its uncertainty as the coefficient language writes it:
-/// the value rounded at the second significant digit of the uncertainty,
-/// that uncertainty (rounded up) in brackets in units of the last digit,
-/// `20.834722249(13)` or `-1.23(4)e-9`; a number without an uncertainty at
-/// `digits` significant digits.
-pub fn written(a: &Approx, digits: u32) -> String {
-    if a.uncertainty.is_zero() {
-        return crate::report::decimal(&a.value, digits);
-    }
-    let (Some(value), Some(u)) = (a.value.to_rational(), a.uncertainty.to_rational()) else {
-        return format!("{} ± {}", a.value, a.uncertainty);
-    };
-    let u = Rational::from(u.abs_ref());
-    let leading = |x: &Rational| -> i64 {
-        let f = Float::with_val(64, x);
-        Float::with_val(64, f.log10_ref()).floor().to_f64() as i64
-    };
-    let mut last = leading(&u) - 1;
-    let (n, ud) = loop {
-        let unit = power_of_ten(last);
-        let n = Rational::from(&value / &unit).round().into_numer_denom().0;
-        // Rounded up, less a relative 10^-12 so that the binary image of a
-        // written `(13)` does not come out as 14.
-        let slack = Rational::from((999_999_999_999u64, 1_000_000_000_000u64));
-        let ud = (Rational::from(&u / &unit) * slack)
-            .ceil()
-            .into_numer_denom()
-            .0;
-        if ud < 100 {
-            break (n, ud);
-        }
-        last += 1;
-    };
-    let negative = n < 0;
-    let digits_n = Integer::from(n.abs_ref()).to_string();
-    let sign = if negative { "-" } else { "" };
-    let width = digits_n.len().max(ud.to_string().len()) as i64;
-    let exponent = last + width - 1;
-    if (-5..21).contains(&exponent) {
-        if last >= 0 {
-            let zeros = "0".repeat(last as usize);
-            return format!("{sign}{digits_n}{zeros}({ud}{zeros})");
-        }
-        let places = (-last) as usize;
-        let padded = format!("{:0>w$}", digits_n, w = places + 1);
-        let (int, frac) = padded.split_at(padded.len() - places);
-        return format!("{sign}{int}.{frac}({ud})");
-    }
-    let padded = format!("{:0>w$}", digits_n, w = width as usize);
-    let (first, rest) = padded.split_at(1);
-    let point = if rest.is_empty() {
-        String::new()
-    } else {
-        format!(".{rest}")
-    };
-    format!("{sign}{first}{point}({ud})e{exponent}")
-}
-
-fn power_of_ten(e: i64) -> Rational {
-    let p = Integer::from(Integer::u_pow_u(10, e.unsigned_abs() as u32));
-    if e >= 0 {
-        Rational::from(p)
-    } else {
-        Rational::from((Integer::from(1), p))
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -666,34 +559,12 @@ mod tests {
 
     const PREC: u32 = 200;
 
-    fn num(text: &str) -> Approx {
-        evaluate::evaluate(
-            &parse(text, "<test>", None).unwrap(),
-            &mut Context::new(PREC),
-        )
-        .unwrap()
-    }
-
     fn located(text: &str) -> Located {
         Located::standalone(text, parse(text, "<test>", None).unwrap())
     }
 
     fn close(x: &Float, y: f64, tol: f64) -> bool {
         (x.to_f64() - y).abs() <= tol
-    }
-
-    #[test]
-    fn uncertainties_are_written_in_brackets() {
-        assert_eq!(written(&num("20.834722249(13)"), 20), "20.834722249(13)");
-        assert_eq!(written(&num("-0.16667(1)"), 20), "-0.166670(10)");
-        assert_eq!(written(&num("-1.234e-9 ± 4e-11"), 20), "-1.234(40)e-9");
-        assert_eq!(written(&num("123456 ± 3400"), 20), "123500(3400)");
-        assert_eq!(written(&num("0.0001(3)"), 20), "0.00010(30)");
-        assert_eq!(written(&num("0.5"), 20), "0.500(50)");
-        assert_eq!(written(&num("2"), 6), "2.00000");
-        // What is written reads back as the same interval (rounded outwards).
-        let back = num(&written(&num("1.23456(27)"), 20));
-        assert!(close(&back.value, 1.23456, 1e-12) && close(&back.uncertainty, 0.00027, 1e-12));
     }
 
     /// (1.5(1) l1 + 2) * (l1 - 0.5(2)): l1^2 1.5(1); l1 2 - 0.75 with
@@ -711,13 +582,13 @@ mod tests {
         .unwrap();
         let c = p.coefficient([1, 0, 0]);
         assert!(
-            close(&c.value, 1.25, 1e-15) && close(&c.uncertainty, 0.37, 1e-15),
+            close(&c.value, 1.25, 1e-15) && close(&c.error, 0.37, 1e-15),
             "{c:?}"
         );
         let c = p.coefficient([0, 0, 0]);
-        assert!(close(&c.value, -1.0, 1e-15) && close(&c.uncertainty, 0.4, 1e-15) && c.stated);
+        assert!(close(&c.value, -1.0, 1e-15) && close(&c.error, 0.4, 1e-15) && c.stated);
         let c = p.coefficient([2, 0, 0]);
-        assert!(close(&c.value, 1.5, 1e-15) && close(&c.uncertainty, 0.1, 1e-15));
+        assert!(close(&c.value, 1.5, 1e-15) && close(&c.error, 0.1, 1e-15));
         assert!(read_polynomial(&located("1.5/l1"), "<test>", &logs, PREC).is_err());
         assert!(read_polynomial(&located("l1^0.5"), "<test>", &logs, PREC).is_err());
         assert!(read_polynomial(&located("log(l1)*1.0"), "<test>", &logs, PREC).is_err());
@@ -816,7 +687,7 @@ mod tests {
             .unwrap();
         assert!(
             close(&t.coefficient.value, 0.4 / 6.0, 1e-12)
-                && close(&t.coefficient.uncertainty, 0.08 / 6.0, 1e-12)
+                && close(&t.coefficient.error, 0.08 / 6.0, 1e-12)
         );
     }
 }

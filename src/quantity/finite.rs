@@ -13,13 +13,14 @@ use crate::exact::powerseries::Series;
 use crate::input::expr::{self, Angle, Expr, FunctionalKind, Node};
 use crate::kernel::Functional;
 use crate::numeric::convergence::{self, Pade, RadiusEstimate};
-use crate::numeric::evaluate::{self, Approx, Context};
-use crate::numeric::{self as engine, Estimate};
+use crate::numeric::evaluate::{self, Context};
+use crate::numeric::Estimate;
+use crate::numeric::{self as engine};
 use crate::quantity::{Quantity, COUPLING};
 
 /// Bits for `digits` decimal digits plus guard bits.
 fn bits(digits: u32) -> u32 {
-    crate::report::bits_for_digits(digits) + 64
+    crate::numeric::bits_for_digits(digits) + 64
 }
 
 /// cos^2 of a functional's tilt, numerically; any real angle is accepted.
@@ -112,7 +113,7 @@ pub fn values(
     for (i, g) in couplings.iter().enumerate() {
         let lookup: HashMap<usize, &Estimate> =
             (0..parts.len()).map(|k| (k, &tables[k][i])).collect();
-        let mut callback = |kind: FunctionalKind, angle: &Angle| -> Result<Approx> {
+        let mut callback = |kind: FunctionalKind, angle: &Angle| -> Result<Estimate> {
             let f = match kind {
                 FunctionalKind::Gamma => Functional::Gamma,
                 FunctionalKind::Delta => Functional::Delta,
@@ -122,9 +123,9 @@ pub fn values(
                 .position(|(g, a, _)| *g == f && a == angle)
                 .ok_or_else(|| Error::numeric("functional not prepared"))?;
             let e = lookup[&k];
-            Ok(Approx {
+            Ok(Estimate {
                 value: Float::with_val(prec, &e.value),
-                uncertainty: Float::with_val(prec, &e.error),
+                error: Float::with_val(prec, &e.error),
                 stated: true,
             })
         };
@@ -136,10 +137,7 @@ pub fn values(
             mzv: None,
         };
         let v = evaluate::evaluate(&q.expr, &mut ctx).map_err(|f| q.error_at(f.0, &f.1))?;
-        out.push(Estimate {
-            value: v.value,
-            error: v.uncertainty,
-        });
+        out.push(Estimate::new(v.value, v.error));
     }
     Ok(out)
 }

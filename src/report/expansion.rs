@@ -4,12 +4,13 @@
 use serde::Serialize;
 
 use super::latex::{escape, math_cell};
-use super::{bits_for_digits, decimal, Format};
+use super::{decimal, Format};
 use crate::error::Result;
 use crate::exact::coupling::Coupling;
 use crate::exact::powerseries::Series;
 use crate::exact::ring::{EvenStyle, Exact, Notation};
 use crate::input::catalogue::{Entry, Status};
+use crate::numeric::bits_for_digits;
 
 /// Everything `expand` shows.
 pub struct Expansion {

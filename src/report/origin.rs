@@ -13,10 +13,11 @@ use crate::check::Verdict;
 use crate::error::{Error, Result};
 use crate::exact::ring::{EvenStyle, Exact, Notation};
 use crate::input::catalogue::{Entry, Status};
-use crate::numeric::evaluate::Approx;
+use crate::numeric::Estimate;
 use crate::origin::check::{Broken, HexagonCell, Judged, OriginCheck, Reading};
-use crate::origin::numeric::{monomial_text, written, NumTerm};
+use crate::origin::numeric::{monomial_text, NumTerm};
 use crate::origin::OriginLogs;
+use crate::report::decimal::bracketed;
 
 fn show(x: &Exact, even: EvenStyle) -> String {
     x.format(even, Notation::Text)
@@ -28,7 +29,7 @@ const SHOWN_DIGITS: u32 = 20;
 fn show_reading(r: &Reading, even: EvenStyle, digits: u32) -> String {
     match r {
         Reading::Exact(x) => show(x, even),
-        Reading::Number(a) => written(a, digits.min(SHOWN_DIGITS)),
+        Reading::Number(a) => bracketed(a, digits.min(SHOWN_DIGITS)),
     }
 }
 
@@ -36,9 +37,8 @@ fn show_reading(r: &Reading, even: EvenStyle, digits: u32) -> String {
 const PROPAGATED_BOUND: &str = "the rounding bound propagated from the written digits";
 
 /// |value| / uncertainty, when there is an uncertainty.
-fn sigmas_of(a: &Approx) -> Option<rug::Float> {
-    (!a.uncertainty.is_zero())
-        .then(|| rug::Float::with_val(a.value.prec(), a.value.abs_ref()) / &a.uncertainty)
+fn sigmas_of(a: &Estimate) -> Option<rug::Float> {
+    (!a.error.is_zero()).then(|| rug::Float::with_val(a.value.prec(), a.value.abs_ref()) / &a.error)
 }
 
 /// One term that breaks exponentiation, with how far it is from zero.
@@ -50,7 +50,7 @@ fn term_text(t: &NumTerm, logs: &OriginLogs, digits: u32) -> String {
     };
     format!(
         "{}*{} ({size})",
-        written(&t.coefficient, digits.min(SHOWN_DIGITS)),
+        bracketed(&t.coefficient, digits.min(SHOWN_DIGITS)),
         monomial_text(t.exponents, logs)
     )
 }
@@ -112,7 +112,7 @@ fn cell(j: &Judged, even: EvenStyle, digits: u32) -> JsonCell {
     out.predicted = j.predicted.as_ref().map(|p| show(p, even));
     if let Reading::Number(a) = &j.supplied {
         out.supplied_value = Some(decimal(&a.value, digits.min(SHOWN_DIGITS)));
-        out.uncertainty = Some(decimal(&a.uncertainty, 3));
+        out.uncertainty = Some(decimal(&a.error, 3));
         out.uncertainty_stated = Some(a.stated);
         out.predicted_value = j
             .predicted
@@ -176,7 +176,7 @@ fn json_break(b: &Broken, logs: &OriginLogs, even: EvenStyle, digits: u32) -> Js
                     part,
                     monomial: monomial_text(t.exponents, logs),
                     value: decimal(&t.coefficient.value, digits.min(SHOWN_DIGITS)),
-                    uncertainty: decimal(&t.coefficient.uncertainty, 3),
+                    uncertainty: decimal(&t.coefficient.error, 3),
                     uncertainty_stated: t.coefficient.stated,
                     sigmas: sigmas_of(&t.coefficient)
                         .filter(|_| t.coefficient.stated)
@@ -491,7 +491,7 @@ fn text(c: &OriginCheck, even: EvenStyle) -> String {
                     let value = j
                         .predicted
                         .as_ref()
-                        .and_then(|p| p.evaluate(crate::check::working_bits(c.digits)).ok())
+                        .and_then(|p| p.evaluate(crate::numeric::working_bits(c.digits)).ok())
                         .map_or(String::new(), |v| format!(" = {}", decimal(&v, 12)));
                     let s = in_units.as_ref().map_or(String::new(), |u| format!(" = {}", in_units_text(u, 3, PROPAGATED_BOUND)));
                     differences.push(format!(

@@ -66,7 +66,7 @@ fn value_text(e: &Estimate, digits: u32) -> String {
     if e.value.is_zero() && e.error.is_zero() {
         "0".to_string()
     } else {
-        e.to_decimal(digits)
+        crate::report::decimal::supported(e, digits)
     }
 }
 

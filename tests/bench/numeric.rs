@@ -23,7 +23,7 @@ fn main() {
             Ok(est) => println!(
                 "{label}: {:>8.3} s  {}",
                 start.elapsed().as_secs_f64(),
-                est.to_decimal(30)
+                loopwise::report::decimal::supported(&est, 30)
             ),
             Err(e) => println!("{label}: failed: {e}"),
         }
@@ -36,7 +36,10 @@ fn main() {
         Ok(values) => println!(
             "Gamma(c2=1/4), 60 points on g in (0, 3], 15 digits: {:>8.3} s  (last {})",
             start.elapsed().as_secs_f64(),
-            values.last().map(|e| e.to_decimal(15)).unwrap_or_default()
+            values
+                .last()
+                .map(|e| loopwise::report::decimal::supported(e, 15))
+                .unwrap_or_default()
         ),
         Err(e) => println!("scan failed: {e}"),
     }
