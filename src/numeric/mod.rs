@@ -14,6 +14,7 @@
 mod bessel;
 mod kernel;
 pub mod plot;
+pub mod pslq;
 mod quadrature;
 
 use std::f64::consts::LN_10;
