@@ -17,6 +17,7 @@ pub mod estimate;
 pub mod evaluate;
 mod matrix;
 pub mod mzv;
+pub mod pslq;
 mod quadrature;
 
 use std::f64::consts::LN_10;
