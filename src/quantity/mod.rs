@@ -5,7 +5,9 @@
 //! Kernel expansions are cached per (functional, tilt), so a formula that
 //! uses Gamma(pi/4) twice expands it once.
 
+pub mod curves;
 pub mod finite;
+pub mod selftest;
 
 use std::collections::HashMap;
 

@@ -1,5 +1,5 @@
-//! SVG figures of curves (f64 is enough here: a figure is presentation, and
-//! the values it shows were computed elsewhere). Only the SVG backend is
+//! SVG figures of the curves [`crate::quantity::curves`] computes (f64 is
+//! enough here: a figure is presentation). Only the SVG backend is
 //! used, so no font or image system libraries are needed; PNG is not
 //! offered because rasterising text would need them.
 
@@ -9,14 +9,7 @@ use plotters::prelude::*;
 use plotters::style::ShapeStyle;
 
 use crate::error::{Error, Result};
-
-/// One labelled polyline.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Curve {
-    pub name: String,
-    pub points: Vec<(f64, f64)>,
-    pub dashed: bool,
-}
+use crate::quantity::curves::Curve;
 
 /// Twelve colours that stay apart from each other, so that a figure with
 /// several quantities and their expansions does not repeat a colour.

@@ -11,6 +11,7 @@ use crate::error::{Error, Result};
 use crate::input::catalogue::{Entry, Status};
 use crate::numeric::convergence::RadiusEstimate;
 use crate::numeric::Estimate;
+use crate::quantity::selftest::{SelfCheck, LOOPS};
 
 /// One coupling of `at`.
 pub struct AtRow {
@@ -212,6 +213,31 @@ pub fn radius_text(quantity: &str, r: &RadiusEstimate) -> String {
         decimal(&r.estimate, 10),
         decimal(&r.spread, 2),
         decimal(&off, 2)
+    ));
+    out
+}
+
+/// The self-test's table: one line per comparison, then the count.
+pub fn selftest_text(checks: &[SelfCheck]) -> String {
+    let mut out = format!("selftest: the summed {LOOPS}-loop weak-coupling series (exact engine) against the numerical engine\n\n");
+    out.push_str(&format!(
+        "{:<12} {:>5}  {:<10}  {:<10}  result\n",
+        "functional", "g", "|diff|", "bound"
+    ));
+    for c in checks {
+        out.push_str(&format!(
+            "{:<12} {:>5}  {:<10}  {:<10}  {}\n",
+            c.label,
+            c.g,
+            decimal(&c.difference(), 2),
+            decimal(&c.bound, 2),
+            if c.passes() { "ok" } else { "FAILED" }
+        ));
+    }
+    let failed = checks.iter().filter(|c| !c.passes()).count();
+    out.push_str(&format!(
+        "\n{} passed, {failed} failed\n",
+        checks.len() - failed
     ));
     out
 }
