@@ -154,7 +154,7 @@ impl Series {
         Ok(Series { coeffs: out })
     }
 
-    /// ln of a series whose constant term is 1, from (ln f)' f = f'.
+    /// ln of a series whose constant term is 1.
     pub fn ln(&self) -> Result<Series> {
         if self.coeffs[0] != Exact::one() {
             return Err(Error::input(format!(
@@ -162,21 +162,11 @@ impl Series {
                 self.coeffs[0]
             )));
         }
-        let n = self.order();
-        let mut out: Vec<Exact> = vec![Exact::zero(); n + 1];
-        for k in 1..=n {
-            let mut acc = Exact::zero();
-            for (j, oj) in out.iter().enumerate().take(k).skip(1) {
-                if !oj.is_zero() && !self.coeffs[k - j].is_zero() {
-                    acc += &(oj * &self.coeffs[k - j]).scale(&Rational::from(j as i64));
-                }
-            }
-            out[k] = &self.coeffs[k] - &acc.scale(&Rational::from((1, k as i64)));
-        }
-        Ok(Series { coeffs: out })
+        let coeffs = ln_coefficients(&mut RingSeries, &self.coeffs, &mut |_, _, _| true)?;
+        Ok(Series { coeffs })
     }
 
-    /// exp of a series whose constant term is 0, from (exp f)' = f' exp f.
+    /// exp of a series whose constant term is 0.
     pub fn exp(&self) -> Result<Series> {
         if !self.coeffs[0].is_zero() {
             return Err(Error::input(format!(
@@ -184,19 +174,99 @@ impl Series {
                 self.coeffs[0]
             )));
         }
-        let n = self.order();
-        let mut out: Vec<Exact> = vec![Exact::zero(); n + 1];
-        out[0] = Exact::one();
-        for k in 1..=n {
-            let mut acc = Exact::zero();
-            for j in 1..=k {
-                if !self.coeffs[j].is_zero() && !out[k - j].is_zero() {
-                    acc += &(&self.coeffs[j] * &out[k - j]).scale(&Rational::from(j as i64));
-                }
+        Ok(Series {
+            coeffs: exp_coefficients(&mut RingSeries, &self.coeffs)?,
+        })
+    }
+}
+
+/// The arithmetic the series logarithm and exponential need from a
+/// representation of coefficients: the exact ring here, and the origin's
+/// polynomials in the logs, exact or with errors. A representation may keep
+/// state (interned monomials), hence `&mut self`.
+pub trait SeriesCoefficients {
+    type C: Clone;
+    fn zero(&mut self) -> Self::C;
+    fn one(&mut self) -> Self::C;
+    /// Structurally zero: a term that can be skipped.
+    fn is_zero(&self, c: &Self::C) -> bool;
+    /// acc += factor * a * b, with `a` the operand expected to be smaller.
+    fn add_product(
+        &mut self,
+        acc: &mut Self::C,
+        factor: &Rational,
+        a: &Self::C,
+        b: &Self::C,
+    ) -> Result<()>;
+}
+
+/// ln of a series with constant term 1 (the caller checks it), from
+/// (ln f)' f = f': L_k = f_k - (1/k) sum_{j<k} j L_j f_(k-j). `keep_going`
+/// sees each new coefficient and may stop the expansion, which then ends at
+/// that order.
+pub fn ln_coefficients<A: SeriesCoefficients>(
+    alg: &mut A,
+    f: &[A::C],
+    keep_going: &mut dyn FnMut(&mut A, usize, &A::C) -> bool,
+) -> Result<Vec<A::C>> {
+    let mut out = vec![alg.zero()];
+    for k in 1..f.len() {
+        let mut acc = f[k].clone();
+        for j in 1..k {
+            if !alg.is_zero(&out[j]) && !alg.is_zero(&f[k - j]) {
+                let factor = Rational::from((-(j as i64), k as i64));
+                alg.add_product(&mut acc, &factor, &out[j], &f[k - j])?;
             }
-            out[k] = acc.scale(&Rational::from((1, k as i64)));
         }
-        Ok(Series { coeffs: out })
+        let go_on = keep_going(alg, k, &acc);
+        out.push(acc);
+        if !go_on {
+            break;
+        }
+    }
+    Ok(out)
+}
+
+/// exp of a series with constant term 0 (the caller checks it), from
+/// (exp f)' = f' exp f: k E_k = sum_{j<=k} j f_j E_(k-j).
+pub fn exp_coefficients<A: SeriesCoefficients>(alg: &mut A, f: &[A::C]) -> Result<Vec<A::C>> {
+    let mut out = vec![alg.one()];
+    for k in 1..f.len() {
+        let mut acc = alg.zero();
+        for j in 1..=k {
+            if !alg.is_zero(&f[j]) && !alg.is_zero(&out[k - j]) {
+                let factor = Rational::from((j as i64, k as i64));
+                alg.add_product(&mut acc, &factor, &f[j], &out[k - j])?;
+            }
+        }
+        out.push(acc);
+    }
+    Ok(out)
+}
+
+/// Coefficients in the exact ring.
+struct RingSeries;
+
+impl SeriesCoefficients for RingSeries {
+    type C = Exact;
+    fn zero(&mut self) -> Exact {
+        Exact::zero()
+    }
+    fn one(&mut self) -> Exact {
+        Exact::one()
+    }
+    fn is_zero(&self, c: &Exact) -> bool {
+        c.is_zero()
+    }
+    fn add_product(
+        &mut self,
+        acc: &mut Exact,
+        factor: &Rational,
+        a: &Exact,
+        b: &Exact,
+    ) -> Result<()> {
+        *acc += &(a * b).scale(factor);
+        Ok(())
     }
 }
 

@@ -28,7 +28,7 @@ use crate::kernel::{self, MAX_LOOPS};
 use crate::numeric::working_bits;
 use crate::numeric::Estimate;
 use crate::origin::numeric::{self, needs_numbers, NumBreakdown, NumPoly, NumTerm};
-use crate::origin::{self, Breakdown, HexagonSlot, OriginLogs};
+use crate::origin::{self, Breakdown, OriginLogs};
 use crate::quantity::{Expander, Quantity};
 
 /// An origin file, read and checked: the coefficients as one series in g^2.
@@ -210,7 +210,7 @@ impl Judged {
 /// The first order that breaks exponentiation, with its offending terms.
 #[derive(Clone, Debug)]
 pub enum Broken {
-    Exact(Breakdown),
+    Exact(Breakdown<Exact>),
     /// The terms found nonzero beyond their uncertainty.
     Numeric(NumBreakdown),
 }
@@ -403,10 +403,7 @@ fn exact_readings(data: &OriginData, v: Variant, cusp: Option<&Series>) -> Resul
         .map(|r| {
             let k = r.order;
             let at = |x: &Exact| Reading::Exact(in_file(x, k, c));
-            let hexagon = match &r.hexagon {
-                HexagonSlot::Value(v) => Some(at(v)),
-                HexagonSlot::NotTestableOnLine => None,
-            };
+            let hexagon = r.hexagon.as_ref().map(at);
             (k, at(&r.octagon), hexagon, at(&r.linear), at(&r.constant))
         })
         .collect();

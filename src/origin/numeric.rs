@@ -20,17 +20,16 @@ use rug::{Float, Rational};
 
 use crate::check::judge_numbers;
 use crate::error::{Error, Result};
-use crate::exact::powerseries::Series;
+use crate::exact::powerseries::{Series, SeriesCoefficients};
 use crate::exact::ring::Exact;
 use crate::input::expr::{for_each_symbol, Expr, Node};
 use crate::input::seriesfile::Located;
 pub use crate::numeric::evaluate::needs_numbers;
 use crate::numeric::evaluate::{self, Context};
 use crate::numeric::Estimate;
-use crate::origin::{one_loop_limit, OriginLogs};
-
-/// Exponents of (l1, l2, l3); on the line only the first is used.
-pub type Exponents = [u32; 3];
+pub use crate::origin::analysis::Exponents;
+use crate::origin::analysis::{self, permutations, permuted, Analysis, LogPolynomials};
+use crate::origin::{one_loop_limit, OrderReading, OriginLogs};
 
 /// The highest power of a log a numerical coefficient may reach; far beyond
 /// any bootstrap output (degree 2L), and it keeps products from overflowing.
@@ -275,18 +274,6 @@ impl Reader<'_> {
     }
 }
 
-/// What one order of ln E says, once it has passed the exponentiation
-/// check; the numerical counterpart of [`crate::origin::OrderReading`].
-#[derive(Clone, Debug)]
-pub struct NumReading {
-    pub order: usize,
-    pub octagon: Estimate,
-    /// None on the line u1 = u2 = u3, where it cannot be read.
-    pub hexagon: Option<Estimate>,
-    pub linear: Estimate,
-    pub constant: Estimate,
-}
-
 /// A term of ln E that should vanish and does not.
 #[derive(Clone, Debug)]
 pub struct NumTerm {
@@ -307,8 +294,130 @@ pub struct NumBreakdown {
 pub struct NumAnalysis {
     /// ln E through the last order examined.
     pub ln_e: Vec<NumPoly>,
-    pub orders: Vec<NumReading>,
+    pub orders: Vec<OrderReading<Estimate>>,
     pub broken: Option<NumBreakdown>,
+}
+
+impl NumAnalysis {
+    fn from(a: Analysis<NumPoly, Estimate>) -> Self {
+        let terms = |p: &NumPoly| -> Vec<NumTerm> {
+            p.terms
+                .iter()
+                .map(|(e, c)| NumTerm {
+                    exponents: *e,
+                    coefficient: c.clone(),
+                })
+                .collect()
+        };
+        NumAnalysis {
+            broken: a.broken.map(|b| NumBreakdown {
+                order: b.order,
+                high_degree: terms(&b.high_degree),
+                asymmetric: terms(&b.asymmetric),
+            }),
+            ln_e: a.ln_e,
+            orders: a.orders,
+        }
+    }
+}
+
+/// Numerical polynomials at one precision, with the verdicts on vanishing
+/// terms taken at `digits`.
+struct Numbers {
+    prec: u32,
+    digits: u32,
+}
+
+impl SeriesCoefficients for Numbers {
+    type C = NumPoly;
+    fn zero(&mut self) -> NumPoly {
+        NumPoly::zero(self.prec)
+    }
+    fn one(&mut self) -> NumPoly {
+        NumPoly::constant(Estimate::exact(Float::with_val(self.prec, 1)))
+    }
+    fn is_zero(&self, c: &NumPoly) -> bool {
+        c.terms.is_empty()
+    }
+    fn add_product(
+        &mut self,
+        acc: &mut NumPoly,
+        factor: &Rational,
+        a: &NumPoly,
+        b: &NumPoly,
+    ) -> Result<()> {
+        let term = a.mul(b)?.scale(&Float::with_val(self.prec, factor));
+        *acc = acc.add(&term);
+        Ok(())
+    }
+}
+
+impl LogPolynomials for Numbers {
+    type Value = Estimate;
+    fn split_at_quadratic(&self, p: &NumPoly) -> (NumPoly, NumPoly) {
+        let (low, high) = p
+            .terms
+            .iter()
+            .map(|(e, c)| (*e, c.clone()))
+            .partition(|(e, _)| e.iter().sum::<u32>() <= 2);
+        (
+            NumPoly {
+                prec: p.prec,
+                terms: low,
+            },
+            NumPoly {
+                prec: p.prec,
+                terms: high,
+            },
+        )
+    }
+    /// At e this is (1/6) sum over the permutations that move e of
+    /// (c_e - c_(sigma e)), whose worst-case error is (1/6) sum of
+    /// (u_e + u_(sigma e)).
+    fn asymmetric_part(&self, c: &NumPoly) -> NumPoly {
+        let support: BTreeSet<Exponents> = c
+            .terms
+            .keys()
+            .flat_map(|&e| permutations().map(move |p| permuted(e, p)))
+            .collect();
+        let sixth = Float::with_val(c.prec, Rational::from((1, 6)));
+        let mut out = NumPoly::zero(c.prec);
+        for e in support {
+            let ce = c.coefficient(e);
+            let mut acc = zero(c.prec);
+            for perm in permutations() {
+                let moved = permuted(e, perm);
+                if moved != e {
+                    acc = acc.sum(&ce.difference(&c.coefficient(moved)));
+                }
+            }
+            let part = acc.scaled(&sixth);
+            if !(part.value.is_zero() && part.error.is_zero()) {
+                out.terms.insert(e, part);
+            }
+        }
+        out
+    }
+    fn significant(&self, p: &NumPoly) -> NumPoly {
+        let nought = Float::with_val(self.prec, 0);
+        NumPoly {
+            prec: p.prec,
+            terms: p
+                .terms
+                .iter()
+                .filter(|(_, a)| judge_numbers(a, &nought, None, self.digits).differs())
+                .map(|(e, a)| (*e, a.clone()))
+                .collect(),
+        }
+    }
+    fn coefficient(&self, p: &NumPoly, e: Exponents) -> Estimate {
+        p.coefficient(e)
+    }
+    fn combination(&self, terms: &[(Rational, &Estimate)]) -> Estimate {
+        terms.iter().fold(zero(self.prec), |acc, (r, v)| {
+            acc.sum(&v.scaled(&Float::with_val(self.prec, r)))
+        })
+    }
 }
 
 /// Reads a series of E (constant term 1) with numerical coefficients;
@@ -322,42 +431,15 @@ pub fn analyse_e(e: &[NumPoly], logs: &OriginLogs, digits: u32) -> Result<NumAna
             "a series of E must start with exactly 1 at g^0",
         ));
     }
-    let mut ln: Vec<NumPoly> = vec![NumPoly::zero(e[0].prec)];
-    let mut orders = Vec::new();
-    for k in 1..e.len() {
-        let acc = ln_order(&ln, e, k)?;
-        let (reading, breakdown) = examine(k, &acc, logs, digits);
-        ln.push(acc);
-        match breakdown {
-            Some(b) => {
-                return Ok(NumAnalysis {
-                    ln_e: ln,
-                    orders,
-                    broken: Some(b),
-                })
-            }
-            None => orders.extend(reading),
-        }
-    }
-    Ok(NumAnalysis {
-        ln_e: ln,
-        orders,
-        broken: None,
-    })
-}
-
-/// Order k of ln E from the orders below it: with L = ln E, E' = E L' gives
-/// k L_k = k E_k - sum_{j<k} j L_j E_(k-j).
-fn ln_order(ln: &[NumPoly], e: &[NumPoly], k: usize) -> Result<NumPoly> {
-    let mut acc = e[k].clone();
-    for j in 1..k {
-        let term = ln[j].mul(&e[k - j])?.scale(&Float::with_val(
-            e[k].prec,
-            Rational::from((j as i64, k as i64)),
-        ));
-        acc = acc.add(&term.neg());
-    }
-    Ok(acc)
+    let mut numbers = Numbers {
+        prec: e[0].prec,
+        digits,
+    };
+    Ok(NumAnalysis::from(analysis::analyse_e(
+        &mut numbers,
+        e,
+        logs,
+    )?))
 }
 
 /// Reads a series of R6 with numerical coefficients: ln E = R6 +
@@ -379,155 +461,16 @@ pub fn analyse_r6(
     let prec = r6.first().map_or(64, |c| c.prec);
     let e1 = one_loop_limit(logs).scale(&Rational::from((1, 4)));
     let mut ln = vec![NumPoly::zero(prec)];
-    let mut orders = Vec::new();
     for (k, c) in r6.iter().enumerate().skip(1) {
         let ansatz = NumPoly::from_exact(&(gamma_cusp.coeff(k) * &e1), logs, prec)?;
-        let l = c.add(&ansatz);
-        let (reading, breakdown) = examine(k, &l, logs, digits);
-        ln.push(l);
-        match breakdown {
-            Some(b) => {
-                return Ok(NumAnalysis {
-                    ln_e: ln,
-                    orders,
-                    broken: Some(b),
-                })
-            }
-            None => orders.extend(reading),
-        }
+        ln.push(c.add(&ansatz));
     }
-    Ok(NumAnalysis {
-        ln_e: ln,
-        orders,
-        broken: None,
-    })
-}
-
-const PERMS: [[usize; 3]; 6] = [
-    [0, 1, 2],
-    [0, 2, 1],
-    [1, 0, 2],
-    [1, 2, 0],
-    [2, 0, 1],
-    [2, 1, 0],
-];
-
-fn permuted(e: Exponents, perm: [usize; 3]) -> Exponents {
-    [e[perm[0]], e[perm[1]], e[perm[2]]]
-}
-
-/// The mean of the coefficients over the orbit of `e` under permutations of
-/// the logs (three distinct monomials for the shapes read here).
-fn orbit_mean(c: &NumPoly, e: Exponents) -> Estimate {
-    let orbit: BTreeSet<Exponents> = PERMS.iter().map(|&p| permuted(e, p)).collect();
-    let n = Float::with_val(c.prec, orbit.len() as u32);
-    let total = orbit
-        .iter()
-        .fold(zero(c.prec), |acc, &m| acc.sum(&c.coefficient(m)));
-    Estimate {
-        value: Float::with_val(c.prec, &total.value / &n),
-        error: Float::with_val(c.prec, &total.error / &n),
-        ..total
-    }
-}
-
-/// The exponentiation check and the readings of one order of ln E.
-fn examine(
-    k: usize,
-    c: &NumPoly,
-    logs: &OriginLogs,
-    digits: u32,
-) -> (Option<NumReading>, Option<NumBreakdown>) {
-    let nought = Float::with_val(c.prec, 0);
-    let nonzero = |a: &Estimate| judge_numbers(a, &nought, None, digits).differs();
-    let high_degree: Vec<NumTerm> = c
-        .terms
-        .iter()
-        .filter(|(e, a)| e.iter().sum::<u32>() > 2 && nonzero(a))
-        .map(|(e, a)| NumTerm {
-            exponents: *e,
-            coefficient: a.clone(),
-        })
-        .collect();
-    let asymmetric = match logs {
-        OriginLogs::Three(_) => asymmetric_part(c)
-            .into_iter()
-            .filter(|t| nonzero(&t.coefficient))
-            .collect(),
-        OriginLogs::Line(_) => Vec::new(),
-    };
-    if !high_degree.is_empty() || !asymmetric.is_empty() {
-        return (
-            None,
-            Some(NumBreakdown {
-                order: k,
-                high_degree,
-                asymmetric,
-            }),
-        );
-    }
-    let constant = c.coefficient([0, 0, 0]);
-    let third = Float::with_val(c.prec, Rational::from((1, 3)));
-    let reading = match logs {
-        OriginLogs::Three(_) => {
-            // alpha = (A + B)/3 and beta = (2A - B)/6, as in
-            // crate::origin::quadratic_to_alpha_beta, from the symmetric means.
-            let a = orbit_mean(c, [2, 0, 0]);
-            let b = orbit_mean(c, [1, 1, 0]);
-            let sixth = Float::with_val(c.prec, Rational::from((1, 6)));
-            let two = Float::with_val(c.prec, 2);
-            NumReading {
-                order: k,
-                octagon: a.sum(&b).scaled(&third),
-                hexagon: Some(a.scaled(&two).difference(&b).scaled(&sixth)),
-                linear: orbit_mean(c, [1, 0, 0]),
-                constant,
-            }
-        }
-        // On the line (sum l)^2 = 9 l^2 and l1 + l2 + l3 = 3 l.
-        OriginLogs::Line(_) => NumReading {
-            order: k,
-            octagon: c
-                .coefficient([2, 0, 0])
-                .scaled(&Float::with_val(c.prec, Rational::from((1, 9)))),
-            hexagon: None,
-            linear: c.coefficient([1, 0, 0]).scaled(&third),
-            constant,
-        },
-    };
-    (Some(reading), None)
-}
-
-/// p - (1/6) sum over the six permutations, on the part of degree <= 2:
-/// at e this is (1/6) sum over the permutations that move e of (c_e - c_(sigma e)),
-/// whose worst-case uncertainty is (1/6) sum of (u_e + u_(sigma e)).
-fn asymmetric_part(c: &NumPoly) -> Vec<NumTerm> {
-    let support: BTreeSet<Exponents> = c
-        .terms
-        .keys()
-        .filter(|e| e.iter().sum::<u32>() <= 2)
-        .flat_map(|&e| PERMS.iter().map(move |&p| permuted(e, p)))
-        .collect();
-    let sixth = Float::with_val(c.prec, Rational::from((1, 6)));
-    let mut out = Vec::new();
-    for e in support {
-        let ce = c.coefficient(e);
-        let mut acc = zero(c.prec);
-        for perm in PERMS {
-            let moved = permuted(e, perm);
-            if moved != e {
-                acc = acc.sum(&ce.difference(&c.coefficient(moved)));
-            }
-        }
-        let part = acc.scaled(&sixth);
-        if !(part.value.is_zero() && part.error.is_zero()) {
-            out.push(NumTerm {
-                exponents: e,
-                coefficient: part,
-            });
-        }
-    }
-    out
+    let mut numbers = Numbers { prec, digits };
+    Ok(NumAnalysis::from(analysis::analyse_ln(
+        &mut numbers,
+        ln,
+        logs,
+    )))
 }
 
 /// A monomial in the logs as text: `l1^2*l2`, `1` for the constant.
@@ -642,10 +585,7 @@ mod tests {
             .iter()
             .map(|c| NumPoly::from_exact(c, &line, PREC).unwrap())
             .collect();
-        let mut ln = vec![NumPoly::zero(PREC)];
-        for k in 1..=3 {
-            ln.push(ln_order(&ln, &nums, k).unwrap());
-        }
+        let ln = analyse_e(&nums[..=3], &line, 30).unwrap().ln_e;
         let exact_ln = e.ln().unwrap();
         for (k, computed) in ln.iter().enumerate().skip(1) {
             let want = NumPoly::from_exact(exact_ln.coeff(k), &line, PREC).unwrap();
@@ -669,7 +609,19 @@ mod tests {
             PREC,
         )
         .unwrap();
-        assert!(examine(1, &p, &logs, 30).1.is_none());
+        let examine = |p: NumPoly| {
+            let mut numbers = Numbers {
+                prec: PREC,
+                digits: 30,
+            };
+            NumAnalysis::from(analysis::analyse_ln(
+                &mut numbers,
+                vec![NumPoly::zero(PREC), p],
+                &logs,
+            ))
+            .broken
+        };
+        assert!(examine(p).is_none());
         let p = read_polynomial(
             &located("1.00(1)*l1^2 + 1.10(1)*l2^2 + 1.00(1)*l3^2"),
             "<test>",
@@ -677,7 +629,7 @@ mod tests {
             PREC,
         )
         .unwrap();
-        let b = examine(1, &p, &logs, 30).1.unwrap();
+        let b = examine(p).unwrap();
         assert!(b.high_degree.is_empty());
         // At l2^2: (1/6)(4 (1.10 - 1.00)) = 0.0667 with (1/6)(4 * 0.02) = 0.0133.
         let t = b
