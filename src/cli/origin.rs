@@ -5,12 +5,12 @@ use std::path::PathBuf;
 
 use clap::Args as ClapArgs;
 
+use loopwise::fit::file::{fit_file, parse_basis};
 use loopwise::fit::{default_basis, Solution};
 use loopwise::input::catalogue::Catalogue;
 use loopwise::input::seriesfile::{parse_series_text, read_input};
-use loopwise::origin::check::{
-    check_origin, fit_file, parse_basis, parse_origin_text, read_origin_file, OriginData,
-};
+use loopwise::origin::check::check_origin;
+use loopwise::origin::read::{parse_origin_text, read_origin_file, OriginData};
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
 use loopwise::Result;
 
@@ -93,7 +93,7 @@ pub fn fit(args: &FitArgs, catalogue: &Catalogue) -> Result<Outcome> {
     let r = fit_file(&file, elements, args.ceiling, catalogue)?;
     emit(&fit_report::render(&r, args.format.into())?)?;
     Ok(match r.fit.solution {
-        Solution::None(_) => Outcome::Differs,
+        Solution::Inconsistent(_) => Outcome::Differs,
         _ => Outcome::Done,
     })
 }

@@ -20,6 +20,9 @@
 //!   below it: the first order from which every solution has a_k = 0 (the
 //!   order that rules the element out), and whether a_k can still be nonzero.
 
+pub mod file;
+mod linear;
+
 use std::collections::BTreeSet;
 
 use rug::Rational;
@@ -30,6 +33,7 @@ use crate::exact::ring::{Exact, Monomial};
 use crate::input::catalogue::Catalogue;
 use crate::kernel;
 use crate::quantity::{Expander, Quantity, Scope};
+use linear::{reduce, Reduced};
 
 /// One named basis series, given by a formula in the coefficient language.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -163,7 +167,7 @@ pub enum Solution {
         null_space: Vec<Vec<Rational>>,
     },
     /// No combination fits.
-    None(Inconsistency),
+    Inconsistent(Inconsistency),
 }
 
 /// Where a fit fails (see the module documentation for the definitions).
@@ -214,7 +218,7 @@ pub fn solve(target: &[(u32, Exact)], basis: &[Series]) -> Result<Solution> {
                                 can_appear: !forced[k],
                             })
                             .collect();
-                        return Ok(Solution::None(Inconsistency {
+                        return Ok(Solution::Inconsistent(Inconsistency {
                             first_inconsistent_order: order,
                             elements,
                         }));
@@ -357,95 +361,6 @@ fn equations(target: &[(u32, Exact)], basis: &[Series], orders: &[u32]) -> Vec<V
         }
     }
     rows
-}
-
-/// A consistent system in reduced row echelon form.
-struct Reduced {
-    /// Rows with a leading 1 in column pivots[i]; the last entry is the right-hand side.
-    rows: Vec<Vec<Rational>>,
-    pivots: Vec<usize>,
-    unknowns: usize,
-}
-
-/// Gauss-Jordan elimination; None when the system is inconsistent.
-fn reduce(mut rows: Vec<Vec<Rational>>, unknowns: usize) -> Option<Reduced> {
-    let mut pivots = Vec::new();
-    let mut r = 0;
-    for col in 0..unknowns {
-        let Some(p) = (r..rows.len()).find(|&i| rows[i][col] != 0) else {
-            continue;
-        };
-        rows.swap(r, p);
-        let inv = Rational::from(rows[r][col].recip_ref());
-        for x in rows[r].iter_mut() {
-            *x *= &inv;
-        }
-        let pivot_row = rows[r].clone();
-        for (i, row) in rows.iter_mut().enumerate() {
-            if i != r && row[col] != 0 {
-                let f = row[col].clone();
-                for (x, y) in row.iter_mut().zip(&pivot_row) {
-                    *x -= Rational::from(&f * y);
-                }
-            }
-        }
-        pivots.push(col);
-        r += 1;
-    }
-    if rows[r..].iter().any(|row| row[unknowns] != 0) {
-        return None;
-    }
-    rows.truncate(r);
-    Some(Reduced {
-        rows,
-        pivots,
-        unknowns,
-    })
-}
-
-impl Reduced {
-    fn particular(&self) -> Vec<Rational> {
-        let mut a = vec![Rational::new(); self.unknowns];
-        for (row, &p) in self.rows.iter().zip(&self.pivots) {
-            a[p] = row[self.unknowns].clone();
-        }
-        a
-    }
-
-    fn null_space(&self) -> Vec<Vec<Rational>> {
-        (0..self.unknowns)
-            .filter(|c| !self.pivots.contains(c))
-            .map(|free| {
-                let mut v = vec![Rational::new(); self.unknowns];
-                v[free] = Rational::from(1);
-                for (row, &p) in self.rows.iter().zip(&self.pivots) {
-                    v[p] = Rational::from(-&row[free]);
-                }
-                v
-            })
-            .collect()
-    }
-
-    fn solution(&self) -> Solution {
-        let null_space = self.null_space();
-        if null_space.is_empty() {
-            Solution::Unique(self.particular())
-        } else {
-            Solution::Family {
-                particular: self.particular(),
-                null_space,
-            }
-        }
-    }
-
-    /// Whether each a_k is zero in every solution.
-    fn forced_zero(&self) -> Vec<bool> {
-        let p = self.particular();
-        let null = self.null_space();
-        (0..self.unknowns)
-            .map(|k| p[k] == 0 && null.iter().all(|v| v[k] == 0))
-            .collect()
-    }
 }
 
 #[cfg(test)]
@@ -679,7 +594,7 @@ mod tests {
             &Catalogue::builtin().unwrap(),
         )
         .unwrap();
-        let Solution::None(bad) = &f.solution else {
+        let Solution::Inconsistent(bad) = &f.solution else {
             panic!("{:?}", f.solution)
         };
         assert_eq!(bad.first_inconsistent_order, 1);
@@ -698,7 +613,7 @@ mod tests {
             &Catalogue::builtin().unwrap(),
         )
         .unwrap();
-        let Solution::None(bad) = &f.solution else {
+        let Solution::Inconsistent(bad) = &f.solution else {
             panic!("{:?}", f.solution)
         };
         assert_eq!(bad.first_inconsistent_order, 2);

@@ -15,6 +15,7 @@ pub mod analysis;
 pub mod check;
 pub mod numeric;
 mod packed;
+pub mod read;
 
 use rug::Rational;
 

@@ -8,8 +8,8 @@ use serde::Serialize;
 
 use super::Format;
 use crate::error::{Error, Result};
+use crate::fit::file::FitReport;
 use crate::fit::{Fixing, Solution};
-use crate::origin::check::FitReport;
 
 /// The caution every fit report carries.
 pub const CAUTION: &str = "CAUTION: a fit turns data into a conjecture, not a derivation. A combination \
@@ -139,7 +139,7 @@ fn json(r: &FitReport) -> JsonReport {
                 },
             });
         }
-        Solution::None(bad) => {
+        Solution::Inconsistent(bad) => {
             out.first_inconsistent_order = Some(bad.first_inconsistent_order);
             out.elements = r
                 .fit
@@ -225,7 +225,7 @@ fn text(r: &FitReport) -> String {
                 None => {}
             }
         }
-        Solution::None(bad) => {
+        Solution::Inconsistent(bad) => {
             let n = bad.first_inconsistent_order;
             let below: Vec<u32> = r.orders.iter().copied().filter(|&l| l < n).collect();
             if below.is_empty() {

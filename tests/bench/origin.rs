@@ -13,10 +13,12 @@ use std::time::Instant;
 use loopwise::exact::powerseries::Series;
 use loopwise::exact::ring::Exact;
 use loopwise::exact::ring::{EvenStyle, Notation};
+use loopwise::fit::file::fit_file;
 use loopwise::fit::{default_basis, fit, Solution};
 use loopwise::input::catalogue::Catalogue;
 use loopwise::input::seriesfile::parse_series_text;
-use loopwise::origin::check::{check_origin, fit_file, parse_origin_text};
+use loopwise::origin::check::check_origin;
+use loopwise::origin::read::parse_origin_text;
 use loopwise::origin::{analyse_e, predicted_log_coefficients, r6_to_e, OriginLogs};
 use loopwise::quantity::Quantity;
 use loopwise::report::{fit as fit_report, origin as origin_report, Format};
@@ -85,7 +87,7 @@ fn main() {
     let kind = match &f.solution {
         Solution::Unique(_) => "unique".to_string(),
         Solution::Family { null_space, .. } => format!("family, {} free", null_space.len()),
-        Solution::None(_) => "no fit".to_string(),
+        Solution::Inconsistent(_) => "no fit".to_string(),
     };
     if let Solution::Unique(a) = &f.solution {
         let expected = [
