@@ -2,7 +2,7 @@
 //! and the tree they give, which inputs are rejected and what the message
 //! says, and that printing then parsing gives back the same tree.
 
-use loopwise::input::expr::{parse, Angle, Expr, FunctionalKind, Node};
+use loopwise::input::expr::{parse, Angle, Expr, Functional, Node};
 use rug::ops::Pow;
 use rug::{Integer, Rational};
 
@@ -113,14 +113,14 @@ fn nodes_of_simple_inputs() {
     assert_eq!(p("L1").node, Node::Symbol("L1".into()));
     match p("Gamma(pi/4)").node {
         Node::Functional {
-            kind: FunctionalKind::Gamma,
+            kind: Functional::Gamma,
             angle: Angle::Radians(a),
         } => assert_eq!(*a, p("pi/4")),
         other => panic!("{other:?}"),
     }
     match p("Delta(c2=1/3)").node {
         Node::Functional {
-            kind: FunctionalKind::Delta,
+            kind: Functional::Delta,
             angle: Angle::Cos2(a),
         } => assert_eq!(*a, p("1/3")),
         other => panic!("{other:?}"),
@@ -128,14 +128,14 @@ fn nodes_of_simple_inputs() {
     assert_eq!(
         p("Gamma(c2)").node,
         Node::Functional {
-            kind: FunctionalKind::Gamma,
+            kind: Functional::Gamma,
             angle: Angle::SymbolicCos2
         }
     );
     assert_eq!(
         p("Gamma[C2]").node,
         Node::Functional {
-            kind: FunctionalKind::Gamma,
+            kind: Functional::Gamma,
             angle: Angle::SymbolicCos2
         }
     );

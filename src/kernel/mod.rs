@@ -31,21 +31,7 @@ pub const C2: &str = "c2";
 /// and 2 GiB on two cores, and the cost grows about tenfold every ten loops.
 pub const MAX_LOOPS: u32 = 50;
 
-/// Which functional of the kernel.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
-pub enum Functional {
-    Gamma,
-    Delta,
-}
-
-impl Functional {
-    pub fn name(self) -> &'static str {
-        match self {
-            Functional::Gamma => "Gamma",
-            Functional::Delta => "Delta",
-        }
-    }
-}
+pub use crate::input::expr::Functional;
 
 fn check_loops(loops: u32) -> Result<()> {
     if loops == 0 || loops > MAX_LOOPS {

@@ -15,11 +15,11 @@ use rug::{Float, Integer, Rational};
 use crate::error::{Error, Result};
 use crate::input::catalogue::Catalogue;
 use crate::input::expr;
-use crate::input::expr::{Angle, Expr, FunctionalKind, Node};
+use crate::input::expr::{Angle, Expr, Functional, Node};
 use crate::numeric::Estimate;
 
 /// Values of the functionals at the context's coupling.
-pub type FunctionalValues<'a> = &'a mut dyn FnMut(FunctionalKind, &Angle) -> Result<Estimate>;
+pub type FunctionalValues<'a> = &'a mut dyn FnMut(Functional, &Angle) -> Result<Estimate>;
 
 /// Multiple zeta values (arguments, precision in bits).
 pub type MzvValues<'a> = &'a dyn Fn(&[u32], u32) -> Result<Float>;

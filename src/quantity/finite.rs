@@ -10,8 +10,8 @@ use rug::Float;
 
 use crate::error::{Error, Result};
 use crate::exact::powerseries::Series;
-use crate::input::expr::{self, Angle, Expr, FunctionalKind, Node};
-use crate::kernel::Functional;
+use crate::input::expr::{self, Angle, Expr, Functional, Node};
+
 use crate::numeric::convergence::{self, Pade, RadiusEstimate};
 use crate::numeric::evaluate::{self, Context};
 use crate::numeric::Estimate;
@@ -55,10 +55,7 @@ fn functionals(q: &Quantity, prec: u32) -> Result<Vec<(Functional, Angle, Float)
     let mut found = Vec::new();
     collect(&q.expr, &mut found);
     for (kind, angle) in found {
-        let f = match kind {
-            FunctionalKind::Gamma => Functional::Gamma,
-            FunctionalKind::Delta => Functional::Delta,
-        };
+        let f = kind;
         if !out.iter().any(|(g, a, _)| *g == f && *a == angle) {
             let c2 = cos2_of(&angle, q, prec)?;
             out.push((f, angle, c2));
@@ -67,7 +64,7 @@ fn functionals(q: &Quantity, prec: u32) -> Result<Vec<(Functional, Angle, Float)
     Ok(out)
 }
 
-fn collect(e: &Expr, out: &mut Vec<(FunctionalKind, Angle)>) {
+fn collect(e: &Expr, out: &mut Vec<(Functional, Angle)>) {
     match &e.node {
         Node::Functional { kind, angle } => out.push((*kind, angle.clone())),
         Node::Log(a) | Node::Neg(a) => collect(a, out),
@@ -113,11 +110,8 @@ pub fn values(
     for (i, g) in couplings.iter().enumerate() {
         let lookup: HashMap<usize, &Estimate> =
             (0..parts.len()).map(|k| (k, &tables[k][i])).collect();
-        let mut callback = |kind: FunctionalKind, angle: &Angle| -> Result<Estimate> {
-            let f = match kind {
-                FunctionalKind::Gamma => Functional::Gamma,
-                FunctionalKind::Delta => Functional::Delta,
-            };
+        let mut callback = |kind: Functional, angle: &Angle| -> Result<Estimate> {
+            let f = kind;
             let k = parts
                 .iter()
                 .position(|(g, a, _)| *g == f && a == angle)

@@ -18,10 +18,10 @@ use crate::exact::coupling::Coupling;
 use crate::exact::powerseries::Series;
 use crate::exact::ring::{Exact, Monomial};
 use crate::input::catalogue::{looks_like_name, Catalogue, Entry, Status};
-use crate::input::expr::{self, Angle, Expr, FunctionalKind, Node, Site, Span};
+use crate::input::expr::{self, Angle, Expr, Functional, Node, Site, Span};
 use crate::input::seriesfile::SeriesFile;
 use crate::input::suggest::did_you_mean;
-use crate::kernel::{self, Functional, Tilt};
+use crate::kernel::{self, Tilt};
 
 /// The name of the coupling in formulas.
 pub const COUPLING: &str = "g";
@@ -385,10 +385,7 @@ impl Expander<'_> {
             Node::Symbol(name) => self.constant(Exact::symbol(name)),
             Node::Functional { kind, angle } => {
                 let tilt = self.tilt(angle, e.span)?;
-                let f = match kind {
-                    FunctionalKind::Gamma => Functional::Gamma,
-                    FunctionalKind::Delta => Functional::Delta,
-                };
+                let f = *kind;
                 self.functional(f, tilt)?
             }
             Node::Neg(a) => -&self.series(a)?,

@@ -81,7 +81,7 @@ pub enum Node {
     /// Kinematic symbols and the coupling `g`.
     Symbol(String),
     Functional {
-        kind: FunctionalKind,
+        kind: Functional,
         angle: Angle,
     },
     Neg(Box<Expr>),
@@ -92,10 +92,23 @@ pub enum Node {
     Pow(Box<Expr>, Box<Expr>),
 }
 
+/// Which functional of the tilted kernel: Gamma = 4 g^2 [(1+K)^(-1)]_11 or
+/// Delta = ln det(1+K) (docs/conventions.md section 3). Named here, where
+/// the language first meets it; the engines in [`crate::kernel`] and
+/// [`crate::numeric`] compute it.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
-pub enum FunctionalKind {
+pub enum Functional {
     Gamma,
     Delta,
+}
+
+impl Functional {
+    pub fn name(self) -> &'static str {
+        match self {
+            Functional::Gamma => "Gamma",
+            Functional::Delta => "Delta",
+        }
+    }
 }
 
 /// How the argument of `Gamma(...)` / `Delta(...)` was given.
@@ -251,10 +264,7 @@ impl fmt::Display for Expr {
             Node::Log(inner) => write!(f, "log({inner})"),
             Node::Symbol(name) => f.write_str(name),
             Node::Functional { kind, angle } => {
-                let name = match kind {
-                    FunctionalKind::Gamma => "Gamma",
-                    FunctionalKind::Delta => "Delta",
-                };
+                let name = kind.name();
                 match angle {
                     // A radian angle that is the bare symbol `c2` needs brackets,
                     // or it would read back as the symbolic squared cosine.

@@ -14,7 +14,7 @@ use pest::Parser;
 use rug::{Integer, Rational};
 
 use super::site::render;
-use super::{Angle, Expr, FunctionalKind, Node, Span};
+use super::{Angle, Expr, Functional, Node, Span};
 use crate::error::{ErrorKind, Result};
 
 mod literal;
@@ -470,13 +470,13 @@ fn inner_expr<'i>(ctx: &Ctx<'_>, p: Pair<'i, Rule>, span: Span) -> Fallible<Pair
 }
 
 fn functional(ctx: &Ctx<'_>, p: Pair<'_, Rule>, span: Span) -> Fallible<Built> {
-    let mut kind = FunctionalKind::Gamma;
+    let mut kind = Functional::Gamma;
     let mut angle = None;
     let mut depth = 1;
     for q in p.into_inner() {
         match q.as_rule() {
-            Rule::gamma_name => kind = FunctionalKind::Gamma,
-            Rule::delta_name => kind = FunctionalKind::Delta,
+            Rule::gamma_name => kind = Functional::Gamma,
+            Rule::delta_name => kind = Functional::Delta,
             Rule::cos2_symbolic => angle = Some(Angle::SymbolicCos2),
             Rule::cos2_value => {
                 let qs = span_of(&q);
