@@ -8,8 +8,8 @@ use clap::{Args as ClapArgs, ValueEnum};
 use loopwise::check;
 use loopwise::input::catalogue::Catalogue;
 use loopwise::input::seriesfile::{parse_series_text, read_series_file, SeriesFile, STDIN_NAME};
-use loopwise::report::check::{render, render_unusable};
-use loopwise::report::Format;
+use loopwise::report::check::{joined, render, render_unusable};
+use loopwise::report::DataFormat;
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
@@ -75,7 +75,7 @@ fn display_name(path: &Path) -> String {
 
 pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     in_range("--digits", args.digits, 6, MAX_DIGITS)?;
-    let format: Format = args.format.into();
+    let format: DataFormat = args.format.into();
     if args.files.iter().filter(|p| p.as_os_str() == "-").count() > 1 {
         return Err(Error::input(
             "`-` (standard input) is given more than once; it can be read only once",
@@ -109,19 +109,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
             }
         });
     }
-    let text = match format {
-        Format::Json => format!(
-            "[\n{}]\n",
-            parts
-                .iter()
-                .map(|p| p.trim_end().to_string())
-                .collect::<Vec<_>>()
-                .join(",\n")
-        ),
-        Format::Yaml => parts.iter().map(|p| format!("---\n{p}")).collect(),
-        _ => parts.join("\n"),
-    };
-    emit(&text)?;
+    emit(&joined(&parts, format))?;
     Ok(if results.iter().any(|(_, r)| r.is_err()) {
         Outcome::Unusable
     } else if results

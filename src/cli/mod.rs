@@ -19,7 +19,7 @@ use clap::{Parser, Subcommand, ValueEnum};
 use loopwise::exact::coupling::Coupling;
 use loopwise::exact::ring::EvenStyle;
 use loopwise::input::catalogue::Catalogue;
-use loopwise::report::Format;
+use loopwise::report::{DataFormat, Format};
 use loopwise::{Error, ErrorKind, Result};
 
 /// Exact and finite-coupling predictions for planar N=4 super-Yang-Mills loop
@@ -92,12 +92,12 @@ pub enum DataFormatArg {
     Yaml,
 }
 
-impl From<DataFormatArg> for Format {
+impl From<DataFormatArg> for DataFormat {
     fn from(f: DataFormatArg) -> Self {
         match f {
-            DataFormatArg::Text => Format::Text,
-            DataFormatArg::Json => Format::Json,
-            DataFormatArg::Yaml => Format::Yaml,
+            DataFormatArg::Text => DataFormat::Text,
+            DataFormatArg::Json => DataFormat::Json,
+            DataFormatArg::Yaml => DataFormat::Yaml,
         }
     }
 }

@@ -11,7 +11,7 @@ use loopwise::input::catalogue::Catalogue;
 use loopwise::input::seriesfile::{parse_series_text, read_input};
 use loopwise::origin::check::check_origin;
 use loopwise::origin::read::{parse_origin_text, read_origin_file, OriginData};
-use loopwise::report::{fit as fit_report, origin as origin_report, Format};
+use loopwise::report::{fit as fit_report, origin as origin_report, DataFormat};
 use loopwise::Result;
 
 use super::check::MAX_DIGITS;
@@ -63,7 +63,7 @@ pub struct FitArgs {
 fn report(
     data: &OriginData,
     catalogue: &Catalogue,
-    format: Format,
+    format: DataFormat,
     even: EvenArg,
     digits: u32,
 ) -> Result<(String, bool)> {

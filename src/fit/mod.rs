@@ -263,19 +263,19 @@ pub fn fit(
     ceiling: u32,
     catalogue: &Catalogue,
 ) -> Result<Fit> {
-    let top = target
+    let highest = target
         .iter()
         .map(|(l, _)| *l)
         .max()
         .ok_or_else(|| Error::input("nothing to fit: no orders given"))?;
-    let depth = top.max(ceiling.min(kernel::MAX_LOOPS)).max(1);
+    let depth = highest.max(ceiling.min(kernel::MAX_LOOPS)).max(1);
     let basis = expand_basis(elements, depth, catalogue)?;
     let solution = solve(target, &basis.series)?;
     let fixing = match &solution {
         Solution::Family { null_space, .. } => Some(fixing_order(
             target,
             &basis.series,
-            top,
+            highest,
             depth,
             null_space.len(),
         )?),
@@ -292,14 +292,14 @@ pub fn fit(
 fn fixing_order(
     target: &[(u32, Exact)],
     series: &[Series],
-    top: u32,
+    highest: u32,
     depth: u32,
     free_now: usize,
 ) -> Result<Fixing> {
     let supplied: BTreeSet<u32> = target.iter().map(|(l, _)| *l).collect();
     let n = series.len();
     let mut free = free_now;
-    for l in (top + 1)..=depth {
+    for l in (highest + 1)..=depth {
         let orders: Vec<u32> = supplied
             .iter()
             .copied()
@@ -331,12 +331,12 @@ fn check_orders(target: &[(u32, Exact)], basis: &[Series]) -> Result<Vec<u32>> {
     if let Some(w) = orders.windows(2).find(|w| w[0] == w[1]) {
         return Err(Error::input(format!("loop order {} is given twice", w[0])));
     }
-    let top = orders.last().copied().unwrap_or(0) as usize;
-    if let Some(b) = basis.iter().find(|b| b.order() < top) {
+    let highest = orders.last().copied().unwrap_or(0) as usize;
+    if let Some(b) = basis.iter().find(|b| b.order() < highest) {
         return Err(Error::range(format!(
             "a basis series is known through g^{} only, the data reach g^{}",
             2 * b.order(),
-            2 * top
+            2 * highest
         )));
     }
     Ok(orders)

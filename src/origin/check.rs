@@ -380,14 +380,14 @@ struct Predictions {
 /// differs, tests the slips of `diagnose`.
 pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Result<OriginCheck> {
     let file = &data.file;
-    let top = data.series.order();
-    let reach = (top as u32).clamp(1, MAX_LOOPS);
+    let highest = data.series.order();
+    let reach = (highest as u32).clamp(1, MAX_LOOPS);
     let cusp = match data.normalisation {
         Normalisation::E => None,
         Normalisation::R6 => {
-            if top as u32 > MAX_LOOPS {
+            if highest as u32 > MAX_LOOPS {
                 return Err(Error::range(format!(
-                    "{}: converting R6 needs Gamma_cusp through {top} loops; the exact engine reaches {MAX_LOOPS}",
+                    "{}: converting R6 needs Gamma_cusp through {highest} loops; the exact engine reaches {MAX_LOOPS}",
                     file.origin
                 )));
             }
@@ -423,7 +423,7 @@ pub fn check_origin(data: &OriginData, catalogue: &Catalogue, digits: u32) -> Re
         coupling: file.coupling,
         normalisation: data.normalisation,
         logs: data.logs.clone(),
-        highest: top as u32,
+        highest: highest as u32,
         rows,
         broken,
         formula: predictions.formula.as_ref().map(|(f, _)| f.clone()),

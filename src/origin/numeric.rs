@@ -450,12 +450,12 @@ pub fn analyse_r6(
     logs: &OriginLogs,
     digits: u32,
 ) -> Result<NumAnalysis> {
-    let top = r6.len().saturating_sub(1);
-    if gamma_cusp.order() < top {
+    let highest = r6.len().saturating_sub(1);
+    if gamma_cusp.order() < highest {
         return Err(Error::range(format!(
             "Gamma_cusp is known through g^{} only, the origin series needs g^{}",
             2 * gamma_cusp.order(),
-            2 * top
+            2 * highest
         )));
     }
     let prec = r6.first().map_or(64, |c| c.prec);

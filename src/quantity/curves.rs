@@ -116,17 +116,17 @@ fn expansions(
 ) -> Result<Vec<Curve>> {
     let xs: Vec<f64> = couplings.iter().map(Float::to_f64).collect();
     let mut out = Vec::new();
-    let top = companions
+    let highest = companions
         .loops
         .iter()
         .copied()
         .max()
         .unwrap_or(0)
         .max(companions.pade.map_or(0, |n| 2 * n as u32));
-    let coeffs = if top == 0 {
+    let coeffs = if highest == 0 {
         None
     } else {
-        match q.expand(top, &mut |_, _, _| {}) {
+        match q.expand(highest, &mut |_, _, _| {}) {
             Ok(series) => Some(finite::weak_coefficients(&series, prec)?),
             // The finite-coupling engine takes any real tilt, the exact
             // one only some: what it cannot expand is left out, not the figure.

@@ -6,7 +6,7 @@ use rug::Float;
 use serde::Serialize;
 
 use super::expansion::status_line;
-use super::{decimal, in_units_text, serialized, Format, JsonVerdict};
+use super::{decimal, in_units_text, serialized, DataFormat, JsonVerdict};
 use crate::check::{Comparison, OrderResult, Verdict};
 use crate::error::{Error, Result};
 
@@ -149,11 +149,10 @@ fn text_row(o: &OrderResult, max_digits: u32) -> (&'static str, String, String) 
     (mark, words, detail)
 }
 
-pub fn render(c: &Comparison, format: Format) -> Result<String> {
+pub fn render(c: &Comparison, format: DataFormat) -> Result<String> {
     match format {
-        Format::Text => Ok(text(c)),
-        Format::Json | Format::Yaml => serialized(&json(c), format),
-        Format::Latex => Err(Error::input("the check report comes as text, json or yaml")),
+        DataFormat::Text => Ok(text(c)),
+        DataFormat::Json | DataFormat::Yaml => serialized(&json(c), format),
     }
 }
 
@@ -167,9 +166,9 @@ struct JsonUnusable<'a> {
     error: &'a str,
 }
 
-pub fn render_unusable(file: &str, error: &Error, format: Format) -> Result<String> {
+pub fn render_unusable(file: &str, error: &Error, format: DataFormat) -> Result<String> {
     match format {
-        Format::Text => {
+        DataFormat::Text => {
             let message: String = error
                 .message()
                 .lines()
@@ -179,7 +178,7 @@ pub fn render_unusable(file: &str, error: &Error, format: Format) -> Result<Stri
                 "{file}: not checked, the input cannot be used:\n{message}"
             ))
         }
-        Format::Json | Format::Yaml => serialized(
+        DataFormat::Json | DataFormat::Yaml => serialized(
             &JsonUnusable {
                 file,
                 agrees: false,
@@ -187,7 +186,6 @@ pub fn render_unusable(file: &str, error: &Error, format: Format) -> Result<Stri
             },
             format,
         ),
-        Format::Latex => Err(Error::input("the check report comes as text, json or yaml")),
     }
 }
 
@@ -275,4 +273,20 @@ fn text(c: &Comparison) -> String {
     }
     out.push_str(&format!("\nsummary: {}\n", c.summary()));
     out
+}
+/// The reports of several files as one document: a JSON array, a stream of
+/// YAML documents, or the text reports one after another.
+pub fn joined(parts: &[String], format: DataFormat) -> String {
+    match format {
+        DataFormat::Json => format!(
+            "[\n{}]\n",
+            parts
+                .iter()
+                .map(|p| p.trim_end().to_string())
+                .collect::<Vec<_>>()
+                .join(",\n")
+        ),
+        DataFormat::Yaml => parts.iter().map(|p| format!("---\n{p}")).collect(),
+        DataFormat::Text => parts.join("\n"),
+    }
 }

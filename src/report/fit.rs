@@ -6,8 +6,8 @@
 
 use serde::Serialize;
 
-use super::Format;
-use crate::error::{Error, Result};
+use super::DataFormat;
+use crate::error::Result;
 use crate::fit::file::FitReport;
 use crate::fit::{Fixing, Solution};
 
@@ -62,11 +62,10 @@ struct JsonReport {
     caution: &'static str,
 }
 
-pub fn render(r: &FitReport, format: Format) -> Result<String> {
+pub fn render(r: &FitReport, format: DataFormat) -> Result<String> {
     match format {
-        Format::Text => Ok(text(r)),
-        Format::Json | Format::Yaml => super::serialized(&json(r), format),
-        Format::Latex => Err(Error::input("the fit report comes as text, json or yaml")),
+        DataFormat::Text => Ok(text(r)),
+        DataFormat::Json | DataFormat::Yaml => super::serialized(&json(r), format),
     }
 }
 

@@ -17,7 +17,19 @@ use std::fmt;
 
 use crate::error::{Error, Result};
 
-/// The output formats the commands offer.
+/// The formats every report offers: a readable table, or JSON or YAML for
+/// pipelines (the same content either way).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum DataFormat {
+    #[default]
+    Text,
+    Json,
+    Yaml,
+}
+
+/// The formats of `expand`, whose exact coefficients also go into papers:
+/// the data formats and a LaTeX table. Only renderers that can write every
+/// variant take this type, so no format is refused at run time.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
 pub enum Format {
     #[default]
@@ -25,6 +37,16 @@ pub enum Format {
     Json,
     Yaml,
     Latex,
+}
+
+impl From<DataFormat> for Format {
+    fn from(f: DataFormat) -> Self {
+        match f {
+            DataFormat::Text => Format::Text,
+            DataFormat::Json => Format::Json,
+            DataFormat::Yaml => Format::Yaml,
+        }
+    }
 }
 
 impl fmt::Display for Format {
@@ -124,8 +146,8 @@ impl JsonVerdict {
 }
 
 /// A report value as JSON (pretty, with a final newline) or YAML.
-pub fn serialized<T: serde::Serialize>(value: &T, format: Format) -> Result<String> {
-    match format {
+pub fn serialized<T: serde::Serialize>(value: &T, format: impl Into<Format>) -> Result<String> {
+    match format.into() {
         Format::Yaml => serde_yaml::to_string(value).map_err(|e| Error::io(e.to_string())),
         _ => serde_json::to_string_pretty(value)
             .map(|s| s + "\n")

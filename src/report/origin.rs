@@ -8,9 +8,9 @@
 
 use serde::Serialize;
 
-use super::{decimal, in_units_text, Format, JsonVerdict};
+use super::{decimal, in_units_text, DataFormat, JsonVerdict};
 use crate::check::Verdict;
-use crate::error::{Error, Result};
+use crate::error::Result;
 use crate::exact::ring::{EvenStyle, Exact, Notation};
 use crate::input::catalogue::{Entry, Status};
 use crate::numeric::Estimate;
@@ -217,13 +217,10 @@ struct JsonReport {
     numeric_orders: Vec<u32>,
 }
 
-pub fn render(c: &OriginCheck, format: Format, even: EvenStyle) -> Result<String> {
+pub fn render(c: &OriginCheck, format: DataFormat, even: EvenStyle) -> Result<String> {
     match format {
-        Format::Text => Ok(text(c, even)),
-        Format::Json | Format::Yaml => super::serialized(&json(c, even), format),
-        Format::Latex => Err(Error::input(
-            "the origin report comes as text, json or yaml",
-        )),
+        DataFormat::Text => Ok(text(c, even)),
+        DataFormat::Json | DataFormat::Yaml => super::serialized(&json(c, even), format),
     }
 }
 

@@ -6,8 +6,8 @@ use rug::Float;
 use serde::Serialize;
 
 use super::expansion::status_line;
-use super::{decimal, Format};
-use crate::error::{Error, Result};
+use super::{decimal, DataFormat};
+use crate::error::Result;
 use crate::input::catalogue::{Entry, Status};
 use crate::numeric::convergence::RadiusEstimate;
 use crate::numeric::Estimate;
@@ -95,11 +95,10 @@ impl AtReport {
         }
     }
 
-    pub fn render(&self, format: Format) -> Result<String> {
+    pub fn render(&self, format: DataFormat) -> Result<String> {
         match format {
-            Format::Json | Format::Yaml => super::serialized(&self.json(), format),
-            Format::Latex => Err(Error::input("`at` reports come as text, json or yaml")),
-            Format::Text => Ok(self.text()),
+            DataFormat::Json | DataFormat::Yaml => super::serialized(&self.json(), format),
+            DataFormat::Text => Ok(self.text()),
         }
     }
 
@@ -178,7 +177,7 @@ pub fn scan_rows(
         })
         .collect();
     if json {
-        return super::serialized(&rows, Format::Json);
+        return super::serialized(&rows, DataFormat::Json);
     }
     let mut out = String::from("g,value,error\n");
     for r in rows {
