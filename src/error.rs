@@ -4,7 +4,8 @@
 
 use std::fmt;
 
-/// What went wrong, coarsely; the binary turns every kind but `Closed` into exit code 2.
+/// What went wrong, coarsely. The binary maps kinds to exit codes in one
+/// function (`exit_code` in src/cli/mod.rs): `Closed` is 0, every other kind 2.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[non_exhaustive]
 pub enum ErrorKind {

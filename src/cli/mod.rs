@@ -159,11 +159,30 @@ pub fn run() -> i32 {
         Ok(Outcome::Done) => 0,
         Ok(Outcome::Differs) => 1,
         Ok(Outcome::Unusable) => 2,
-        Err(e) if e.kind() == ErrorKind::Closed => 0,
         Err(e) => {
-            eprintln!("loopwise: {e}");
-            2
+            let code = exit_code(e.kind());
+            if code != 0 {
+                eprintln!("loopwise: {e}");
+            }
+            code
         }
+    }
+}
+
+/// The exit code of a run that ended in an error: a reader that stopped
+/// reading (`| head`) ends the run normally; input that cannot be parsed or
+/// used, numbers out of range, files that cannot be read or written and
+/// accuracy the engine cannot reach all mean "unusable", 2. The kinds are
+/// non-exhaustive, so a kind added later is unusable until it is mapped here.
+fn exit_code(kind: ErrorKind) -> i32 {
+    match kind {
+        ErrorKind::Closed => 0,
+        ErrorKind::Parse
+        | ErrorKind::Input
+        | ErrorKind::Range
+        | ErrorKind::Io
+        | ErrorKind::Numeric => 2,
+        _ => 2,
     }
 }
 
@@ -274,6 +293,22 @@ mod tests {
                     arg.get_id()
                 );
             }
+        }
+    }
+
+    /// The documented exit codes (README): 0 for a closed pipe, 2 for
+    /// everything else that ends a run in an error.
+    #[test]
+    fn error_kinds_map_to_documented_exit_codes() {
+        assert_eq!(exit_code(ErrorKind::Closed), 0);
+        for kind in [
+            ErrorKind::Parse,
+            ErrorKind::Input,
+            ErrorKind::Range,
+            ErrorKind::Io,
+            ErrorKind::Numeric,
+        ] {
+            assert_eq!(exit_code(kind), 2, "{kind:?}");
         }
     }
 }

@@ -21,7 +21,7 @@ use loopwise::origin::check::check_origin;
 use loopwise::origin::read::parse_origin_text;
 use loopwise::origin::{analyse_e, predicted_log_coefficients, r6_to_e, OriginLogs};
 use loopwise::quantity::Quantity;
-use loopwise::report::{fit as fit_report, origin as origin_report, Format};
+use loopwise::report::{fit as fit_report, origin as origin_report, DataFormat};
 
 const LOOPS: u32 = 10;
 
@@ -148,12 +148,12 @@ fn pipeline(e: &Series, constants: &[(u32, Exact)]) {
     let data = parse_origin_text(&text, "ten-loops.yaml").expect("origin file");
     let t_read = t.elapsed();
     let c = check_origin(&data, &catalogue, 30).expect("origin check");
-    let report = origin_report::render(&c, Format::Text, EvenStyle::Zeta).expect("report");
+    let report = origin_report::render(&c, DataFormat::Text, EvenStyle::Zeta).expect("report");
     let t_origin = t.elapsed();
     assert!(c.agrees(), "{report}");
     let file = parse_series_text(&fit_text, "ten-loop-constants.yaml").expect("fit file");
     let r = fit_file(&file, default_basis(), LOOPS, &catalogue).expect("fit");
-    let _ = fit_report::render(&r, Format::Text).expect("fit report");
+    let _ = fit_report::render(&r, DataFormat::Text).expect("fit report");
     let t_total = t.elapsed();
     assert!(matches!(r.fit.solution, Solution::Unique(_)));
     println!(
