@@ -5,7 +5,7 @@
 //! the exponentiation check and the readings of the double-log coefficients,
 //! the linear term and C0.
 //!
-//! Uncertainties are those of [`crate::numeric::evaluate`]: written by the user
+//! Uncertainties are those of [`crate::numeric::evaluate`](mod@crate::numeric::evaluate): written by the user
 //! or half a unit in the last written digit, propagated to first order in
 //! the worst case (|a| u_b + |b| u_a + u_a u_b for a product, sums for
 //! sums). A coefficient that is exact carries none. Whether a term that

@@ -21,7 +21,7 @@ pub struct OriginData {
     /// The orders listed in `numeric` hold zero here.
     pub series: Series,
     /// The loop orders written with numbers outside the exact ring, read at
-    /// the working precision by [`check_origin`]; empty for an exact file.
+    /// the working precision by [`crate::origin::check::check_origin`]; empty for an exact file.
     pub numeric: Vec<u32>,
 }
 
