@@ -25,7 +25,7 @@ use packed::{Algebra, PackedPoly};
 
 use crate::error::{Error, Result};
 use crate::exact::powerseries::{exp_coefficients, ln_coefficients, Series, SeriesCoefficients};
-use crate::exact::ring::Exact;
+use crate::exact::ring::{Exact, Monomial};
 use crate::kernel::{self, Tilt};
 
 /// Which logarithms the coefficients are written in.
@@ -69,6 +69,24 @@ impl OriginLogs {
             OriginLogs::Three(n) => n.iter().map(String::as_str).collect(),
             OriginLogs::Line(n) => vec![n.as_str()],
         }
+    }
+
+    /// A monomial of the ring split into its transcendental part and the
+    /// exponents of the logs; any other symbol is an error.
+    pub fn split(&self, m: &Monomial) -> Result<(Monomial, analysis::Exponents)> {
+        let names = self.names();
+        let (rest, syms) = m.split_symbols();
+        let mut e = [0u32; 3];
+        for (name, power) in syms.symbols() {
+            let slot = names.iter().position(|n| **n == **name).ok_or_else(|| {
+                Error::input(format!(
+                    "'{name}' in an origin coefficient is not one of the logs ({})",
+                    names.join(", ")
+                ))
+            })?;
+            e[slot] = *power;
+        }
+        Ok((rest, e))
     }
 
     fn sum_of_squares(&self) -> Exact {
@@ -228,7 +246,6 @@ pub fn predicted_log_coefficients(loops: u32) -> Result<OriginPrediction> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::exact::ring::Monomial;
 
     fn q(n: i64, d: i64) -> Exact {
         Exact::from(Rational::from((n, d)))

@@ -149,20 +149,9 @@ impl NumPoly {
     /// An exact polynomial in the logs, its transcendental coefficients
     /// evaluated at `prec` bits (no uncertainty).
     pub fn from_exact(x: &Exact, logs: &OriginLogs, prec: u32) -> Result<NumPoly> {
-        let names = logs.names();
         let mut out = NumPoly::zero(prec);
         for (m, c) in x.terms() {
-            let (rest, syms) = m.split_symbols();
-            let mut e = [0u32; 3];
-            for (name, power) in syms.symbols() {
-                let slot = names.iter().position(|n| **n == **name).ok_or_else(|| {
-                    Error::input(format!(
-                        "'{name}' in an origin coefficient is not one of the logs ({})",
-                        names.join(", ")
-                    ))
-                })?;
-                e[slot] = *power;
-            }
+            let (rest, e) = logs.split(m)?;
             let value = Exact::term(c.clone(), rest).evaluate(prec)?;
             out.add_term(e, &Estimate::exact(value));
         }

@@ -135,20 +135,10 @@ impl Algebra {
     }
 
     fn import_exact(&mut self, e: &Exact) -> Result<PackedPoly> {
-        let names: Vec<String> = self.logs.names().iter().map(|n| n.to_string()).collect();
         let mut out = PackedPoly::default();
         for (m, c) in e.terms() {
-            let (rest, syms) = m.split_symbols();
-            let mut exps = [0u64; 3];
-            for (name, power) in syms.symbols() {
-                let slot = names.iter().position(|n| **n == **name).ok_or_else(|| {
-                    Error::input(format!(
-                        "'{name}' in an origin coefficient is not one of the logs ({})",
-                        names.join(", ")
-                    ))
-                })?;
-                exps[slot] = u64::from(*power);
-            }
+            let (rest, e) = self.logs.split(m)?;
+            let exps = e.map(u64::from);
             if exps.iter().any(|&x| x > FIELD_MAX) {
                 return Err(Error::range(format!(
                     "a power of a log above {FIELD_MAX} in {m}"
@@ -186,50 +176,6 @@ impl Algebra {
 
     pub fn export_series(&self, s: &[PackedPoly]) -> Series {
         Series::new(s.iter().map(|d| self.export(d)).collect())
-    }
-
-    /// acc += factor * a * b, with `a` the small operand.
-    fn add_scaled_product(
-        &mut self,
-        acc: &mut PackedPoly,
-        factor: &Rational,
-        a: &PackedPoly,
-        b: &PackedPoly,
-    ) -> Result<()> {
-        // Exponents add field by field; a carry would corrupt the key.
-        let (ma, mb) = (max_exps(a), max_exps(b));
-        if (0..3).any(|i| ma[i] + mb[i] > FIELD_MAX) {
-            return Err(Error::range(format!(
-                "a power of a log above {FIELD_MAX} in a product of origin coefficients"
-            )));
-        }
-        let mut row: KeyMap<u64> = KeyMap::default();
-        for (&ka, ca) in a {
-            let ca = Rational::from(ca * factor);
-            let (ea, ta) = (ka & ((1 << (3 * FIELD)) - 1), transcendental_of(ka));
-            row.clear();
-            for (&kb, cb) in b {
-                let tb = transcendental_of(kb);
-                let t = match row.get(&tb) {
-                    Some(&t) => t,
-                    None => {
-                        let t = self.product(ta, tb)?;
-                        row.insert(tb, t);
-                        t
-                    }
-                };
-                let key = (ea + (kb & ((1 << (3 * FIELD)) - 1))) | t << (3 * FIELD);
-                let p = Rational::from(&ca * cb);
-                match acc.entry(key) {
-                    std::collections::hash_map::Entry::Vacant(v) => {
-                        v.insert(p);
-                    }
-                    std::collections::hash_map::Entry::Occupied(mut o) => *o.get_mut() += p,
-                }
-            }
-        }
-        acc.retain(|_, c| *c != 0);
-        Ok(())
     }
 
     /// The terms of `d` whose log exponents are `exps`, as a ring element.
@@ -275,6 +221,8 @@ impl SeriesCoefficients for Algebra {
     fn is_zero(&self, c: &PackedPoly) -> bool {
         c.is_empty()
     }
+    /// Keys add field by field, so a product that would carry out of a
+    /// field is refused before it corrupts a key.
     fn add_product(
         &mut self,
         acc: &mut PackedPoly,
@@ -282,7 +230,40 @@ impl SeriesCoefficients for Algebra {
         a: &PackedPoly,
         b: &PackedPoly,
     ) -> Result<()> {
-        self.add_scaled_product(acc, factor, a, b)
+        // Exponents add field by field; a carry would corrupt the key.
+        let (ma, mb) = (max_exps(a), max_exps(b));
+        if (0..3).any(|i| ma[i] + mb[i] > FIELD_MAX) {
+            return Err(Error::range(format!(
+                "a power of a log above {FIELD_MAX} in a product of origin coefficients"
+            )));
+        }
+        let mut row: KeyMap<u64> = KeyMap::default();
+        for (&ka, ca) in a {
+            let ca = Rational::from(ca * factor);
+            let (ea, ta) = (ka & ((1 << (3 * FIELD)) - 1), transcendental_of(ka));
+            row.clear();
+            for (&kb, cb) in b {
+                let tb = transcendental_of(kb);
+                let t = match row.get(&tb) {
+                    Some(&t) => t,
+                    None => {
+                        let t = self.product(ta, tb)?;
+                        row.insert(tb, t);
+                        t
+                    }
+                };
+                let key = (ea + (kb & ((1 << (3 * FIELD)) - 1))) | t << (3 * FIELD);
+                let p = Rational::from(&ca * cb);
+                match acc.entry(key) {
+                    std::collections::hash_map::Entry::Vacant(v) => {
+                        v.insert(p);
+                    }
+                    std::collections::hash_map::Entry::Occupied(mut o) => *o.get_mut() += p,
+                }
+            }
+        }
+        acc.retain(|_, c| *c != 0);
+        Ok(())
     }
 }
 
