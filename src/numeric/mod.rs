@@ -15,19 +15,22 @@ mod bessel;
 pub mod convergence;
 pub mod estimate;
 pub mod evaluate;
+mod gram;
 mod matrix;
 pub mod mzv;
 pub mod pslq;
 mod quadrature;
 
 use std::f64::consts::LN_10;
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::mpsc;
 
 use rug::float::Round;
 use rug::Float;
 
 use crate::error::{Error, Result};
 use bessel::ln_magnitude;
-use matrix::{factor, kernel_integrals, tilted_system};
+use matrix::{factor, factor_nested, kernel_integrals, tilted_system};
 use quadrature::{plan, weighted_nodes, RuleCache};
 
 pub use bessel::bessel_j_upto;
@@ -128,6 +131,7 @@ fn attempt(
     g: &Float,
     ln_tol: f64,
     cache: &mut RuleCache,
+    threads: usize,
 ) -> Result<Estimate> {
     let gf = g.to_f64();
     let (n, n2) = sizes(f, gf, ln_tol)?;
@@ -144,8 +148,8 @@ fn attempt(
     let coarse_nodes = weighted_nodes(&coarse_panels, cache, prec);
     let drop_fine = ln_entry - 4.0 * LN_10 - (fine_nodes.len() as f64).ln();
     let drop_coarse = ln_entry - (coarse_nodes.len() as f64).ln();
-    let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec);
-    let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec);
+    let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec, threads)?;
+    let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec, threads)?;
 
     let pick = |sv: matrix::Solved| -> Float {
         match f {
@@ -156,8 +160,9 @@ fn attempt(
             Functional::Delta => sv.ln_det,
         }
     };
-    let best = pick(factor(tilted_system(&s_fine, n2, n2, c2, prec), n2, prec)?);
-    let fine_small = pick(factor(tilted_system(&s_fine, n2, n, c2, prec), n, prec)?);
+    let (small, whole) = factor_nested(tilted_system(&s_fine, n2, n2, c2, prec), n2, n, prec)?;
+    let best = pick(whole);
+    let fine_small = pick(small);
     let coarse_small = pick(factor(tilted_system(&s_coarse, n, n, c2, prec), n, prec)?);
 
     let mut error = Float::with_val(prec, &best - &fine_small).abs();
@@ -207,7 +212,12 @@ fn check_inputs(c2: &Float, g: &Float, digits: u32) -> Result<()> {
 /// `digits` significant digits (relative to |value|, or absolute at the
 /// functional's natural scale when the value is nearly zero).
 pub fn evaluate(f: Functional, c2: &Float, g: &Float, digits: u32) -> Result<Estimate> {
-    evaluate_with(f, c2, g, digits, &mut RuleCache::default())
+    evaluate_with(f, c2, g, digits, &mut RuleCache::default(), cores())
+}
+
+/// Threads worth running: the machine's cores.
+fn cores() -> usize {
+    std::thread::available_parallelism().map_or(1, |n| n.get())
 }
 
 fn evaluate_with(
@@ -216,6 +226,7 @@ fn evaluate_with(
     g: &Float,
     digits: u32,
     cache: &mut RuleCache,
+    threads: usize,
 ) -> Result<Estimate> {
     check_inputs(c2, g, digits)?;
     let out_prec = (f64::from(digits + 10) * 10f64.log2()).ceil() as u32;
@@ -235,7 +246,7 @@ fn evaluate_with(
     let mut last = None;
     for _ in 0..4 {
         let ln_tol = ln_scale - (f64::from(digits) + extra) * LN_10;
-        let est = attempt(f, c2, g, ln_tol, cache)?;
+        let est = attempt(f, c2, g, ln_tol, cache, threads)?;
         let unit = match f {
             Functional::Gamma => Float::with_val(64, g * g) * 4u32,
             Functional::Delta => Float::with_val(64, 1),
@@ -284,8 +295,11 @@ fn round_out(est: Estimate, prec: u32) -> Estimate {
     Estimate::new(value, error)
 }
 
-/// `evaluate` over a list of couplings, sharing the quadrature rules between
-/// points; `progress(done, total)` is called after each point.
+/// `evaluate` over a list of couplings, the points spread over the cores
+/// (each worker keeps its own quadrature rules); `progress(done, total)` is
+/// called on the calling thread as points finish, and the values come back
+/// in the order of `couplings`. The first failing point, in that order, is
+/// the error.
 pub fn scan(
     f: Functional,
     c2: &Float,
@@ -293,15 +307,57 @@ pub fn scan(
     digits: u32,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<Vec<Estimate>> {
-    let mut cache = RuleCache::default();
     let total = couplings.len();
+    let workers = cores().min(total).max(1);
+    let inner = (cores() / workers).max(1);
+    let next = AtomicUsize::new(0);
+    let failed = AtomicBool::new(false);
+    let mut slots: Vec<Option<Result<Estimate>>> = (0..total).map(|_| None).collect();
+    std::thread::scope(|s| {
+        let (tx, rx) = mpsc::channel();
+        for _ in 0..workers {
+            let tx = tx.clone();
+            let (next, failed) = (&next, &failed);
+            s.spawn(move || {
+                let mut cache = RuleCache::default();
+                loop {
+                    let i = next.fetch_add(1, Ordering::Relaxed);
+                    if i >= total || failed.load(Ordering::Relaxed) {
+                        break;
+                    }
+                    let g = &couplings[i];
+                    let r = evaluate_with(f, c2, g, digits, &mut cache, inner)
+                        .map_err(|e| e.context(format!("g = {}", g.to_f64())));
+                    if r.is_err() {
+                        failed.store(true, Ordering::Relaxed);
+                    }
+                    if tx.send((i, r)).is_err() {
+                        break;
+                    }
+                }
+            });
+        }
+        drop(tx);
+        let mut done = 0;
+        for (i, r) in rx {
+            let ok = r.is_ok();
+            slots[i] = Some(r);
+            if ok {
+                done += 1;
+                progress(done, total);
+            }
+        }
+    });
     let mut out = Vec::with_capacity(total);
-    for (i, g) in couplings.iter().enumerate() {
-        out.push(
-            evaluate_with(f, c2, g, digits, &mut cache)
-                .map_err(|e| e.context(format!("g = {}", g.to_f64())))?,
-        );
-        progress(i + 1, total);
+    for slot in slots {
+        match slot {
+            Some(r) => out.push(r?),
+            None => {
+                return Err(Error::numeric(
+                    "the scan stopped at an earlier failing point",
+                ))
+            }
+        }
     }
     Ok(out)
 }

@@ -61,16 +61,14 @@ fn gauss_legendre(m: usize, prec: u32) -> GaussRule {
         (pm, d)
     };
     for i in 0..m.div_ceil(2) {
-        let guess = (PI * (i as f64 + 0.75) / (m as f64 + 0.5)).cos();
-        let mut x = Float::with_val(wprec, guess);
-        let tiny = Float::with_val(wprec, Float::i_exp(1, -(wprec as i32) + 8));
-        for _ in 0..200 {
+        let mut x = Float::with_val(wprec, root_f64(m, i));
+        // The double-precision root has about 50 correct bits and Newton
+        // doubles them per step: stop once 50 * 2^steps covers wprec.
+        let mut good = 50u32;
+        while good < wprec {
             let (p, d) = legendre(&x);
-            let dx = Float::with_val(wprec, &p / &d);
-            x -= &dx;
-            if dx.abs() < tiny {
-                break;
-            }
+            x -= Float::with_val(wprec, &p / &d);
+            good *= 2;
         }
         let (_, d) = legendre(&x);
         let one_minus = Float::with_val(wprec, 1u32 - Float::with_val(wprec, &x * &x));
@@ -81,6 +79,27 @@ fn gauss_legendre(m: usize, prec: u32) -> GaussRule {
         weights[m - 1 - i].assign(&w);
     }
     GaussRule { nodes, weights }
+}
+
+/// The i-th largest root of P_m to double precision: Newton in f64 from
+/// the asymptotic position cos(pi (i + 3/4) / (m + 1/2)) (A&S 22.16.6).
+fn root_f64(m: usize, i: usize) -> f64 {
+    let mut x = (PI * (i as f64 + 0.75) / (m as f64 + 0.5)).cos();
+    for _ in 0..100 {
+        let (mut p0, mut p1) = (1.0f64, x);
+        for k in 1..m {
+            let p2 = ((2 * k + 1) as f64 * x * p1 - k as f64 * p0) / (k + 1) as f64;
+            p0 = p1;
+            p1 = p2;
+        }
+        let d = m as f64 * (x * p1 - p0) / (x * x - 1.0);
+        let dx = p1 / d;
+        x -= dx;
+        if dx.abs() < 1e-15 {
+            break;
+        }
+    }
+    x
 }
 
 /// Gauss-Legendre rules by order and precision, computed on first use, so
@@ -136,6 +155,12 @@ fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
         best = Some(best.map_or(n, |b: f64| b.min(n)));
     }
     let n = best?.ceil() as usize + 1;
+    // A rule costs O(n^2) MPFR operations to compute, so orders are rounded
+    // up onto a grid of spacing about n/16 (a power of two): at most 1/16
+    // more nodes, and panels, the coarse rule and nearby couplings then
+    // share a few rules instead of computing one per panel.
+    let step = (n / 16).max(1).next_power_of_two();
+    let n = n.div_ceil(step) * step;
     (n <= 4000).then_some(n)
 }
 
