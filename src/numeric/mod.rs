@@ -72,6 +72,9 @@ fn ln_first_row(m: usize, g: f64) -> f64 {
 /// Peak over t of exp(bessel(t)) / (e^t - 1), times 4m, as a logarithm.
 fn peak(bessel: impl Fn(f64) -> f64, m: usize) -> f64 {
     let mut best = f64::NEG_INFINITY;
+    // A geometric grid from 1e-3 (below it every order >= 1 is suppressed
+    // by (g t)^m) to 400 (past the largest cutoff, about 470 digits' worth
+    // of e^-t); 3% steps resolve a peak of relative width >= 10% in t.
     let mut t = 1e-3;
     while t < 400.0 {
         // The integral is roughly the peak value times its width ~ t, and
@@ -87,6 +90,8 @@ fn peak(bessel: impl Fn(f64) -> f64, m: usize) -> f64 {
 /// tolerance is measured in (4 g^2 for Gamma, absolute for Delta).
 fn ln_truncation(f: Functional, n: usize, g: f64) -> f64 {
     match f {
+        // The first neglected diagonal entry, times e for the geometric
+        // tail of the following ones (ratio e^-1/(2g) or smaller).
         Functional::Delta => ln_diagonal(n + 1, g) + 1.0,
         // Two first-row entries enter quadratically; at strong coupling the
         // error decays far faster than those entries' own exp(-n/(2g)).
@@ -111,6 +116,9 @@ fn ln_truncation(f: Functional, n: usize, g: f64) -> f64 {
 }
 
 fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
+    // A decade below the tolerance, so that the truncation and quadrature
+    // parts of the error together stay inside it; steps of about 3% keep
+    // the search cost logarithmic without overshooting n by more than that.
     let mut n = 1;
     while ln_truncation(f, n, g) > ln_tol - LN_10 {
         n += 1 + n / 32;
@@ -120,6 +128,9 @@ fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
             )));
         }
     }
+    // The refined size is modelled three decades better than n, so that
+    // |F(N2) - F(N)| measures the error of F(N) and over-estimates that of
+    // F(N2) by about a thousand; at least two more rows in any case.
     let goal = ln_truncation(f, n, g) - 3.0 * LN_10;
     let mut n2 = n + 2;
     while ln_truncation(f, n2, g) > goal && n2 < MAX_SIZE {
@@ -140,6 +151,9 @@ fn attempt(
 ) -> Result<Estimate> {
     let gf = g.to_f64();
     let (n, n2) = sizes(f, gf, ln_tol)?;
+    // Six guard digits over the tolerance, plus the log of the largest
+    // entry factor 4 N2 (entries of K' are that much larger than those of
+    // S), plus 32 bits for the elimination's rounding over N2 steps.
     let guard_digits = -ln_tol / LN_10 + 6.0 + ((4 * n2) as f64).log10();
     let prec = (guard_digits * 10f64.log2()).ceil() as u32 + 32;
     // Entries of K' carry the factor 4j; the functionals move by at most
@@ -147,6 +161,9 @@ fn attempt(
     let ln_entry = ln_tol - ((4 * n2) as f64).ln() - 2.0 * LN_10;
     let coarse_panels = plan(gf, ln_entry)
         .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
+    // The fine rule is planned four decades better than the coarse one, so
+    // that |F(fine) - F(coarse)| measures the coarse rule's error and
+    // over-estimates the fine one's.
     let fine_panels = plan(gf, ln_entry - 4.0 * LN_10)
         .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
     let fine_nodes = weighted_nodes(&fine_panels, cache, prec);
@@ -234,6 +251,8 @@ fn evaluate_with(
     threads: usize,
 ) -> Result<Estimate> {
     check_inputs(c2, g, digits)?;
+    // Ten digits beyond the request, so that rounding the value for output
+    // adds nothing visible to its error.
     let out_prec = (f64::from(digits + 10) * 10f64.log2()).ceil() as u32;
     if g.is_zero() {
         return Ok(Estimate::exact(Float::new(out_prec)));
@@ -247,6 +266,9 @@ fn evaluate_with(
         Functional::Delta => (gf * gf).min(1.0).ln(),
     };
     let mut ln_scale = scale_ln;
+    // Two extra digits on the first pass; each retry (the measured error
+    // missed, or the value is far below the assumed scale) asks five more,
+    // and four passes reach 17 digits beyond the request before giving up.
     let mut extra = 2.0;
     let mut last = None;
     for _ in 0..4 {
