@@ -5,57 +5,82 @@
 use rug::{Assign, Float};
 
 use super::bessel::{bessel_j_upto, ln_magnitude};
+use super::gram::{gram, Format};
 use crate::error::{Error, Result};
 
 /// The symmetric matrix S_ij = int_0^inf J_i(2gt) J_j(2gt) dt / (t (e^t - 1)),
 /// 1 <= i, j <= n, row-major (index (i-1) n + (j-1)).
 ///
 /// All entries share the nodes: at each node the orders 0..m are computed
-/// in one recurrence and the node adds a rank-one term. Orders above m, with
-/// m from the magnitude estimate of J at 2g t_k, would contribute below
-/// exp(ln_drop) and are skipped.
+/// in one recurrence and the node adds a rank-one term, accumulated exactly
+/// in fixed point (gram.rs) on `threads` threads. Orders above m, with m
+/// from the magnitude estimate of J at 2g t_k, would contribute below
+/// exp(ln_drop) and are skipped; the fixed-point rounding is held below the
+/// same level summed over all nodes.
 pub(crate) fn kernel_integrals(
     g: &Float,
     n: usize,
     nodes: &[(Float, Float)],
     ln_drop: f64,
     prec: u32,
-) -> Vec<Float> {
-    let mut s = vec![Float::new(prec); n * n];
+    threads: usize,
+) -> Result<Vec<Float>> {
     let two_g = Float::with_val(prec, g * 2u32);
-    let mut u: Vec<Float> = vec![Float::new(prec); n + 1];
-    let mut prod = Float::new(prec);
-    for (t, w) in nodes {
-        let x = Float::with_val(prec, &two_g * t);
-        let xf = x.to_f64();
-        let ln_w = w.to_f64().abs().ln();
-        let mut m = n;
-        while m > 0 && ln_magnitude(m, xf) + ln_w < ln_drop {
-            m -= 1;
-        }
-        if m == 0 {
-            continue;
-        }
-        let js = bessel_j_upto(m, &x, prec);
-        for (ui, ji) in u.iter_mut().zip(&js).take(m + 1).skip(1) {
-            ui.assign(w * ji);
-        }
-        for i in 1..=m {
-            let row = (i - 1) * n;
-            let ui = &u[i];
-            for (sij, jj) in s[row + i - 1..row + m].iter_mut().zip(&js[i..=m]) {
-                prod.assign(ui * jj);
-                *sij += &prod;
+    let gf = g.to_f64();
+    let orders: Vec<usize> = nodes
+        .iter()
+        .map(|(t, w)| {
+            let xf = 2.0 * gf * t.to_f64();
+            let ln_w = w.to_f64().abs().ln();
+            let mut m = n;
+            while m > 0 && ln_magnitude(m, xf) + ln_w < ln_drop {
+                m -= 1;
             }
+            m
+        })
+        .collect();
+    // |J_i(x)| <= min(1, x/2) for i >= 1 (DLMF 10.14.1, 10.14.4), so
+    // sqrt(W_k) min(1, g t_k) bounds every entry of row k.
+    let bounds: Vec<f64> = nodes
+        .iter()
+        .map(|(t, w)| w.to_f64().sqrt() * (gf * t.to_f64()).min(1.0))
+        .collect();
+    let largest = bounds.iter().cloned().fold(1.0, f64::max);
+    let total: f64 = bounds.iter().sum::<f64>().max(1.0);
+    // Rounding each entry to 2^-F errs by 2^-(F+1); an entry of S collects
+    // at most 2^-F sum_k b_k, to be kept at the total dropping level (one
+    // node's level times the node count), with 4 bits to spare.
+    let ln_all = ln_drop + (nodes.len().max(1) as f64).ln();
+    let frac_bits = ((total.ln() - ln_all) / std::f64::consts::LN_2)
+        .ceil()
+        .max(0.0) as u32
+        + 4;
+    let int_bits = largest.log2().ceil().max(0.0) as u32 + 2;
+    let format = Format::new(int_bits, frac_bits)?;
+    let sums = gram(n, format, nodes.len(), &orders, threads, |k, scratch| {
+        let m = orders[k];
+        if m == 0 {
+            return Ok(None);
+        }
+        let (t, w) = &nodes[k];
+        let x = Float::with_val(prec, &two_g * t);
+        let root = Float::with_val(prec, w.sqrt_ref());
+        let mut js = bessel_j_upto(m, &x, prec);
+        for j in js.iter_mut().skip(1) {
+            *j *= &root;
+        }
+        format.row(&js[1..], scratch).map(Some)
+    })?;
+    let mut s = vec![Float::new(prec); n * n];
+    let mut it = sums.into_iter();
+    for i in 0..n {
+        for j in i..n {
+            let v = Float::with_val(prec, it.next().unwrap_or_default()) >> (2 * frac_bits);
+            s[j * n + i].clone_from(&v);
+            s[i * n + j] = v;
         }
     }
-    for i in 1..=n {
-        for j in (i + 1)..=n {
-            let v = s[(i - 1) * n + j - 1].clone();
-            s[(j - 1) * n + i - 1] = v;
-        }
-    }
-    s
+    Ok(s)
 }
 
 /// 1 + K' for the leading k x k block of S, with
@@ -92,18 +117,35 @@ pub(crate) struct Solved {
     pub ln_det: Float,
 }
 
-/// LU with partial pivoting of the k x k row-major matrix, then the first
-/// column of the inverse's first entry and the log of the determinant.
-pub(crate) fn factor(mut a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
+/// LU with partial pivoting of the k x k row-major matrix, read off for the
+/// leading `inner` x `inner` block as well as for the whole matrix.
+///
+/// For the first `inner` columns the pivot is searched among the first
+/// `inner` rows only: the row swaps then permute whole rows of the leading
+/// block among themselves, so after `inner` steps the leading part of the
+/// factorisation is the pivoted LU of that block, and its determinant and
+/// first inverse column come with the big one's. Returns (block, whole).
+pub(crate) fn factor_nested(
+    mut a: Vec<Float>,
+    k: usize,
+    inner: usize,
+    prec: u32,
+) -> Result<(Solved, Solved)> {
+    let inner = inner.clamp(1, k);
     let mut rhs: Vec<Float> = (0..k)
         .map(|i| Float::with_val(prec, if i == 0 { 1 } else { 0 }))
         .collect();
     let mut ln_det = Float::new(prec);
     let mut negative = false;
     let mut tmp = Float::new(prec);
+    let mut block = None;
     for c in 0..k {
+        if c == inner {
+            block = Some((ln_det.clone(), negative, rhs[..inner].to_vec()));
+        }
+        let rows = if c < inner { inner } else { k };
         let mut p = c;
-        for r in (c + 1)..k {
+        for r in (c + 1)..rows {
             if a[r * k + c].cmp_abs(&a[p * k + c]) == Some(std::cmp::Ordering::Greater) {
                 p = r;
             }
@@ -128,21 +170,42 @@ pub(crate) fn factor(mut a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
                 continue;
             }
             let f = Float::with_val(prec, &a[r * k + c] / &pivot);
-            for j in (c + 1)..k {
-                tmp.assign(&f * &a[c * k + j]);
-                a[r * k + j] -= &tmp;
+            let (upper, lower) = a.split_at_mut(r * k);
+            for (x, y) in lower[c + 1..k]
+                .iter_mut()
+                .zip(&upper[c * k + c + 1..c * k + k])
+            {
+                tmp.assign(&f * y);
+                *x -= &tmp;
             }
             tmp.assign(&f * &rhs[c]);
             rhs[r] -= &tmp;
         }
     }
+    let (block_det, block_negative, block_rhs) =
+        block.unwrap_or_else(|| (ln_det.clone(), negative, rhs.clone()));
+    let small = solved(&a, k, inner, block_rhs, block_det, block_negative)?;
+    let whole = solved(&a, k, k, rhs, ln_det, negative)?;
+    Ok((small, whole))
+}
+
+/// Back substitution in the leading `size` block of the factored matrix.
+fn solved(
+    a: &[Float],
+    k: usize,
+    size: usize,
+    mut rhs: Vec<Float>,
+    ln_det: Float,
+    negative: bool,
+) -> Result<Solved> {
     if negative {
         return Err(Error::numeric(
             "det(1 + K') came out negative: the truncation is not trustworthy",
         ));
     }
-    for r in (0..k).rev() {
-        for j in (r + 1)..k {
+    let mut tmp = Float::new(rhs[0].prec());
+    for r in (0..size).rev() {
+        for j in (r + 1)..size {
             tmp.assign(&a[r * k + j] * &rhs[j]);
             rhs[r] -= &tmp;
         }
@@ -152,6 +215,12 @@ pub(crate) fn factor(mut a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
         inv11: rhs.swap_remove(0),
         ln_det,
     })
+}
+
+/// LU with partial pivoting of the k x k row-major matrix, then the first
+/// entry of the inverse's first column and the log of the determinant.
+pub(crate) fn factor(a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
+    factor_nested(a, k, k, prec).map(|(_, whole)| whole)
 }
 
 #[cfg(test)]
@@ -170,6 +239,20 @@ mod tests {
         assert!(d < 1e-28);
         let e = (s.inv11 - Float::with_val(100, 5) / 6u32).abs().to_f64();
         assert!(e < 1e-28);
+    }
+
+    #[test]
+    fn nested_factorisation_reads_block_and_whole() {
+        // The leading block [[1, -3], [4, 2]] needs a swap inside it and the
+        // first column's largest entry (9) lies outside it. By cofactor
+        // expansion: det(block) = 14, its inverse (1,1) = 2/14; det(whole) =
+        // 40, its inverse (1,1) = 24/40.
+        let vals = [1, -3, 0, 5, 4, 2, 1, 0, 9, 1, 2, 0, 0, 6, 1, 8];
+        let a: Vec<Float> = vals.iter().map(|&v| Float::with_val(120, v)).collect();
+        let (small, whole) = factor_nested(a, 4, 2, 120).unwrap();
+        let near = |x: &Float, want: f64| (x.to_f64() - want).abs() < 1e-15;
+        assert!(near(&small.ln_det, 14f64.ln()) && near(&small.inv11, 1.0 / 7.0));
+        assert!(near(&whole.ln_det, 40f64.ln()) && near(&whole.inv11, 0.6));
     }
 
     #[test]

@@ -15,19 +15,22 @@ mod bessel;
 pub mod convergence;
 pub mod estimate;
 pub mod evaluate;
+mod gram;
 mod matrix;
 pub mod mzv;
 pub mod pslq;
 mod quadrature;
 
 use std::f64::consts::LN_10;
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::mpsc;
 
 use rug::float::Round;
 use rug::Float;
 
 use crate::error::{Error, Result};
 use bessel::ln_magnitude;
-use matrix::{factor, kernel_integrals, tilted_system};
+use matrix::{factor, factor_nested, kernel_integrals, tilted_system};
 use quadrature::{plan, weighted_nodes, RuleCache};
 
 pub use bessel::bessel_j_upto;
@@ -69,6 +72,9 @@ fn ln_first_row(m: usize, g: f64) -> f64 {
 /// Peak over t of exp(bessel(t)) / (e^t - 1), times 4m, as a logarithm.
 fn peak(bessel: impl Fn(f64) -> f64, m: usize) -> f64 {
     let mut best = f64::NEG_INFINITY;
+    // A geometric grid from 1e-3 (below it every order >= 1 is suppressed
+    // by (g t)^m) to 400 (past the largest cutoff, about 470 digits' worth
+    // of e^-t); 3% steps resolve a peak of relative width >= 10% in t.
     let mut t = 1e-3;
     while t < 400.0 {
         // The integral is roughly the peak value times its width ~ t, and
@@ -84,17 +90,24 @@ fn peak(bessel: impl Fn(f64) -> f64, m: usize) -> f64 {
 /// tolerance is measured in (4 g^2 for Gamma, absolute for Delta).
 fn ln_truncation(f: Functional, n: usize, g: f64) -> f64 {
     match f {
+        // The first neglected diagonal entry, times e for the geometric
+        // tail of the following ones (ratio e^-1/(2g) or smaller).
         Functional::Delta => ln_diagonal(n + 1, g) + 1.0,
         // Two first-row entries enter quadratically; at strong coupling the
-        // observed decay (about exp(-(0.4 .. 0.75) n) for g in [4, 20]) is
-        // far faster than those entries' own exp(-n/(2g)), so the
-        // slower-decaying fit exp(-(0.3 + 1/g) n) is used when it is smaller.
-        // Below g = 1/2 the entries' own g^(2n) decay governs and the fit
-        // (checked only from g = 1/2 up) would be too optimistic.
+        // error decays far faster than those entries' own exp(-n/(2g)).
+        // Measured at c2 = 1/2, 30 digits, as |F(n + 20) - F(n)| in units of
+        // 4 g^2: the rate per unit of n is 1.6, 0.67, 0.35, 0.23 at g = 1,
+        // 5, 20, 50, i.e. 1.6/sqrt(g), and the error at n = 30..100 lies
+        // e^-9 .. e^-15 below exp(-rate n). The model takes 1.5/sqrt(g) (the
+        // slowest of those, at g = 5) and a prefactor e^-8; a model that
+        // proves optimistic costs a retry at a tighter tolerance, never a
+        // wrong digit, since the error is measured, not modelled;
+        // below g = 1/2 the entries' own g^(2n) decay governs and the fit,
+        // measured from g = 1 up, is not used.
         Functional::Gamma => {
             let entries = 2.0 * ln_first_row(n + 1, g) + 1.0;
             if g >= 0.5 {
-                entries.min(2.0 - (0.3 + 1.0 / g) * n as f64)
+                entries.min(-8.0 - 1.5 / g.sqrt() * n as f64)
             } else {
                 entries
             }
@@ -103,6 +116,9 @@ fn ln_truncation(f: Functional, n: usize, g: f64) -> f64 {
 }
 
 fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
+    // A decade below the tolerance, so that the truncation and quadrature
+    // parts of the error together stay inside it; steps of about 3% keep
+    // the search cost logarithmic without overshooting n by more than that.
     let mut n = 1;
     while ln_truncation(f, n, g) > ln_tol - LN_10 {
         n += 1 + n / 32;
@@ -112,6 +128,9 @@ fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
             )));
         }
     }
+    // The refined size is modelled three decades better than n, so that
+    // |F(N2) - F(N)| measures the error of F(N) and over-estimates that of
+    // F(N2) by about a thousand; at least two more rows in any case.
     let goal = ln_truncation(f, n, g) - 3.0 * LN_10;
     let mut n2 = n + 2;
     while ln_truncation(f, n2, g) > goal && n2 < MAX_SIZE {
@@ -128,9 +147,13 @@ fn attempt(
     g: &Float,
     ln_tol: f64,
     cache: &mut RuleCache,
+    threads: usize,
 ) -> Result<Estimate> {
     let gf = g.to_f64();
     let (n, n2) = sizes(f, gf, ln_tol)?;
+    // Six guard digits over the tolerance, plus the log of the largest
+    // entry factor 4 N2 (entries of K' are that much larger than those of
+    // S), plus 32 bits for the elimination's rounding over N2 steps.
     let guard_digits = -ln_tol / LN_10 + 6.0 + ((4 * n2) as f64).log10();
     let prec = (guard_digits * 10f64.log2()).ceil() as u32 + 32;
     // Entries of K' carry the factor 4j; the functionals move by at most
@@ -138,14 +161,17 @@ fn attempt(
     let ln_entry = ln_tol - ((4 * n2) as f64).ln() - 2.0 * LN_10;
     let coarse_panels = plan(gf, ln_entry)
         .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
+    // The fine rule is planned four decades better than the coarse one, so
+    // that |F(fine) - F(coarse)| measures the coarse rule's error and
+    // over-estimates the fine one's.
     let fine_panels = plan(gf, ln_entry - 4.0 * LN_10)
         .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
     let fine_nodes = weighted_nodes(&fine_panels, cache, prec);
     let coarse_nodes = weighted_nodes(&coarse_panels, cache, prec);
     let drop_fine = ln_entry - 4.0 * LN_10 - (fine_nodes.len() as f64).ln();
     let drop_coarse = ln_entry - (coarse_nodes.len() as f64).ln();
-    let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec);
-    let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec);
+    let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec, threads)?;
+    let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec, threads)?;
 
     let pick = |sv: matrix::Solved| -> Float {
         match f {
@@ -156,8 +182,9 @@ fn attempt(
             Functional::Delta => sv.ln_det,
         }
     };
-    let best = pick(factor(tilted_system(&s_fine, n2, n2, c2, prec), n2, prec)?);
-    let fine_small = pick(factor(tilted_system(&s_fine, n2, n, c2, prec), n, prec)?);
+    let (small, whole) = factor_nested(tilted_system(&s_fine, n2, n2, c2, prec), n2, n, prec)?;
+    let best = pick(whole);
+    let fine_small = pick(small);
     let coarse_small = pick(factor(tilted_system(&s_coarse, n, n, c2, prec), n, prec)?);
 
     let mut error = Float::with_val(prec, &best - &fine_small).abs();
@@ -207,7 +234,12 @@ fn check_inputs(c2: &Float, g: &Float, digits: u32) -> Result<()> {
 /// `digits` significant digits (relative to |value|, or absolute at the
 /// functional's natural scale when the value is nearly zero).
 pub fn evaluate(f: Functional, c2: &Float, g: &Float, digits: u32) -> Result<Estimate> {
-    evaluate_with(f, c2, g, digits, &mut RuleCache::default())
+    evaluate_with(f, c2, g, digits, &mut RuleCache::default(), cores())
+}
+
+/// Threads worth running: the machine's cores.
+fn cores() -> usize {
+    std::thread::available_parallelism().map_or(1, |n| n.get())
 }
 
 fn evaluate_with(
@@ -216,8 +248,11 @@ fn evaluate_with(
     g: &Float,
     digits: u32,
     cache: &mut RuleCache,
+    threads: usize,
 ) -> Result<Estimate> {
     check_inputs(c2, g, digits)?;
+    // Ten digits beyond the request, so that rounding the value for output
+    // adds nothing visible to its error.
     let out_prec = (f64::from(digits + 10) * 10f64.log2()).ceil() as u32;
     if g.is_zero() {
         return Ok(Estimate::exact(Float::new(out_prec)));
@@ -231,11 +266,14 @@ fn evaluate_with(
         Functional::Delta => (gf * gf).min(1.0).ln(),
     };
     let mut ln_scale = scale_ln;
+    // Two extra digits on the first pass; each retry (the measured error
+    // missed, or the value is far below the assumed scale) asks five more,
+    // and four passes reach 17 digits beyond the request before giving up.
     let mut extra = 2.0;
     let mut last = None;
     for _ in 0..4 {
         let ln_tol = ln_scale - (f64::from(digits) + extra) * LN_10;
-        let est = attempt(f, c2, g, ln_tol, cache)?;
+        let est = attempt(f, c2, g, ln_tol, cache, threads)?;
         let unit = match f {
             Functional::Gamma => Float::with_val(64, g * g) * 4u32,
             Functional::Delta => Float::with_val(64, 1),
@@ -284,8 +322,11 @@ fn round_out(est: Estimate, prec: u32) -> Estimate {
     Estimate::new(value, error)
 }
 
-/// `evaluate` over a list of couplings, sharing the quadrature rules between
-/// points; `progress(done, total)` is called after each point.
+/// `evaluate` over a list of couplings, the points spread over the cores
+/// (each worker keeps its own quadrature rules); `progress(done, total)` is
+/// called on the calling thread as points finish, and the values come back
+/// in the order of `couplings`. The first failing point, in that order, is
+/// the error.
 pub fn scan(
     f: Functional,
     c2: &Float,
@@ -293,15 +334,57 @@ pub fn scan(
     digits: u32,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<Vec<Estimate>> {
-    let mut cache = RuleCache::default();
     let total = couplings.len();
+    let workers = cores().min(total).max(1);
+    let inner = (cores() / workers).max(1);
+    let next = AtomicUsize::new(0);
+    let failed = AtomicBool::new(false);
+    let mut slots: Vec<Option<Result<Estimate>>> = (0..total).map(|_| None).collect();
+    std::thread::scope(|s| {
+        let (tx, rx) = mpsc::channel();
+        for _ in 0..workers {
+            let tx = tx.clone();
+            let (next, failed) = (&next, &failed);
+            s.spawn(move || {
+                let mut cache = RuleCache::default();
+                loop {
+                    let i = next.fetch_add(1, Ordering::Relaxed);
+                    if i >= total || failed.load(Ordering::Relaxed) {
+                        break;
+                    }
+                    let g = &couplings[i];
+                    let r = evaluate_with(f, c2, g, digits, &mut cache, inner)
+                        .map_err(|e| e.context(format!("g = {}", g.to_f64())));
+                    if r.is_err() {
+                        failed.store(true, Ordering::Relaxed);
+                    }
+                    if tx.send((i, r)).is_err() {
+                        break;
+                    }
+                }
+            });
+        }
+        drop(tx);
+        let mut done = 0;
+        for (i, r) in rx {
+            let ok = r.is_ok();
+            slots[i] = Some(r);
+            if ok {
+                done += 1;
+                progress(done, total);
+            }
+        }
+    });
     let mut out = Vec::with_capacity(total);
-    for (i, g) in couplings.iter().enumerate() {
-        out.push(
-            evaluate_with(f, c2, g, digits, &mut cache)
-                .map_err(|e| e.context(format!("g = {}", g.to_f64())))?,
-        );
-        progress(i + 1, total);
+    for slot in slots {
+        match slot {
+            Some(r) => out.push(r?),
+            None => {
+                return Err(Error::numeric(
+                    "the scan stopped at an earlier failing point",
+                ))
+            }
+        }
     }
     Ok(out)
 }

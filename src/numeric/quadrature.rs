@@ -61,16 +61,14 @@ fn gauss_legendre(m: usize, prec: u32) -> GaussRule {
         (pm, d)
     };
     for i in 0..m.div_ceil(2) {
-        let guess = (PI * (i as f64 + 0.75) / (m as f64 + 0.5)).cos();
-        let mut x = Float::with_val(wprec, guess);
-        let tiny = Float::with_val(wprec, Float::i_exp(1, -(wprec as i32) + 8));
-        for _ in 0..200 {
+        let mut x = Float::with_val(wprec, root_f64(m, i));
+        // The double-precision root has about 50 correct bits and Newton
+        // doubles them per step: stop once 50 * 2^steps covers wprec.
+        let mut good = 50u32;
+        while good < wprec {
             let (p, d) = legendre(&x);
-            let dx = Float::with_val(wprec, &p / &d);
-            x -= &dx;
-            if dx.abs() < tiny {
-                break;
-            }
+            x -= Float::with_val(wprec, &p / &d);
+            good *= 2;
         }
         let (_, d) = legendre(&x);
         let one_minus = Float::with_val(wprec, 1u32 - Float::with_val(wprec, &x * &x));
@@ -81,6 +79,27 @@ fn gauss_legendre(m: usize, prec: u32) -> GaussRule {
         weights[m - 1 - i].assign(&w);
     }
     GaussRule { nodes, weights }
+}
+
+/// The i-th largest root of P_m to double precision: Newton in f64 from
+/// the asymptotic position cos(pi (i + 3/4) / (m + 1/2)) (A&S 22.16.6).
+fn root_f64(m: usize, i: usize) -> f64 {
+    let mut x = (PI * (i as f64 + 0.75) / (m as f64 + 0.5)).cos();
+    for _ in 0..100 {
+        let (mut p0, mut p1) = (1.0f64, x);
+        for k in 1..m {
+            let p2 = ((2 * k + 1) as f64 * x * p1 - k as f64 * p0) / (k + 1) as f64;
+            p0 = p1;
+            p1 = p2;
+        }
+        let d = m as f64 * (x * p1 - p0) / (x * x - 1.0);
+        let dx = p1 / d;
+        x -= dx;
+        if dx.abs() < 1e-15 {
+            break;
+        }
+    }
+    x
 }
 
 /// Gauss-Legendre rules by order and precision, computed on first use, so
@@ -102,6 +121,9 @@ impl RuleCache {
 /// Where the integrands are negligible: beyond T the tail of
 /// |J_i J_j| / (t (e^t - 1)) <= 2 e^-t / t is below exp(ln_tol).
 pub(crate) fn cutoff(ln_tol: f64) -> f64 {
+    // e^-2 of margin covers the tail's integral beyond the bound's value
+    // at T (the bound decays like e^-t, so its integral is below its value
+    // times 1 + 1/T); the half-unit step costs at most half a node panel.
     let mut t = 1.0f64;
     while (2.0f64).ln() - t - t.ln() > ln_tol - 2.0 {
         t += 0.5;
@@ -116,10 +138,19 @@ fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
     // ellipse: (h/2)(rho + 1/rho) must stay below it with a margin.
     let pole = 2.0 * PI;
     let s = (pole * pole + a * a).sqrt() + (pole * pole + (a + h) * (a + h)).sqrt();
+    // 0.9: stay a tenth inside the pole, where |1/(e^t - 1)| is still
+    // within about ten times its size on the real axis.
     let cap = (2.0 * s / h) * 0.9;
     let rho_max = 0.5 * (cap + (cap * cap - 4.0).max(0.0).sqrt());
+    // |J_i J_j| / |t|^2 near t = 0 is at most |g t|^2 / |t|^2 = g^2 (both
+    // orders >= 1, DLMF 10.14.4), and 1/|e^t - 1| <= e^2 |e^-t| on the
+    // ellipse away from the pole: hence ln max(g^2, 1) + 2 over the
+    // e^(4 g Im t - Re t) of the two Bessel factors and the weight.
     let amp = (g * g).max(1.0).ln() + 2.0;
     let mut best: Option<f64> = None;
+    // rho is scanned on a grid quadratic in its range, denser near 1 where
+    // the optimum lies at strong coupling; 120 points put the scanned
+    // optimum within a percent of the true one.
     let steps = 120;
     for k in 1..=steps {
         let rho = 1.0 + (rho_max - 1.0) * (k as f64 / steps as f64).powi(2);
@@ -132,10 +163,20 @@ fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
         let ln_m = 4.0 * g * semi_minor - left.min(a) + amp;
         let ln_err0 = (64.0f64 / 15.0).ln() + (0.5 * h).ln() + ln_m - (rho * rho - 1.0).ln();
         let n = (ln_err0 - ln_tol) / (2.0 * rho.ln());
+        // Below two points the error model is not meaningful.
         let n = n.max(2.0);
         best = Some(best.map_or(n, |b: f64| b.min(n)));
     }
+    // One point more than the model's minimum absorbs its rounding down.
     let n = best?.ceil() as usize + 1;
+    // A rule costs O(n^2) MPFR operations to compute, so orders are rounded
+    // up onto a grid of spacing about n/16 (a power of two): at most 1/16
+    // more nodes, and panels, the coarse rule and nearby couplings then
+    // share a few rules instead of computing one per panel.
+    let step = (n / 16).max(1).next_power_of_two();
+    let n = n.div_ceil(step) * step;
+    // 4000 points on one panel means the model has left its range (the
+    // widths tried below would all do better).
     (n <= 4000).then_some(n)
 }
 
@@ -145,6 +186,10 @@ fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
 pub(crate) fn plan(g: f64, ln_tol: f64) -> Option<Vec<Panel>> {
     let t_max = cutoff(ln_tol);
     let mut best: Option<(usize, Vec<Panel>)> = None;
+    // Widths from 1/2 (weak coupling: the pole at 2 pi i limits wider
+    // panels) to 8 (strong coupling: wide panels pay the fixed per-panel
+    // overhead of the error model less often); the plan is cheap (f64), so
+    // every width is tried and the fewest nodes win.
     for h in [0.5, 1.0, 2.0, 4.0, 8.0] {
         let count = (t_max / h).ceil() as usize;
         let ln_each = ln_tol - (count as f64).ln();
