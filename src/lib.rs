@@ -21,6 +21,7 @@ pub mod exact;
 pub mod fit;
 pub mod input;
 pub mod kernel;
+pub mod limits;
 pub mod numeric;
 pub mod origin;
 pub mod quantity;

@@ -238,6 +238,6 @@ fn symbolic_tilt_specialises_to_rational_tilts() {
 fn loop_orders_out_of_range_are_errors() {
     let t = c2(1, 2);
     assert!(kernel::gamma(&t, 0, &mut |_, _| {}).is_err());
-    let e = kernel::delta(&t, kernel::MAX_LOOPS + 1, &mut |_, _| {}).unwrap_err();
+    let e = kernel::delta(&t, loopwise::limits::MAX_LOOPS + 1, &mut |_, _| {}).unwrap_err();
     assert!(e.message().contains("out of range"), "{e}");
 }

@@ -21,6 +21,7 @@ use crate::exact::coupling::Coupling;
 use crate::exact::powerseries::Series;
 use crate::exact::ring::Exact;
 use crate::input::catalogue::Entry;
+use crate::limits::MAX_LOOPS;
 use crate::numeric::working_bits;
 use crate::numeric::Estimate;
 
@@ -333,7 +334,7 @@ pub fn check(
     progress: &mut dyn FnMut(&str, usize, usize),
 ) -> Result<Comparison> {
     use crate::error::Error;
-    use crate::kernel::MAX_LOOPS;
+
     use crate::quantity::Quantity;
 
     let quantity = Quantity::from_file(file, catalogue)?.ok_or_else(|| {

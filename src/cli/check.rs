@@ -14,9 +14,7 @@ use loopwise::{Error, Result};
 
 use super::progress::Progress;
 use super::{emit, in_range, DataFormatArg, Outcome};
-
-/// The most working digits of numerical comparisons.
-pub const MAX_DIGITS: u32 = 2000;
+use loopwise::limits::MAX_CHECK_DIGITS;
 
 /// The demo's series file, shipped in the binary.
 const DEMO: &str = include_str!("../../series/examples/demo-cusp.yaml");
@@ -74,7 +72,7 @@ fn display_name(path: &Path) -> String {
 }
 
 pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
-    in_range("--digits", args.digits, 6, MAX_DIGITS)?;
+    in_range("--digits", args.digits, 6, MAX_CHECK_DIGITS)?;
     let format: DataFormat = args.format.into();
     if args.files.iter().filter(|p| p.as_os_str() == "-").count() > 1 {
         return Err(Error::input(

@@ -9,9 +9,7 @@ use loopwise::report::decimal::number_text;
 use loopwise::Result;
 
 use super::{emit, in_range, Outcome};
-
-/// The most digits `eval` prints.
-pub const MAX_DIGITS: u32 = 10_000;
+use loopwise::limits::MAX_PRINTED_DIGITS;
 
 #[derive(ClapArgs, Debug)]
 pub struct Args {
@@ -24,7 +22,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
-    in_range("--digits", args.digits, 1, MAX_DIGITS)?;
+    in_range("--digits", args.digits, 1, MAX_PRINTED_DIGITS)?;
     let value = number(&args.expr, catalogue, args.digits)?;
     emit(&format!("{}\n", number_text(&value, args.digits)))?;
     Ok(Outcome::Done)

@@ -4,16 +4,15 @@ use clap::Args as ClapArgs;
 
 use loopwise::exact::coupling::Coupling;
 use loopwise::input::catalogue::Catalogue;
-use loopwise::kernel::MAX_LOOPS;
+
 use loopwise::quantity::Quantity;
 use loopwise::report::expansion::Expansion;
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
 use super::{emit, in_range, CouplingArg, EvenArg, FormatArg, Outcome};
-
-/// The largest number of significant digits `--digits` accepts.
-pub const MAX_DIGITS: u32 = 10_000;
+use loopwise::limits::MAX_LOOPS;
+use loopwise::limits::MAX_PRINTED_DIGITS;
 
 #[derive(ClapArgs, Debug)]
 pub struct Args {
@@ -46,7 +45,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
             args.loops
         )));
     }
-    in_range("--digits", args.digits, 1, MAX_DIGITS)?;
+    in_range("--digits", args.digits, 1, MAX_PRINTED_DIGITS)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
     let mut progress = Progress::new();
     let series = quantity.expand(args.loops, &mut |what, done, total| {

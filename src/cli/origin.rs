@@ -14,8 +14,8 @@ use loopwise::origin::read::{parse_origin_text, read_origin_file, OriginData};
 use loopwise::report::{fit as fit_report, origin as origin_report, DataFormat};
 use loopwise::Result;
 
-use super::check::MAX_DIGITS;
 use super::{emit, in_range, DataFormatArg, EvenArg, Outcome};
+use loopwise::limits::MAX_CHECK_DIGITS;
 
 /// The origin demo's series file, shipped in the binary.
 const DEMO: &str = include_str!("../../series/examples/demo-origin.yaml");
@@ -72,7 +72,7 @@ fn report(
 }
 
 pub fn origin(args: &OriginArgs, catalogue: &Catalogue) -> Result<Outcome> {
-    in_range("--digits", args.digits, 6, MAX_DIGITS)?;
+    in_range("--digits", args.digits, 6, MAX_CHECK_DIGITS)?;
     let data = read_origin_file(&args.file)?;
     let (text, agrees) = report(&data, catalogue, args.format.into(), args.even, args.digits)?;
     emit(&text)?;

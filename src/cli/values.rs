@@ -6,8 +6,7 @@ use std::path::PathBuf;
 use clap::{Args as ClapArgs, ValueEnum};
 
 use loopwise::input::catalogue::Catalogue;
-use loopwise::kernel::MAX_LOOPS;
-use loopwise::numeric::MAX_DIGITS;
+
 use loopwise::numeric::{bits_for_digits, working_bits};
 use loopwise::quantity::curves::{self, Companions};
 use loopwise::quantity::finite::{self, parse_couplings, GridPoints};
@@ -19,12 +18,10 @@ use loopwise::{Error, Result};
 
 use super::progress::Progress;
 use super::{emit, DataFormatArg, Outcome};
-
-/// The most couplings `at` and `scan` take in one run.
-const MAX_POINTS: usize = 100_000;
-
-/// The most points along a plot's range: more add nothing a figure can show.
-const MAX_PLOT_POINTS: usize = 2_000;
+use loopwise::limits::MAX_FINITE_DIGITS;
+use loopwise::limits::MAX_LOOPS;
+use loopwise::limits::MAX_PLOT_POINTS;
+use loopwise::limits::MAX_POINTS;
 
 /// Points of a START:STOP grid when `--points` is not given.
 const DEFAULT_POINTS: usize = 61;
@@ -34,9 +31,9 @@ fn grid_points(points: Option<usize>) -> GridPoints {
 }
 
 fn check_digits(digits: u32) -> Result<()> {
-    if digits == 0 || digits > MAX_DIGITS {
+    if digits == 0 || digits > MAX_FINITE_DIGITS {
         return Err(Error::range(format!(
-            "--digits {digits} is out of range: the finite-coupling engine delivers 1 to {MAX_DIGITS} digits honestly"
+            "--digits {digits} is out of range: the finite-coupling engine delivers 1 to {MAX_FINITE_DIGITS} digits honestly"
         )));
     }
     Ok(())

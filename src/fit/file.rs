@@ -10,7 +10,8 @@ use crate::exact::ring::Exact;
 use crate::fit::{self, BasisElement, Fit};
 use crate::input::catalogue::Catalogue;
 use crate::input::seriesfile::{Located, OrderEntry, SeriesFile};
-use crate::kernel::MAX_LOOPS;
+
+use crate::limits::MAX_LOOPS;
 use crate::origin::read::{exact_coefficient, numeric_source};
 
 /// The loop coefficients of a file as fit data in g^2: exact, without symbols.

@@ -31,7 +31,6 @@ use crate::error::{Error, Result};
 use crate::exact::powerseries::Series;
 use crate::exact::ring::{Exact, Monomial};
 use crate::input::catalogue::Catalogue;
-use crate::kernel;
 use crate::quantity::{Expander, Quantity, Scope};
 use linear::{reduce, Reduced};
 
@@ -268,7 +267,7 @@ pub fn fit(
         .map(|(l, _)| *l)
         .max()
         .ok_or_else(|| Error::input("nothing to fit: no orders given"))?;
-    let depth = highest.max(ceiling.min(kernel::MAX_LOOPS)).max(1);
+    let depth = highest.max(ceiling.min(crate::limits::MAX_LOOPS)).max(1);
     let basis = expand_basis(elements, depth, catalogue)?;
     let solution = solve(target, &basis.series)?;
     let fixing = match &solution {

@@ -19,6 +19,7 @@ mod tilt;
 use crate::error::{Error, Result};
 use crate::exact::powerseries::Series;
 use crate::exact::ring::Exact;
+use crate::limits::MAX_LOOPS;
 
 pub use entries::entry;
 pub use recursion::TiltFactors;
@@ -26,10 +27,6 @@ pub use tilt::Tilt;
 
 /// The name of the symbolic tilt in the coefficient ring.
 pub const C2: &str = "c2";
-
-/// The largest loop order the exact engine accepts: 50 loops take about 30 s
-/// and 2 GiB on two cores, and the cost grows about tenfold every ten loops.
-pub const MAX_LOOPS: u32 = 50;
 
 pub use crate::input::expr::Functional;
 

@@ -29,6 +29,8 @@ use rug::float::Round;
 use rug::Float;
 
 use crate::error::{Error, Result};
+use crate::limits::MAX_FINITE_DIGITS;
+use crate::limits::{MAX_COUPLING, MAX_TRUNCATION};
 use bessel::ln_magnitude;
 use matrix::{factor, factor_nested, kernel_integrals, tilted_system};
 use quadrature::{plan, weighted_nodes, RuleCache};
@@ -48,15 +50,6 @@ pub fn bits_for_digits(digits: u32) -> u32 {
 pub fn working_bits(digits: u32) -> u32 {
     bits_for_digits(digits) + 64
 }
-
-/// Largest number of significant digits `evaluate` accepts.
-pub const MAX_DIGITS: u32 = 200;
-
-/// Coupling beyond which the truncation and node counts become impractical.
-pub const MAX_COUPLING: f64 = 200.0;
-
-/// Largest truncation the engine will try.
-const MAX_SIZE: usize = 3000;
 
 /// ln of an a-priori magnitude of the diagonal entry K'_mm ~ 4m S_mm: the
 /// peak of J_m(2gt)^2 / (t (e^t - 1)) over t, times 4m.
@@ -122,9 +115,9 @@ fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
     let mut n = 1;
     while ln_truncation(f, n, g) > ln_tol - LN_10 {
         n += 1 + n / 32;
-        if n > MAX_SIZE {
+        if n > MAX_TRUNCATION {
             return Err(Error::numeric(format!(
-                "the requested accuracy at g = {g} needs a truncation above {MAX_SIZE}"
+                "the requested accuracy at g = {g} needs a truncation above {MAX_TRUNCATION}"
             )));
         }
     }
@@ -133,7 +126,7 @@ fn sizes(f: Functional, g: f64, ln_tol: f64) -> Result<(usize, usize)> {
     // F(N2) by about a thousand; at least two more rows in any case.
     let goal = ln_truncation(f, n, g) - 3.0 * LN_10;
     let mut n2 = n + 2;
-    while ln_truncation(f, n2, g) > goal && n2 < MAX_SIZE {
+    while ln_truncation(f, n2, g) > goal && n2 < MAX_TRUNCATION {
         n2 += 1 + n2 / 32;
     }
     Ok((n, n2))
@@ -204,9 +197,9 @@ fn attempt(
 }
 
 fn check_inputs(c2: &Float, g: &Float, digits: u32) -> Result<()> {
-    if digits == 0 || digits > MAX_DIGITS {
+    if digits == 0 || digits > MAX_FINITE_DIGITS {
         return Err(Error::range(format!(
-            "digits must be between 1 and {MAX_DIGITS}, got {digits}"
+            "digits must be between 1 and {MAX_FINITE_DIGITS}, got {digits}"
         )));
     }
     if c2.is_nan() || *c2 < 0 || *c2 > 1 {

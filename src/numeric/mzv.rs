@@ -23,20 +23,16 @@
 use rug::{Assign, Float, Integer};
 
 use crate::error::{Error, Result};
-
-/// Largest depth k accepted.
-pub const MAX_DEPTH: usize = 8;
-/// Largest weight s1 + ... + sk accepted.
-pub const MAX_WEIGHT: u32 = 200;
-/// Largest precision in bits accepted.
-pub const MAX_PREC: u32 = 40_000;
+use crate::limits::MAX_MZV_PREC;
+use crate::limits::MAX_MZV_WEIGHT;
+use crate::limits::MAX_ZETA_DEPTH;
 
 /// zeta(s1, ..., sk) = sum_{n1 > n2 > ... > nk >= 1} n1^-s1 ... nk^-sk to
 /// `prec` bits, with relative error below 2^-(prec-1).
 ///
 /// Errors (kind Input): empty list, s1 < 2, any si == 0. Errors (kind Range):
-/// depth above [`MAX_DEPTH`], weight above [`MAX_WEIGHT`], `prec` of 0 or
-/// above [`MAX_PREC`].
+/// depth above [`MAX_ZETA_DEPTH`], weight above [`MAX_MZV_WEIGHT`], `prec` of 0 or
+/// above [`MAX_MZV_PREC`].
 pub fn mzv(s: &[u32], prec: u32) -> Result<Float> {
     let weight = check_arguments(s, prec)?;
     let word = word_of(s);
@@ -84,23 +80,23 @@ fn check_arguments(s: &[u32], prec: u32) -> Result<u32> {
             join(s)
         )));
     }
-    if s.len() > MAX_DEPTH {
+    if s.len() > MAX_ZETA_DEPTH {
         return Err(Error::range(format!(
-            "zeta({}): depth {} exceeds the supported {MAX_DEPTH}",
+            "zeta({}): depth {} exceeds the supported {MAX_ZETA_DEPTH}",
             join(s),
             s.len()
         )));
     }
     let weight: u64 = s.iter().map(|&x| x as u64).sum();
-    if weight > MAX_WEIGHT as u64 {
+    if weight > MAX_MZV_WEIGHT as u64 {
         return Err(Error::range(format!(
-            "zeta({}): weight {weight} exceeds the supported {MAX_WEIGHT}",
+            "zeta({}): weight {weight} exceeds the supported {MAX_MZV_WEIGHT}",
             join(s)
         )));
     }
-    if prec == 0 || prec > MAX_PREC {
+    if prec == 0 || prec > MAX_MZV_PREC {
         return Err(Error::range(format!(
-            "precision {prec} bits is outside the supported 1..={MAX_PREC}"
+            "precision {prec} bits is outside the supported 1..={MAX_MZV_PREC}"
         )));
     }
     Ok(weight as u32)

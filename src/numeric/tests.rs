@@ -223,7 +223,13 @@ fn inputs_outside_the_domain_are_refused() {
     let e = evaluate(Functional::Delta, &fl("-0.01"), &ok_g, 10).unwrap_err();
     assert!(e.message().contains("[0, 1]"));
     assert!(evaluate(Functional::Delta, &ok_c, &ok_g, 0).is_err());
-    let e = evaluate(Functional::Delta, &ok_c, &ok_g, MAX_DIGITS + 1).unwrap_err();
+    let e = evaluate(
+        Functional::Delta,
+        &ok_c,
+        &ok_g,
+        crate::limits::MAX_FINITE_DIGITS + 1,
+    )
+    .unwrap_err();
     assert!(e.message().contains("digits"));
     let nan = Float::with_val(P, rug::float::Special::Nan);
     assert!(evaluate(Functional::Gamma, &ok_c, &nan, 10).is_err());

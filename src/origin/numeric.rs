@@ -24,16 +24,13 @@ use crate::exact::powerseries::{Series, SeriesCoefficients};
 use crate::exact::ring::Exact;
 use crate::input::expr::{for_each_symbol, Expr, Node};
 use crate::input::seriesfile::Located;
+use crate::limits::MAX_LOG_POWER;
 pub use crate::numeric::evaluate::needs_numbers;
 use crate::numeric::evaluate::{self, Context};
 use crate::numeric::Estimate;
 pub use crate::origin::analysis::Exponents;
 use crate::origin::analysis::{self, permutations, permuted, Analysis, LogPolynomials};
 use crate::origin::{one_loop_limit, OrderReading, OriginLogs};
-
-/// The highest power of a log a numerical coefficient may reach; far beyond
-/// any bootstrap output (degree 2L), and it keeps products from overflowing.
-const MAX_POWER: u32 = 1 << 16;
 
 fn zero(prec: u32) -> Estimate {
     Estimate::exact(Float::with_val(prec, 0))
@@ -126,9 +123,9 @@ impl NumPoly {
                 let mut e = [0; 3];
                 for i in 0..3 {
                     e[i] = ea[i] + eb[i];
-                    if e[i] > MAX_POWER {
+                    if e[i] > MAX_LOG_POWER {
                         return Err(Error::range(format!(
-                            "a power of a log above {MAX_POWER} in a numerical origin coefficient"
+                            "a power of a log above {MAX_LOG_POWER} in a numerical origin coefficient"
                         )));
                     }
                 }
@@ -249,7 +246,7 @@ impl Reader<'_> {
                     Some(self.number(b)?)
                 };
                 let k = k
-                    .filter(|k| k.is_exact() && k.value.is_integer() && k.value >= 0 && k.value <= MAX_POWER)
+                    .filter(|k| k.is_exact() && k.value.is_integer() && k.value >= 0 && k.value <= MAX_LOG_POWER)
                     .and_then(|k| k.value.to_integer())
                     .and_then(|k| k.to_u32())
                     .ok_or_else(|| self.fail(b.span, "a power of the logs takes a whole exponent from 0 up (a polynomial in the logs)"))?;

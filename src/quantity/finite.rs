@@ -85,15 +85,15 @@ pub fn values(
     digits: u32,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<Vec<Estimate>> {
-    if digits == 0 || digits > engine::MAX_DIGITS {
+    if digits == 0 || digits > crate::limits::MAX_FINITE_DIGITS {
         return Err(Error::range(format!(
             "{digits} digits is out of range: the finite-coupling engine delivers 1 to {}",
-            engine::MAX_DIGITS
+            crate::limits::MAX_FINITE_DIGITS
         )));
     }
     let prec = bits(digits);
     let parts = functionals(q, prec)?;
-    let inner_digits = (digits + 3).min(engine::MAX_DIGITS);
+    let inner_digits = (digits + 3).min(crate::limits::MAX_FINITE_DIGITS);
     let total = parts.len().max(1) * couplings.len();
     let mut tables: Vec<Vec<Estimate>> = Vec::new();
     for (k, (f, _, c2)) in parts.iter().enumerate() {
@@ -204,7 +204,7 @@ pub fn parse_couplings(
     max_points: usize,
     prec: u32,
 ) -> Result<Vec<Float>> {
-    let limit = engine::MAX_COUPLING;
+    let limit = crate::limits::MAX_COUPLING;
     let number = |t: &str| -> Result<Float> {
         let t = t.trim();
         let parsed = Float::parse(t).map_err(|_| {

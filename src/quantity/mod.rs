@@ -22,14 +22,10 @@ use crate::input::expr::{self, Angle, Expr, Functional, Node, Site, Span};
 use crate::input::seriesfile::SeriesFile;
 use crate::input::suggest::did_you_mean;
 use crate::kernel::{self, Tilt};
+use crate::limits::MAX_NAME_DEPTH;
 
 /// The name of the coupling in formulas.
 pub const COUPLING: &str = "g";
-
-/// How many catalogue definitions may stand inside one another (`a` defined
-/// through `b` defined through ...); far above any real catalogue, low
-/// enough to stop a cycle of user entries at once.
-const MAX_NAME_DEPTH: usize = 16;
 
 /// A quantity the user named: the text of its formula and where it came from.
 #[derive(Clone, Debug)]

@@ -266,7 +266,7 @@ fn text(c: &Comparison) -> String {
             &format!(
                 "not compared: {which} {list} {are} beyond the {} loops the prediction is expanded to, so the file \
                  is not a pass even where every compared order agrees.",
-                crate::kernel::MAX_LOOPS
+                crate::limits::MAX_LOOPS
             ),
             88,
         ));

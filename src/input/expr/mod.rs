@@ -30,10 +30,6 @@ mod site;
 use std::fmt;
 
 pub(crate) use parse::parse_unrendered;
-pub use parse::{
-    MAX_DEPTH, MAX_DIGITS, MAX_EXPONENT, MAX_NESTING, MAX_SOURCE_BYTES, MAX_ZETA_ARGUMENT,
-    MAX_ZETA_DEPTH,
-};
 pub(crate) use site::line_column;
 pub use site::Site;
 

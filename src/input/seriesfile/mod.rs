@@ -73,10 +73,9 @@ mod reader;
 use raw::RawFile;
 use reader::Reader;
 
-/// Largest accepted series file, in bytes.
-pub const MAX_FILE_BYTES: usize = 16 << 20;
-/// Highest loop order a file may give.
-pub const MAX_LOOP: u32 = 200;
+use crate::limits::MAX_FILE_BYTES;
+use crate::limits::MAX_FILE_LOOP;
+use crate::limits::MAX_YAML_DEPTH;
 
 const TOP_KEYS: [&str; 6] = [
     "prediction",
@@ -254,12 +253,6 @@ pub fn parse_series_text(text: &str, origin: &str) -> Result<SeriesFile> {
     }
     .check(raw)
 }
-
-/// Deepest nesting of YAML collections accepted. A series file needs three
-/// levels (the file, `orders`, an entry); `about` may nest a few more. The
-/// YAML parser's cost grows quadratically with the depth of flow
-/// collections, so a pathological file is refused before it is parsed.
-pub const MAX_YAML_DEPTH: usize = 64;
 
 /// Refuses over-deep nesting in one linear pass: flow brackets (`[`, `{`)
 /// outside quoted text and comments, and compact block nesting (`- - - x`).

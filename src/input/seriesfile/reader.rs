@@ -349,20 +349,20 @@ impl<'a> Reader<'a> {
         let loop_at = self.at(self.position(self.value_offset(lk, lv)));
         let loop_text = lv.text().trim();
         let loop_order = match loop_text.parse::<i64>() {
-            Ok(n) if (1..=i64::from(MAX_LOOP)).contains(&n) => n as u32,
+            Ok(n) if (1..=i64::from(MAX_FILE_LOOP)).contains(&n) => n as u32,
             Ok(n) => {
                 return Err(Error::range(format!(
-                    "loop order {n} {loop_at} is outside 1..{MAX_LOOP}"
+                    "loop order {n} {loop_at} is outside 1..{MAX_FILE_LOOP}"
                 )))
             }
             Err(_) if !loop_text.is_empty() && loop_text.bytes().all(|b| b.is_ascii_digit()) => {
                 return Err(Error::range(format!(
-                    "loop order {loop_text} {loop_at} is outside 1..{MAX_LOOP}"
+                    "loop order {loop_text} {loop_at} is outside 1..{MAX_FILE_LOOP}"
                 )))
             }
             Err(_) => {
                 return Err(Error::input(format!(
-                    "loop order `{loop_text}` {loop_at} is not a whole number from 1 to {MAX_LOOP}"
+                    "loop order `{loop_text}` {loop_at} is not a whole number from 1 to {MAX_FILE_LOOP}"
                 )))
             }
         };

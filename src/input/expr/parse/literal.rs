@@ -117,19 +117,19 @@ fn written<'a>(ctx: &Ctx<'_>, p: Pair<'a, Rule>) -> Fallible<Written<'a>> {
                     }
                     None => w.whole = t,
                 }
-                if w.whole.len() + w.fraction.len() > MAX_DIGITS {
+                if w.whole.len() + w.fraction.len() > MAX_LITERAL_DIGITS {
                     return Err(ctx.error(
                         span_of(&q),
-                        &format!("number with more than {MAX_DIGITS} digits"),
+                        &format!("number with more than {MAX_LITERAL_DIGITS} digits"),
                     ));
                 }
             }
             Rule::last_digits => {
                 let d = q.as_str().trim_start_matches('(').trim_end_matches(')');
-                if d.len() > MAX_DIGITS {
+                if d.len() > MAX_LITERAL_DIGITS {
                     return Err(ctx.error(
                         span_of(&q),
-                        &format!("uncertainty with more than {MAX_DIGITS} digits"),
+                        &format!("uncertainty with more than {MAX_LITERAL_DIGITS} digits"),
                     ));
                 }
                 w.last_digits = Some(d);

@@ -21,6 +21,14 @@ mod literal;
 
 use literal::{bracketed_number, fortran_exponent, number_literal};
 
+use crate::limits::MAX_EXPONENT;
+use crate::limits::MAX_LITERAL_DIGITS;
+use crate::limits::MAX_NESTING;
+use crate::limits::MAX_SOURCE_BYTES;
+use crate::limits::MAX_TREE_DEPTH;
+use crate::limits::MAX_ZETA_ARGUMENT;
+use crate::limits::MAX_ZETA_DEPTH;
+
 /// A failed parse before it is rendered: where, and what went wrong. The
 /// series-file reader renders these against the file itself.
 #[derive(Debug, Clone)]
@@ -35,25 +43,9 @@ type Fallible<T> = std::result::Result<T, Failure>;
 #[grammar = "../grammar/expr.pest"]
 struct ExprGrammar;
 
-/// Longest accepted source text, in bytes.
-pub const MAX_SOURCE_BYTES: usize = 1 << 20;
-/// Deepest accepted nesting of `(` and `[`.
-pub const MAX_NESTING: usize = 64;
-/// Deepest accepted tree (a sum of n terms is n deep); evaluators may
-/// recurse this far.
-pub const MAX_DEPTH: usize = 2000;
 /// Most signs and powers in one chain (`- - -x`, `2^2^2^2`); each costs a
 /// level of recursion in the Pratt parser.
 const MAX_CHAIN: usize = 100;
-/// Most digits in one number literal.
-pub const MAX_DIGITS: usize = 5000;
-/// Largest |exponent| of a decimal literal (`1e400` is fine, `1e99999` is
-/// almost certainly a mangled paste and would cost a huge integer).
-pub const MAX_EXPONENT: u32 = 1000;
-/// Largest argument of a zeta value.
-pub const MAX_ZETA_ARGUMENT: u32 = 1000;
-/// Largest depth of a multiple zeta value.
-pub const MAX_ZETA_DEPTH: usize = 8;
 /// Backstop on pest's total work for one parse; far above what any accepted
 /// source needs (a few dozen calls per byte).
 const CALL_LIMIT: usize = 200_000_000;
@@ -282,11 +274,11 @@ fn grammar_error(ctx: &Ctx<'_>, e: pest::error::Error<Rule>) -> Failure {
 }
 
 fn node(node: Node, span: Span, depth: usize, ctx: &Ctx<'_>) -> Fallible<Built> {
-    if depth > MAX_DEPTH {
+    if depth > MAX_TREE_DEPTH {
         return Err(ctx.error(
             span,
             &format!(
-                "expression more than {MAX_DEPTH} operations deep; split it into several entries"
+                "expression more than {MAX_TREE_DEPTH} operations deep; split it into several entries"
             ),
         ));
     }
