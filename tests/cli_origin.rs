@@ -7,7 +7,7 @@
 use std::path::PathBuf;
 mod common;
 
-use common::{loopwise, loopwise_with_stdin};
+use common::{diagnoses, loopwise, loopwise_with_stdin};
 
 use loopwise::exact::powerseries::Series;
 use loopwise::exact::ring::{EvenStyle, Exact, Notation};
@@ -267,15 +267,6 @@ fn exponentiated_prediction_round_trips_and_a_cubic_term_breaks_one_order() {
         v["summary"],
         "order 1 agrees, order 2 breaks exponentiation, order 3 not examined"
     );
-}
-
-fn diagnoses(v: &serde_json::Value) -> Vec<String> {
-    v["diagnoses"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .map(|d| d.as_str().unwrap().to_string())
-        .collect()
 }
 
 /// Item 10 of issue 8: `origin` names the coupling-convention and sign

@@ -40,3 +40,14 @@ pub fn loopwise_with_stdin(args: &[&str], input: &str) -> (i32, String, String) 
         String::from_utf8_lossy(&out.stderr).into_owned(),
     )
 }
+
+/// The diagnoses of a JSON report, as text.
+#[allow(dead_code)]
+pub fn diagnoses(v: &serde_json::Value) -> Vec<String> {
+    v["diagnoses"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|d| d.as_str().unwrap().to_string())
+        .collect()
+}
