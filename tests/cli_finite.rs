@@ -469,3 +469,60 @@ fn plot_skips_the_weak_coupling_series_it_cannot_expand() {
         "a curve that cannot exist was drawn"
     );
 }
+
+/// `scan --shard K/N` over all K, merged in any order, prints exactly what
+/// the unsplit scan prints (CSV and JSON); parts missing, given twice or
+/// from another scan are refused with exit code 2 and a message naming them.
+#[test]
+fn sharded_scans_merge_into_the_whole_scan() {
+    let dir = std::env::temp_dir().join(format!("loopwise-shards-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let scan = |extra: &[&str]| {
+        let mut args = vec!["scan", "octagon", "--g", "0:1.5:0.25"];
+        if !extra.contains(&"--digits") {
+            args.extend(["--digits", "12"]);
+        }
+        args.extend_from_slice(extra);
+        let (code, out, err) = loopwise(&args);
+        assert_eq!(code, 0, "{err}");
+        out
+    };
+    for format in ["csv", "json"] {
+        let whole = scan(&["--format", format]);
+        let mut files = Vec::new();
+        for k in [3, 1, 2] {
+            let path = dir.join(format!("part{k}.{format}"));
+            std::fs::write(
+                &path,
+                scan(&["--format", format, "--shard", &format!("{k}/3")]),
+            )
+            .unwrap();
+            files.push(path.to_string_lossy().to_string());
+        }
+        let mut args = vec!["merge"];
+        args.extend(files.iter().map(String::as_str));
+        let (code, out, err) = loopwise(&args);
+        assert_eq!(code, 0, "{err}");
+        assert_eq!(out, whole, "{format}");
+        let (code, _, err) = loopwise(&["merge", &files[0], &files[1]]);
+        assert_eq!(code, 2);
+        assert!(err.contains("parts missing: 2/3"), "{err}");
+        let (code, _, err) = loopwise(&["merge", &files[0], &files[0], &files[1], &files[2]]);
+        assert_eq!(code, 2);
+        assert!(err.contains("overlap"), "{err}");
+    }
+    let other = dir.join("other.csv");
+    std::fs::write(&other, scan(&["--digits", "11", "--shard", "2/3"])).unwrap();
+    let p = |k: u32| {
+        dir.join(format!("part{k}.csv"))
+            .to_string_lossy()
+            .to_string()
+    };
+    let (code, _, err) = loopwise(&["merge", &p(1), &other.to_string_lossy(), &p(3)]);
+    assert_eq!(code, 2);
+    assert!(err.contains("another scan"), "{err}");
+    let (code, _, err) = loopwise(&["scan", "octagon", "--g", "0:1:0.5", "--shard", "4/3"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--shard 4/3"), "{err}");
+    std::fs::remove_dir_all(&dir).unwrap();
+}

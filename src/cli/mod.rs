@@ -54,8 +54,10 @@ pub enum Command {
     Fit(origin::FitArgs),
     /// Values at finite coupling, with error estimates.
     At(values::AtArgs),
-    /// Values on a grid of couplings, as CSV or JSON.
+    /// Values on a grid of couplings, as CSV or JSON; a part of the grid with --shard.
     Scan(values::ScanArgs),
+    /// Join the outputs of `scan --shard K/N` into the output of the whole scan.
+    Merge(values::MergeArgs),
     /// Draw finite-coupling curves, weak- and strong-coupling expansions (SVG).
     Plot(values::PlotArgs),
     /// Radius of convergence of the weak-coupling series (ratio and root tests).
@@ -201,6 +203,7 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::Fit(args) => origin::fit(args, &catalogue),
         Command::At(args) => values::at(args, &catalogue),
         Command::Scan(args) => values::scan(args, &catalogue),
+        Command::Merge(args) => values::merge(args),
         Command::Plot(args) => values::plot(args, &catalogue),
         Command::Radius(args) => values::radius(args, &catalogue),
         Command::Selftest => values::selftest(),

@@ -4,16 +4,21 @@
 use std::path::PathBuf;
 
 use clap::{Args as ClapArgs, ValueEnum};
+use rug::Float;
 
 use loopwise::input::catalogue::Catalogue;
 
+use loopwise::input::seriesfile::read_input;
 use loopwise::numeric::{bits_for_digits, working_bits};
 use loopwise::quantity::curves::{self, Companions};
 use loopwise::quantity::finite::{self, parse_couplings, GridPoints};
 use loopwise::quantity::selftest::{self_checks, SelfCheck};
+use loopwise::quantity::shard::{self, ScanId, Shard};
 use loopwise::quantity::Quantity;
 use loopwise::report::svg;
-use loopwise::report::values::{radius_text, scan_rows, selftest_text, AtReport, AtRow};
+use loopwise::report::values::{
+    radius_text, scan_row, scan_rows, scan_text, selftest_text, shard_text, AtReport, AtRow,
+};
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
@@ -117,6 +122,17 @@ pub struct ScanArgs {
     /// Output format.
     #[arg(long, value_enum, default_value = "csv")]
     pub format: ScanFormat,
+    /// Compute only part K of N of the grid (points K-1, K-1+N, ...), e.g. a
+    /// batch job array's task number as K; `loopwise merge` joins the parts.
+    #[arg(long, value_name = "K/N")]
+    pub shard: Option<String>,
+}
+
+#[derive(ClapArgs, Debug)]
+pub struct MergeArgs {
+    /// The outputs of `scan --shard K/N`, one per part, in any order.
+    #[arg(required = true)]
+    pub files: Vec<PathBuf>,
 }
 
 pub fn scan(args: &ScanArgs, catalogue: &Catalogue) -> Result<Outcome> {
@@ -127,20 +143,54 @@ pub fn scan(args: &ScanArgs, catalogue: &Catalogue) -> Result<Outcome> {
             args.g
         )));
     }
+    let shard = args.shard.as_deref().map(Shard::parse).transpose()?;
     let prec = bits_for_digits(args.digits) + 64;
     let couplings = parse_couplings(&args.g, grid_points(args.points), MAX_POINTS, prec)?;
     let quantity = Quantity::resolve(&args.quantity, catalogue)?;
+    let json = matches!(args.format, ScanFormat::Json);
+    let points: Vec<usize> = match shard {
+        Some(s) => s.points(couplings.len()),
+        None => (0..couplings.len()).collect(),
+    };
+    let chosen: Vec<Float> = points.iter().map(|&i| couplings[i].clone()).collect();
     let mut progress = Progress::new();
-    let values = finite::values(&quantity, &couplings, args.digits, &mut |d, t| {
+    let values = finite::values(&quantity, &chosen, args.digits, &mut |d, t| {
         progress.update("scan", d, t)
     });
     progress.finish();
-    emit(&scan_rows(
-        &couplings,
-        &values?,
-        args.digits,
-        matches!(args.format, ScanFormat::Json),
-    )?)?;
+    let values = values?;
+    let text = match shard {
+        None => scan_rows(&chosen, &values, args.digits, json)?,
+        Some(s) => {
+            let id = ScanId {
+                quantity: args.quantity.clone(),
+                grid: match args.points {
+                    Some(n) => format!("{} --points {n}", args.g),
+                    None => args.g.clone(),
+                },
+                digits: args.digits,
+                points: couplings.len(),
+            };
+            let rows = chosen
+                .iter()
+                .zip(&values)
+                .map(|(g, e)| scan_row(g, e, args.digits))
+                .collect();
+            shard_text(s, &id, &points, rows, json)?
+        }
+    };
+    emit(&text)?;
+    Ok(Outcome::Done)
+}
+
+pub fn merge(args: &MergeArgs) -> Result<Outcome> {
+    let files = args
+        .files
+        .iter()
+        .map(|p| read_input(p).map(|(text, name)| (name, text)))
+        .collect::<Result<Vec<_>>>()?;
+    let merged = shard::merge(&files)?;
+    emit(&scan_text(&merged.rows, merged.json)?)?;
     Ok(Outcome::Done)
 }
 

@@ -8,6 +8,7 @@
 pub mod curves;
 pub mod finite;
 pub mod selftest;
+pub mod shard;
 
 use std::collections::HashMap;
 

@@ -12,6 +12,7 @@ use crate::input::catalogue::{Entry, Status};
 use crate::numeric::convergence::RadiusEstimate;
 use crate::numeric::Estimate;
 use crate::quantity::selftest::{SelfCheck, LOOPS};
+use crate::quantity::shard::{csv_header, IndexedRow, ScanId, ScanRow, Shard, ShardJson};
 
 /// One coupling of `at`.
 pub struct AtRow {
@@ -158,30 +159,68 @@ impl AtReport {
     }
 }
 
-/// Rows of `scan` as CSV (g,value,error) or JSON.
+/// The printed form of each point of a scan.
+pub fn scan_row(g: &Float, e: &Estimate, digits: u32) -> ScanRow {
+    ScanRow {
+        g: g_text(g),
+        value: value_text(e, digits),
+        error: decimal(&e.error, 2),
+        digits: Some(e.digits_supported().min(digits)),
+    }
+}
+
+/// A scan as CSV (`g,value,error`) or as a JSON list of rows.
 pub fn scan_rows(
     couplings: &[Float],
     values: &[Estimate],
     digits: u32,
     json: bool,
 ) -> Result<String> {
-    let rows: Vec<JsonRow> = couplings
+    let rows: Vec<ScanRow> = couplings
         .iter()
         .zip(values)
-        .map(|(g, e)| JsonRow {
-            g: g_text(g),
-            value: value_text(e, digits),
-            error: decimal(&e.error, 2),
-            digits: e.digits_supported().min(digits),
-            strong_coupling: None,
-        })
+        .map(|(g, e)| scan_row(g, e, digits))
         .collect();
+    scan_text(&rows, json)
+}
+
+/// Rows already printed (a scan, or the parts `merge` joined).
+pub fn scan_text(rows: &[ScanRow], json: bool) -> Result<String> {
     if json {
         return super::serialized(&rows, DataFormat::Json);
     }
     let mut out = String::from("g,value,error\n");
     for r in rows {
         out.push_str(&format!("{},{},{}\n", r.g, r.value, r.error));
+    }
+    Ok(out)
+}
+
+/// One part of a scan: its points with their grid indices, and what
+/// identifies the scan, so that `merge` can check the parts belong together.
+pub fn shard_text(
+    shard: Shard,
+    id: &ScanId,
+    points: &[usize],
+    rows: Vec<ScanRow>,
+    json: bool,
+) -> Result<String> {
+    if json {
+        let j = ShardJson {
+            shard: format!("{}/{}", shard.index, shard.count),
+            id: id.clone(),
+            rows: points
+                .iter()
+                .zip(rows)
+                .map(|(&point, row)| IndexedRow { point, row })
+                .collect(),
+        };
+        return super::serialized(&j, DataFormat::Json);
+    }
+    let mut out = csv_header(shard, id);
+    out.push_str("\npoint,g,value,error\n");
+    for (i, r) in points.iter().zip(rows) {
+        out.push_str(&format!("{i},{},{},{}\n", r.g, r.value, r.error));
     }
     Ok(out)
 }
