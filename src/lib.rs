@@ -2,6 +2,15 @@
 //! planar N=4 super-Yang-Mills, and order-by-order checks of users' results
 //! against them.
 //!
+//! The modules are the stages of the data flow, each using only those
+//! before it: [`exact`] (the ring, power series and coupling conventions),
+//! [`input`] (the coefficient language, series files, the catalogue),
+//! [`kernel`] (the exact
+//! engine), [`numeric`] (MPFR numbers, the finite-coupling engine),
+//! [`quantity`] (predictions, exactly and as functions of g), [`check`]
+//! (verdicts), [`origin`] (the six-gluon origin), [`fit`] (exact fits), and
+//! [`report`] (all printing); [`limits`] holds every limit.
+//!
 //! The exact engine in a few lines: the cusp anomalous dimension through four
 //! loops, in g^2 = lambda/(16 pi^2) (hep-th/0610251).
 //!

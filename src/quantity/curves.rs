@@ -1,7 +1,7 @@
 //! The curves of a figure: each quantity at finite coupling, and beside it
 //! its truncated weak-coupling sums, a diagonal Padé approximant in g^2 and
 //! its strong-coupling expansion, cut where they leave the window of the
-//! finite-coupling curves. The figure is drawn by [`crate::report::svg`];
+//! finite-coupling curves. The figure is drawn by the SVG printer of `report`;
 //! f64 is enough here, since a figure is presentation.
 
 use rug::Float;

@@ -25,8 +25,7 @@ use crate::input::suggest::did_you_mean;
 use crate::kernel::{self, Tilt};
 use crate::limits::MAX_NAME_DEPTH;
 
-/// The name of the coupling in formulas.
-pub const COUPLING: &str = "g";
+pub use crate::input::expr::COUPLING;
 
 /// A quantity the user named: the text of its formula and where it came from.
 #[derive(Clone, Debug)]

@@ -88,6 +88,9 @@ pub enum Node {
     Pow(Box<Expr>, Box<Expr>),
 }
 
+/// The name of the coupling in formulas.
+pub const COUPLING: &str = "g";
+
 /// Which functional of the tilted kernel: Gamma = 4 g^2 [(1+K)^(-1)]_11 or
 /// Delta = ln det(1+K) (docs/conventions.md section 3). Named here, where
 /// the language first meets it; the engines in [`crate::kernel`] and

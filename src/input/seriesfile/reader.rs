@@ -157,7 +157,7 @@ impl<'a> Reader<'a> {
         });
         match bad {
             None => Ok(()),
-            Some((name, span)) if name == crate::quantity::COUPLING => Err(self.error_in_file(
+            Some((name, span)) if name == crate::input::expr::COUPLING => Err(self.error_in_file(
                 ErrorKind::Input,
                 start,
                 text,
