@@ -17,7 +17,7 @@
 use std::sync::atomic::{AtomicUsize, Ordering};
 use std::sync::Mutex;
 
-use rug::{Integer, Rational};
+use rug::{Assign, Integer, Rational};
 
 use super::basis::WeightBases;
 use super::entries::KernelTable;
@@ -219,6 +219,12 @@ fn level_denominator(
 }
 
 /// R^(n)_i as integer numerators over `common`.
+///
+/// For each source weight m and each basis element, the rows of level m are
+/// summed with their kernel numerators into one accumulator per tilt class,
+/// which is then scaled into the target: two accumulators reused for every
+/// element, rather than a fresh vector per source weight, because
+/// allocating and growing those vectors took most of the time.
 fn target_row(
     tables: &Tables,
     tilt: &TiltFactors,
@@ -230,76 +236,79 @@ fn target_row(
 ) -> Vec<Integer> {
     let slots_n = tilt.slots(n);
     let mut out = vec![Integer::new(); tables.bases.len(n) * slots_n];
+    let (mut acc_c, mut acc_s) = (Integer::new(), Integer::new());
     for (m, level) in levels.iter().enumerate().take(n) {
         let p = n - m;
         if p < i + s {
             continue;
         }
-        let len_m = tables.bases.len(m) * tilt.slots(m);
         // The two tilt classes: 2 c2 (default) and 2 s2 (i even, j odd).
-        let mut sum_c = vec![Integer::new(); len_m];
-        let mut sum_s = vec![Integer::new(); len_m];
-        let (mut any_c, mut any_s) = (false, false);
-        for (j, v) in &level.rows {
-            if p < i + j {
-                continue;
-            }
-            let a = tables.kernel.numerator(i, *j, p);
-            if a.is_zero() {
-                continue;
-            }
-            let into_s = i % 2 == 0 && j % 2 == 1;
-            let acc = if into_s { &mut sum_s } else { &mut sum_c };
-            for (x, y) in acc.iter_mut().zip(v) {
-                if !y.is_zero() {
-                    *x += a * y;
-                }
-            }
-            if into_s {
-                any_s = true;
-            } else {
-                any_c = true;
-            }
-        }
-        if !any_c && !any_s {
+        let feeding: Vec<(&Integer, &[Integer], bool)> = level
+            .rows
+            .iter()
+            .filter(|(j, _)| p >= i + j)
+            .map(|(j, v)| {
+                (
+                    tables.kernel.numerator(i, *j, p),
+                    &v[..],
+                    i % 2 == 0 && j % 2 == 1,
+                )
+            })
+            .filter(|(a, _, _)| !a.is_zero())
+            .collect();
+        if feeding.is_empty() {
             continue;
         }
         // R^(n)_i = -sum_p M_p (1 / (D_p E_m)) (tilt factors) sums.
         let scale = common
             / (Integer::from(tables.kernel.denominator(p) * &level.denominator)
                 * tilt_denominator(tilt));
+        let (fc, fs) = match tilt {
+            TiltFactors::Rational { u, w } => (
+                Integer::from(u * 2u32) * &scale,
+                (Integer::from(w - u) * 2u32) * &scale,
+            ),
+            TiltFactors::Symbolic => {
+                let two_scale = Integer::from(&scale * 2u32);
+                (two_scale.clone(), two_scale)
+            }
+        };
         let shift = &tables.shifts[m][p];
         let slots_m = tilt.slots(m);
-        match tilt {
-            TiltFactors::Rational { u, w } => {
-                let fc = Integer::from(u * 2u32) * &scale;
-                let fs = (Integer::from(w - u) * 2u32) * &scale;
-                for (b, &target) in shift.iter().enumerate() {
-                    let t = &mut out[target as usize];
-                    if any_c && !sum_c[b].is_zero() {
-                        *t -= &fc * &sum_c[b];
-                    }
-                    if any_s && !sum_s[b].is_zero() {
-                        *t -= &fs * &sum_s[b];
+        for k in 0..tables.bases.len(m) * slots_m {
+            acc_c.assign(0);
+            acc_s.assign(0);
+            for (a, v, into_s) in &feeding {
+                let y = &v[k];
+                if !y.is_zero() {
+                    if *into_s {
+                        acc_s += *a * y;
+                    } else {
+                        acc_c += *a * y;
                     }
                 }
             }
-            TiltFactors::Symbolic => {
-                let two_scale = Integer::from(&scale * 2u32);
-                for (b, &target) in shift.iter().enumerate() {
-                    for d in 0..slots_m {
-                        let base = target as usize * slots_n;
-                        // 2 c2 * sum_c: c2^d -> c2^(d+1).
-                        let c = &sum_c[b * slots_m + d];
-                        if !c.is_zero() {
-                            out[base + d + 1] -= &two_scale * c;
-                        }
-                        // 2 (1 - c2) * sum_s.
-                        let x = &sum_s[b * slots_m + d];
-                        if !x.is_zero() {
-                            out[base + d] -= &two_scale * x;
-                            out[base + d + 1] += &two_scale * x;
-                        }
+            let (b, d) = (k / slots_m, k % slots_m);
+            let target = shift[b] as usize * slots_n;
+            match tilt {
+                TiltFactors::Rational { .. } => {
+                    let t = &mut out[target];
+                    if !acc_c.is_zero() {
+                        *t -= &fc * &acc_c;
+                    }
+                    if !acc_s.is_zero() {
+                        *t -= &fs * &acc_s;
+                    }
+                }
+                TiltFactors::Symbolic => {
+                    // 2 c2 * sum_c: c2^d -> c2^(d+1).
+                    if !acc_c.is_zero() {
+                        out[target + d + 1] -= &fc * &acc_c;
+                    }
+                    // 2 (1 - c2) * sum_s.
+                    if !acc_s.is_zero() {
+                        out[target + d] -= &fs * &acc_s;
+                        out[target + d + 1] += &fs * &acc_s;
                     }
                 }
             }
