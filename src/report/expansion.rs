@@ -26,8 +26,8 @@ pub struct Expansion {
     pub coupling: Coupling,
     pub even: EvenStyle,
     pub digits: u32,
-    /// Loop order and exact coefficient of x^L in the chosen coupling.
-    pub orders: Vec<(u32, Exact)>,
+    /// The series in the chosen coupling: loop order L is its coefficient of x^L.
+    series: Series,
 }
 
 #[derive(Serialize)]
@@ -51,19 +51,21 @@ struct JsonReport<'a> {
 
 impl Expansion {
     /// The report of `series` (in g^2) shown in `coupling`, loops 1..=order.
+    /// The series is taken, not copied: at 50 loops one copy of its
+    /// coefficients takes a few hundred MiB.
     pub fn new(
         quantity: &str,
         definition: &str,
         entry: Option<Entry>,
-        series: &Series,
+        series: Series,
         coupling: Coupling,
         even: EvenStyle,
         digits: u32,
     ) -> Self {
-        let converted = series.in_coupling(coupling);
-        let orders = (1..=converted.order())
-            .map(|l| (l as u32, converted.coeff(l).clone()))
-            .collect();
+        let series = match coupling {
+            Coupling::G2 => series,
+            _ => series.in_coupling(coupling),
+        };
         Expansion {
             quantity: quantity.to_string(),
             definition: definition.to_string(),
@@ -71,8 +73,18 @@ impl Expansion {
             coupling,
             even,
             digits,
-            orders,
+            series,
         }
+    }
+
+    /// Loop order and exact coefficient, L = 1..=order.
+    pub fn orders(&self) -> impl Iterator<Item = (u32, &Exact)> {
+        self.series
+            .coeffs()
+            .iter()
+            .enumerate()
+            .skip(1)
+            .map(|(l, c)| (l as u32, c))
     }
 
     fn value(&self, c: &Exact, constants: &mut Constants) -> Result<Option<String>> {
@@ -95,9 +107,10 @@ impl Expansion {
     /// with its own constants; the largest coefficients go first so that no
     /// thread is left with a big one at the end.
     fn rows(&self) -> Result<Vec<JsonOrder>> {
-        let mut queue: Vec<usize> = (0..self.orders.len()).collect();
-        queue.sort_by_key(|&k| std::cmp::Reverse(self.orders[k].1.len()));
-        let terms: usize = self.orders.iter().map(|(_, c)| c.len()).sum();
+        let coeffs = self.series.coeffs();
+        let mut queue: Vec<usize> = (1..coeffs.len()).collect();
+        queue.sort_by_key(|&l| std::cmp::Reverse(coeffs[l].len()));
+        let terms: usize = coeffs.iter().map(Exact::len).sum();
         let threads = std::thread::available_parallelism()
             .map_or(1, |n| n.get())
             .min(queue.len());
@@ -105,12 +118,11 @@ impl Expansion {
         let done: Mutex<Vec<(usize, Result<JsonOrder>)>> = Mutex::new(Vec::new());
         let work = || {
             let mut constants = Constants::new();
-            while let Some(&k) = queue.get(next.fetch_add(1, Ordering::Relaxed)) {
-                let (l, c) = &self.orders[k];
-                let row = self.row(*l, c, &mut constants);
+            while let Some(&l) = queue.get(next.fetch_add(1, Ordering::Relaxed)) {
+                let row = self.row(l as u32, &coeffs[l], &mut constants);
                 done.lock()
                     .unwrap_or_else(|e| e.into_inner())
-                    .push((k, row));
+                    .push((l, row));
             }
         };
         // A term takes about 1.5 us to write and evaluate (measured at 36
@@ -218,7 +230,7 @@ impl Expansion {
         out.push_str(&format!(
             "$L$ & coefficient of ${variable}$ & value \\\\\n\\hline\n"
         ));
-        for ((l, c), r) in self.orders.iter().zip(&rows) {
+        for ((l, c), r) in self.orders().zip(&rows) {
             let cell = math_cell(&c.format(self.even, Notation::Latex), 3);
             let value = r
                 .value

@@ -233,7 +233,7 @@ fn phases(loops: u32) -> (Duration, Duration) {
         &quantity.label,
         &quantity.definition,
         quantity.entry.clone(),
-        &series,
+        series,
         Coupling::G2,
         EvenStyle::Pi,
         20,
