@@ -27,8 +27,10 @@ pub use tilt::Tilt;
 /// The name of the symbolic tilt in the coefficient ring.
 pub const C2: &str = "c2";
 
-/// The largest loop order the exact engine accepts: 50 loops take about 30 s
-/// and 2 GiB on two cores, and the cost grows about tenfold every ten loops.
+/// The largest loop order the exact engine accepts: 50 loops of Gamma take
+/// about 30 s and 1.5 GiB on two cores, and the cost grows about 2.6-fold
+/// every four loops (DEVELOPERS.md, cost model); the packed monomial keys
+/// hold weights up to 100, which is where Delta at 50 loops ends.
 pub const MAX_LOOPS: u32 = 50;
 
 /// Which functional of the kernel.
