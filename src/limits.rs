@@ -53,8 +53,10 @@ pub const MAX_LOG_POWER: u32 = 1 << 16;
 
 // The exact engine.
 
-/// The largest loop order the exact engine accepts: 50 loops take about 30 s
-/// and 2 GiB on two cores, and the cost grows about tenfold every ten loops.
+/// The largest loop order the exact engine accepts: 50 loops of Gamma take
+/// about 30 s and 1.5 GiB on two cores, and the cost grows about 2.6-fold
+/// every four loops (DEVELOPERS.md, cost model); the packed monomial keys
+/// hold weights up to 100, which is where Delta at 50 loops ends.
 pub const MAX_LOOPS: u32 = 50;
 
 // Numbers.

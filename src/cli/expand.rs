@@ -56,7 +56,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
         &quantity.label,
         &quantity.definition,
         quantity.entry.clone(),
-        &series?,
+        series?,
         args.coupling.map_or_else(
             || quantity.entry.as_ref().map_or(Coupling::G2, |e| e.coupling),
             Coupling::from,

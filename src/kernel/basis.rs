@@ -9,12 +9,15 @@
 //! form matters; full monomials are built only for output.
 
 use std::collections::HashMap;
+use std::hash::{BuildHasherDefault, Hasher};
 
 use crate::exact::ring::Monomial;
 
 /// The monomials of each weight 0..=top as partitions (parts descending).
 pub struct WeightBases {
     parts: Vec<Vec<Box<[u8]>>>,
+    /// pi_halves[w][k]: the number of parts 2 (factors pi^2) of element k.
+    pi_halves: Vec<Vec<u8>>,
 }
 
 impl WeightBases {
@@ -25,12 +28,25 @@ impl WeightBases {
                 partitions(w as u8, w as u8, &mut Vec::new(), &mut list);
                 list
             })
+            .collect::<Vec<Vec<Box<[u8]>>>>();
+        let pi_halves = parts
+            .iter()
+            .map(|w| {
+                w.iter()
+                    .map(|p| p.iter().filter(|&&x| x == 2).count() as u8)
+                    .collect()
+            })
             .collect();
-        WeightBases { parts }
+        WeightBases { parts, pi_halves }
     }
 
     pub fn len(&self, w: usize) -> usize {
         self.parts[w].len()
+    }
+
+    /// Half the power of pi of each element of weight w.
+    pub fn pi_halves(&self, w: usize) -> &[u8] {
+        &self.pi_halves[w]
     }
 
     pub fn monomial(&self, w: usize, k: usize) -> Monomial {
@@ -45,26 +61,23 @@ impl WeightBases {
     }
 
     /// maps[m][p][k]: the index in weight m + p of (element k of weight m) * M_p,
-    /// for 2 <= p <= top - m (empty for p < 2).
-    pub fn shift_maps(&self) -> Vec<Vec<Vec<u32>>> {
+    /// for 2 <= p <= top - m (empty for p < 2); None when the packed keys
+    /// do not fit (see `ProductIndex`).
+    pub fn shift_maps(&self) -> Option<Vec<Vec<Vec<u32>>>> {
         let top = self.parts.len() - 1;
+        let index = ProductIndex::new(self)?;
         let mut maps: Vec<Vec<Vec<u32>>> =
             (0..=top).map(|m| vec![Vec::new(); top - m + 1]).collect();
-        for w in 2..=top {
-            let index: HashMap<&[u8], u32> = self.parts[w]
-                .iter()
-                .enumerate()
-                .map(|(k, p)| (&**p, k as u32))
-                .collect();
-            for p in 2..=w {
-                let m = w - p;
-                maps[m][p] = self.parts[m]
+        for (m, row) in maps.iter_mut().enumerate() {
+            for (p, map) in row.iter_mut().enumerate().skip(2) {
+                let factor = index.factor_key(p);
+                *map = index.keys[m]
                     .iter()
-                    .map(|x| index[&*times_factor(x, p)])
+                    .map(|&key| index.index_of(key + factor))
                     .collect();
             }
         }
-        maps
+        Some(maps)
     }
 }
 
@@ -73,8 +86,35 @@ impl WeightBases {
 /// largest exponent a weight up to `top` allows, so that the key of a
 /// product is the sum of the keys. Up to weight 100 the fields take 103 bits.
 pub struct ProductIndex {
+    offsets: Vec<u32>,
     keys: Vec<Vec<u128>>,
-    index: HashMap<u128, u32>,
+    index: HashMap<u128, u32, BuildHasherDefault<KeyHasher>>,
+}
+
+/// A multiplicative hash for the packed keys: they are distinct integers
+/// already, and the lookups (tens of millions at 50 loops, building the
+/// shift maps) took more time in the default keyed hash than in the maps'
+/// arithmetic. The odd constant is 2^64 divided by the golden ratio, the
+/// usual multiplier of multiplicative hashing: it spreads keys that differ
+/// in few bits over the whole word.
+#[derive(Default)]
+struct KeyHasher(u64);
+
+impl Hasher for KeyHasher {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+
+    fn write(&mut self, bytes: &[u8]) {
+        for &b in bytes {
+            self.0 = (self.0.rotate_left(8) ^ u64::from(b)).wrapping_mul(0x9e37_79b9_7f4a_7c15);
+        }
+    }
+
+    fn write_u128(&mut self, key: u128) {
+        let folded = (key as u64) ^ ((key >> 64) as u64).rotate_left(32);
+        self.0 = (self.0 ^ folded).wrapping_mul(0x9e37_79b9_7f4a_7c15);
+    }
 }
 
 impl ProductIndex {
@@ -96,7 +136,20 @@ impl ProductIndex {
             .iter()
             .flat_map(|w| w.iter().enumerate().map(|(k, &key)| (key, k as u32)))
             .collect();
-        Some(ProductIndex { keys, index })
+        Some(ProductIndex {
+            offsets,
+            keys,
+            index,
+        })
+    }
+
+    /// The key of M_p: pi^p (p/2 parts 2) for even p, zeta(p) for odd p.
+    fn factor_key(&self, p: usize) -> u128 {
+        if p % 2 == 0 {
+            (p as u128 / 2) << self.offsets[2]
+        } else {
+            1u128 << self.offsets[p]
+        }
     }
 
     pub fn key(&self, w: usize, k: usize) -> u128 {
@@ -119,18 +172,6 @@ fn field_offsets(top: usize) -> Option<Vec<u32>> {
         used += usize::BITS - (top / p).leading_zeros();
     }
     (used <= 128).then_some(offsets)
-}
-
-/// The partition of (monomial * M_p): p/2 more parts 2 for even p, the part p for odd p.
-fn times_factor(parts: &[u8], p: usize) -> Vec<u8> {
-    let mut out = parts.to_vec();
-    if p % 2 == 0 {
-        out.extend(std::iter::repeat_n(2u8, p / 2));
-    } else {
-        out.push(p as u8);
-    }
-    out.sort_unstable_by(|a, b| b.cmp(a));
-    out
 }
 
 /// All multisets of parts from {2} and odd n >= 3, parts <= max, summing to w.
@@ -199,7 +240,7 @@ mod tests {
     #[test]
     fn shift_maps_multiply_by_the_kernel_factor() {
         let b = WeightBases::new(12);
-        let maps = b.shift_maps();
+        let maps = b.shift_maps().unwrap();
         for m in 0..=10 {
             for p in 2..=(12 - m) {
                 for k in 0..b.len(m) {

@@ -39,6 +39,17 @@ fn check_loops(loops: u32) -> Result<()> {
     Ok(())
 }
 
+/// The recursion's tables through weight `top`, for a message naming `loops`.
+fn tables(top: usize, loops: u32) -> Result<recursion::Tables> {
+    recursion::Tables::new(top).ok_or_else(|| beyond_packed_keys(loops))
+}
+
+fn beyond_packed_keys(loops: u32) -> Error {
+    Error::range(format!(
+        "{loops} loops is beyond what the engine's packed monomials hold"
+    ))
+}
+
 /// The functional as a series in g^2 through g^(2 loops).
 pub fn expand(
     f: Functional,
@@ -56,12 +67,19 @@ pub fn expand(
 pub fn gamma(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Series> {
     check_loops(loops)?;
     let top = 2 * loops as usize - 2;
-    let tables = recursion::Tables::new(top);
-    let diag = recursion::diagonal(&tables, &tilt.factors(), 1, top, progress);
-    let mut coeffs = vec![Exact::zero(); loops as usize + 1];
-    for l in 1..=loops as usize {
-        coeffs[l] = diag[2 * l - 2].scale(&rug::Rational::from(4));
-    }
+    let tables = tables(top, loops)?;
+    let factors = tilt.factors();
+    let diag = recursion::diagonal_dense(&tables, &factors, 1, top, progress);
+    // The coefficient of g^(2L) is 4 times that of g^(2L-2) in the element;
+    // each is converted as it is taken, so one form is alive at a time.
+    let coeffs = std::iter::once(Exact::zero())
+        .chain(
+            diag.into_iter()
+                .enumerate()
+                .step_by(2)
+                .map(|(n, d)| recursion::to_exact(&tables, &factors, n, d, 4)),
+        )
+        .collect();
     Ok(Series::new(coeffs))
 }
 
@@ -69,13 +87,9 @@ pub fn gamma(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) ->
 pub fn delta(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Series> {
     check_loops(loops)?;
     let top = 2 * loops as usize;
-    let tables = recursion::Tables::new(top);
+    let tables = tables(top, loops)?;
     let factors = tilt.factors();
-    let index = basis::ProductIndex::new(&tables.bases).ok_or_else(|| {
-        Error::range(format!(
-            "{loops} loops is beyond what the determinant's packed monomials hold"
-        ))
-    })?;
+    let index = basis::ProductIndex::new(&tables.bases).ok_or_else(|| beyond_packed_keys(loops))?;
     let mut total = logdet::zeros(&tables.bases, &factors, loops as usize);
     // [(1 + K_{>=s})^(-1)]_ss - 1 starts at g^(2s), so s <= loops suffices.
     let steps = loops as usize * top;
@@ -87,9 +101,9 @@ pub fn delta(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) ->
         total = logdet::subtract(&total, &logdet::ln(&in_x, &tables.bases, &index, &factors));
     }
     let coeffs = total
-        .iter()
+        .into_iter()
         .enumerate()
-        .map(|(k, d)| recursion::to_exact(&tables, &factors, 2 * k, &d.denominator, &d.numerators))
+        .map(|(k, d)| recursion::to_exact(&tables, &factors, 2 * k, d, 1))
         .collect();
     Ok(Series::new(coeffs))
 }

@@ -9,15 +9,19 @@
 //! - R^(m)_j can only reach the diagonal element at order top if
 //!   m + j + s <= top (the cheapest way back from j to s costs g^(j+s)), and it
 //!   vanishes unless m + j + s is even; other entries are never formed;
-//! - every vector of one weight shares one denominator, reduced after each
-//!   weight, so the inner loops are integer multiply-adds (GMP addmul).
+//! - the entries of one weight with the same power of pi share one
+//!   denominator, reduced after each weight, so the inner loops are integer
+//!   multiply-adds (GMP addmul). The denominators come from the even zeta
+//!   values, i.e. from the powers of pi: at 40 loops an entry without pi
+//!   needs a denominator of a few bits where the weight's common one has 280,
+//!   so one denominator per weight made most numerators three times longer.
 //!
 //! Targets of one weight are independent and are shared between threads.
 
 use std::sync::atomic::{AtomicUsize, Ordering};
 use std::sync::Mutex;
 
-use rug::{Integer, Rational};
+use rug::{Assign, Integer, Rational};
 
 use super::basis::WeightBases;
 use super::entries::KernelTable;
@@ -50,21 +54,23 @@ pub struct Tables {
 }
 
 impl Tables {
-    pub fn new(top: usize) -> Self {
+    /// None beyond the weights the packed monomial keys hold (about 100).
+    pub fn new(top: usize) -> Option<Self> {
         let bases = WeightBases::new(top);
-        let shifts = bases.shift_maps();
-        Tables {
+        let shifts = bases.shift_maps()?;
+        Some(Tables {
             kernel: KernelTable::new(top),
             bases,
             shifts,
-        }
+        })
     }
 }
 
-/// The vectors R^(m)_j of one weight m: a common denominator and, per index j,
-/// integer numerators laid out as [basis element][power of c2].
+/// The vectors R^(m)_j of one weight m: one denominator per power of pi
+/// and, per index j, integer numerators laid out as [basis element][power of c2].
 struct Level {
-    denominator: Integer,
+    /// denominators[a]: the denominator of every entry with the factor pi^(2a).
+    denominators: Vec<Integer>,
     /// (j, numerators), j ascending.
     rows: Vec<(usize, Vec<Integer>)>,
 }
@@ -77,24 +83,9 @@ pub struct Dense {
     pub numerators: Vec<Integer>,
 }
 
-/// [(1 + K_{>=s})^(-1)]_{ss} through g^top, as exact coefficients of g^n for
-/// n = 0..=top (odd n are zero). `progress` is told (n, top) after each order.
-pub fn diagonal(
-    tables: &Tables,
-    tilt: &TiltFactors,
-    s: usize,
-    top: usize,
-    progress: &mut dyn FnMut(usize, usize),
-) -> Vec<Exact> {
-    diagonal_dense(tables, tilt, s, top, progress)
-        .iter()
-        .enumerate()
-        .map(|(n, d)| to_exact(tables, tilt, n, &d.denominator, &d.numerators))
-        .collect()
-}
-
-/// The same element as `diagonal`, each coefficient of g^n in dense form
-/// (all-zero numerators where the element has no g^n term).
+/// [(1 + K_{>=s})^(-1)]_{ss} through g^top, each coefficient of g^n for
+/// n = 0..=top in dense form (all-zero numerators where the element has no
+/// g^n term). `progress` is told (n, top) after each order.
 pub fn diagonal_dense(
     tables: &Tables,
     tilt: &TiltFactors,
@@ -110,7 +101,7 @@ pub fn diagonal_dense(
     let mut start = vec![Integer::new(); len0];
     start[0] = Integer::from(1);
     levels.push(Level {
-        denominator: Integer::from(1),
+        denominators: vec![Integer::from(1)],
         rows: vec![(s, start)],
     });
 
@@ -144,10 +135,15 @@ pub fn diagonal_dense(
         }
         let mut rows = results.into_inner().unwrap_or_else(|e| e.into_inner());
         rows.sort_by_key(|(i, _)| *i);
-        levels.push(reduce(Level {
-            denominator: common,
-            rows,
-        }));
+        levels.push(reduce(
+            tables,
+            tilt,
+            n,
+            Level {
+                denominators: common,
+                rows,
+            },
+        ));
         progress(n, top);
     }
 
@@ -161,10 +157,7 @@ pub fn diagonal_dense(
                 .find(|(j, _)| *j == s)
                 .map(|(_, v)| v)
                 .unwrap_or_else(|| vec![Integer::new(); tables.bases.len(n) * tilt.slots(n)]);
-            Dense {
-                denominator: level.denominator,
-                numerators,
-            }
+            one_denominator(tables, tilt, n, &level.denominators, numerators)
         })
         .collect()
 }
@@ -192,7 +185,46 @@ fn tilt_denominator(tilt: &TiltFactors) -> Integer {
     }
 }
 
-/// lcm over contributing p of D_p * E_m * (tilt denominator).
+/// The entries of weight n over the lcm of their classes' denominators.
+fn one_denominator(
+    tables: &Tables,
+    tilt: &TiltFactors,
+    n: usize,
+    denominators: &[Integer],
+    mut numerators: Vec<Integer>,
+) -> Dense {
+    let mut denominator = Integer::from(1);
+    for d in denominators {
+        denominator.lcm_mut(d);
+    }
+    let factors: Vec<Integer> = denominators
+        .iter()
+        .map(|d| Integer::from(denominator.div_exact_ref(d)))
+        .collect();
+    let slots = tilt.slots(n);
+    for (k, x) in numerators.iter_mut().enumerate() {
+        let f = &factors[tables.bases.pi_halves(n)[k / slots] as usize];
+        if *f != 1 && !x.is_zero() {
+            *x *= f;
+        }
+    }
+    Dense {
+        denominator,
+        numerators,
+    }
+}
+
+/// The class of weight n that class a of weight n - p lands in under M_p.
+fn target_class(a: usize, p: usize) -> usize {
+    if p % 2 == 0 {
+        a + p / 2
+    } else {
+        a
+    }
+}
+
+/// Per power of pi of weight n: the lcm over contributing sources (m, class
+/// a) of D_p * E_(m,a) * (tilt denominator), p = n - m.
 fn level_denominator(
     tables: &Tables,
     tilt: &TiltFactors,
@@ -200,8 +232,8 @@ fn level_denominator(
     n: usize,
     s: usize,
     targets: &[usize],
-) -> Integer {
-    let mut common = Integer::from(1);
+) -> Vec<Integer> {
+    let mut common = vec![Integer::from(1); n / 2 + 1];
     let Some(&i) = targets.first() else {
         return common;
     };
@@ -210,15 +242,23 @@ fn level_denominator(
     for (m, _, _) in sources(levels, n, i) {
         if !seen[m] {
             seen[m] = true;
-            let d = Integer::from(tables.kernel.denominator(n - m) * &levels[m].denominator)
-                * tilt_denominator(tilt);
-            common.lcm_mut(&d);
+            let p = n - m;
+            let d = tables.kernel.denominator(p) * tilt_denominator(tilt);
+            for (a, e) in levels[m].denominators.iter().enumerate() {
+                common[target_class(a, p)].lcm_mut(&Integer::from(&d * e));
+            }
         }
     }
     common
 }
 
-/// R^(n)_i as integer numerators over `common`.
+/// R^(n)_i as integer numerators over `common` (one per power of pi).
+///
+/// For each source weight m and each basis element, the rows of level m are
+/// summed with their kernel numerators into one accumulator per tilt class,
+/// which is then scaled into the target: two accumulators reused for every
+/// element, rather than a fresh vector per source weight, because
+/// allocating and growing those vectors took most of the time.
 fn target_row(
     tables: &Tables,
     tilt: &TiltFactors,
@@ -226,80 +266,93 @@ fn target_row(
     n: usize,
     i: usize,
     s: usize,
-    common: &Integer,
+    common: &[Integer],
 ) -> Vec<Integer> {
     let slots_n = tilt.slots(n);
     let mut out = vec![Integer::new(); tables.bases.len(n) * slots_n];
+    let (mut acc_c, mut acc_s) = (Integer::new(), Integer::new());
     for (m, level) in levels.iter().enumerate().take(n) {
         let p = n - m;
         if p < i + s {
             continue;
         }
-        let len_m = tables.bases.len(m) * tilt.slots(m);
         // The two tilt classes: 2 c2 (default) and 2 s2 (i even, j odd).
-        let mut sum_c = vec![Integer::new(); len_m];
-        let mut sum_s = vec![Integer::new(); len_m];
-        let (mut any_c, mut any_s) = (false, false);
-        for (j, v) in &level.rows {
-            if p < i + j {
-                continue;
-            }
-            let a = tables.kernel.numerator(i, *j, p);
-            if a.is_zero() {
-                continue;
-            }
-            let into_s = i % 2 == 0 && j % 2 == 1;
-            let acc = if into_s { &mut sum_s } else { &mut sum_c };
-            for (x, y) in acc.iter_mut().zip(v) {
-                if !y.is_zero() {
-                    *x += a * y;
-                }
-            }
-            if into_s {
-                any_s = true;
-            } else {
-                any_c = true;
-            }
-        }
-        if !any_c && !any_s {
+        let feeding: Vec<(&Integer, &[Integer], bool)> = level
+            .rows
+            .iter()
+            .filter(|(j, _)| p >= i + j)
+            .map(|(j, v)| {
+                (
+                    tables.kernel.numerator(i, *j, p),
+                    &v[..],
+                    i % 2 == 0 && j % 2 == 1,
+                )
+            })
+            .filter(|(a, _, _)| !a.is_zero())
+            .collect();
+        if feeding.is_empty() {
             continue;
         }
-        // R^(n)_i = -sum_p M_p (1 / (D_p E_m)) (tilt factors) sums.
-        let scale = common
-            / (Integer::from(tables.kernel.denominator(p) * &level.denominator)
-                * tilt_denominator(tilt));
+        // R^(n)_i = -sum_p M_p (1 / (D_p E_(m,a))) (tilt factors) sums, with
+        // the scale to the target's denominator folded into the factors.
+        let d = tables.kernel.denominator(p) * tilt_denominator(tilt);
+        let factors: Vec<(Integer, Integer)> = level
+            .denominators
+            .iter()
+            .enumerate()
+            .map(|(a, e)| {
+                let source = Integer::from(&d * e);
+                let scale = Integer::from(common[target_class(a, p)].div_exact_ref(&source));
+                match tilt {
+                    TiltFactors::Rational { u, w } => (
+                        Integer::from(u * 2u32) * &scale,
+                        (Integer::from(w - u) * 2u32) * &scale,
+                    ),
+                    TiltFactors::Symbolic => {
+                        let two_scale = scale * 2u32;
+                        (two_scale.clone(), two_scale)
+                    }
+                }
+            })
+            .collect();
+        let classes = tables.bases.pi_halves(m);
         let shift = &tables.shifts[m][p];
         let slots_m = tilt.slots(m);
-        match tilt {
-            TiltFactors::Rational { u, w } => {
-                let fc = Integer::from(u * 2u32) * &scale;
-                let fs = (Integer::from(w - u) * 2u32) * &scale;
-                for (b, &target) in shift.iter().enumerate() {
-                    let t = &mut out[target as usize];
-                    if any_c && !sum_c[b].is_zero() {
-                        *t -= &fc * &sum_c[b];
-                    }
-                    if any_s && !sum_s[b].is_zero() {
-                        *t -= &fs * &sum_s[b];
+        for k in 0..tables.bases.len(m) * slots_m {
+            acc_c.assign(0);
+            acc_s.assign(0);
+            for (a, v, into_s) in &feeding {
+                let y = &v[k];
+                if !y.is_zero() {
+                    if *into_s {
+                        acc_s += *a * y;
+                    } else {
+                        acc_c += *a * y;
                     }
                 }
             }
-            TiltFactors::Symbolic => {
-                let two_scale = Integer::from(&scale * 2u32);
-                for (b, &target) in shift.iter().enumerate() {
-                    for d in 0..slots_m {
-                        let base = target as usize * slots_n;
-                        // 2 c2 * sum_c: c2^d -> c2^(d+1).
-                        let c = &sum_c[b * slots_m + d];
-                        if !c.is_zero() {
-                            out[base + d + 1] -= &two_scale * c;
-                        }
-                        // 2 (1 - c2) * sum_s.
-                        let x = &sum_s[b * slots_m + d];
-                        if !x.is_zero() {
-                            out[base + d] -= &two_scale * x;
-                            out[base + d + 1] += &two_scale * x;
-                        }
+            let (b, d) = (k / slots_m, k % slots_m);
+            let (fc, fs) = &factors[classes[b] as usize];
+            let target = shift[b] as usize * slots_n;
+            match tilt {
+                TiltFactors::Rational { .. } => {
+                    let t = &mut out[target];
+                    if !acc_c.is_zero() {
+                        *t -= fc * &acc_c;
+                    }
+                    if !acc_s.is_zero() {
+                        *t -= fs * &acc_s;
+                    }
+                }
+                TiltFactors::Symbolic => {
+                    // 2 c2 * sum_c: c2^d -> c2^(d+1).
+                    if !acc_c.is_zero() {
+                        out[target + d + 1] -= fc * &acc_c;
+                    }
+                    // 2 (1 - c2) * sum_s.
+                    if !acc_s.is_zero() {
+                        out[target + d] -= fs * &acc_s;
+                        out[target + d + 1] += fs * &acc_s;
                     }
                 }
             }
@@ -308,27 +361,31 @@ fn target_row(
     out
 }
 
-/// Divides the level by the gcd of its denominator and all numerators.
-fn reduce(mut level: Level) -> Level {
-    let mut g = level.denominator.clone();
+/// Divides each class of the level by the gcd of its denominator and its
+/// numerators.
+fn reduce(tables: &Tables, tilt: &TiltFactors, n: usize, mut level: Level) -> Level {
+    let classes = tables.bases.pi_halves(n);
+    let slots = tilt.slots(n);
+    let mut g = level.denominators.clone();
     for (_, v) in &level.rows {
-        for x in v {
-            if g == 1 {
-                break;
-            }
-            if !x.is_zero() {
+        for (k, x) in v.iter().enumerate() {
+            let g = &mut g[classes[k / slots] as usize];
+            if *g != 1 && !x.is_zero() {
                 g.gcd_mut(x);
             }
         }
     }
-    if g != 1 {
-        level.denominator.div_exact_mut(&g);
+    for (e, g) in level.denominators.iter_mut().zip(&g) {
+        if *g != 1 {
+            e.div_exact_mut(g);
+        }
     }
     // Rows live until the end, so they give back what the accumulation over-allocated.
     for (_, v) in &mut level.rows {
-        for x in v.iter_mut() {
-            if g != 1 && !x.is_zero() {
-                x.div_exact_mut(&g);
+        for (k, x) in v.iter_mut().enumerate() {
+            let g = &g[classes[k / slots] as usize];
+            if *g != 1 && !x.is_zero() {
+                x.div_exact_mut(g);
             }
             x.shrink_to_fit();
         }
@@ -336,25 +393,27 @@ fn reduce(mut level: Level) -> Level {
     level
 }
 
+/// `times` * d, the coefficient of weight n, in the ring.
 pub(crate) fn to_exact(
     tables: &Tables,
     tilt: &TiltFactors,
     n: usize,
-    denominator: &Integer,
-    v: &[Integer],
+    d: Dense,
+    times: u32,
 ) -> Exact {
     let slots = tilt.slots(n);
     let mut out = Exact::zero();
-    for (k, x) in v.iter().enumerate() {
+    for (k, mut x) in d.numerators.into_iter().enumerate() {
         if x.is_zero() {
             continue;
         }
-        let (b, d) = (k / slots, k % slots);
+        let (b, e) = (k / slots, k % slots);
         let mut m = tables.bases.monomial(n, b);
-        if d > 0 {
-            m = m.mul(&Monomial::symbol(super::C2, d as u32));
+        if e > 0 {
+            m = m.mul(&Monomial::symbol(super::C2, e as u32));
         }
-        out.add_term(m, Rational::from((x.clone(), denominator.clone())));
+        x *= times;
+        out.add_term(m, Rational::from((x, d.denominator.clone())));
     }
     out
 }

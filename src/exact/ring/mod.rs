@@ -8,15 +8,16 @@
 
 pub mod bernoulli;
 mod display;
+mod evaluate;
 mod monomial;
 
 use std::collections::BTreeMap;
 use std::ops::{Add, AddAssign, Mul, Neg, Sub, SubAssign};
 
-use rug::ops::Pow;
-use rug::{Float, Rational};
+use rug::Rational;
 
 pub use display::{EvenStyle, Notation};
+pub use evaluate::Constants;
 pub use monomial::Monomial;
 
 use crate::error::{Error, Result};
@@ -212,80 +213,6 @@ impl Exact {
         }
         out
     }
-
-    /// Numerical value to `prec` bits; symbols must have been substituted.
-    /// Works with guard bits and repeats at higher precision when terms
-    /// cancel, so the result carries `prec` correct bits up to rounding.
-    pub fn evaluate(&self, prec: u32) -> Result<Float> {
-        if let Some((m, _)) = self.terms.iter().find(|(m, _)| !m.symbols().is_empty()) {
-            return Err(Error::input(format!(
-                "cannot evaluate {self} numerically: symbol '{}' has no value",
-                m.symbols()[0].0
-            )));
-        }
-        let mut work = prec + 32;
-        loop {
-            let (sum, largest) = self.sum_at(work);
-            if largest.is_zero() {
-                return Ok(Float::with_val(prec, 0));
-            }
-            // The sum keeps about `work - lost` correct bits; distinct monomials
-            // are independent, so a zero sum only means too few bits.
-            let lost = if sum.is_zero() {
-                work
-            } else {
-                (largest.get_exp().unwrap_or(0) - sum.get_exp().unwrap_or(0)).max(0) as u32
-            };
-            if work >= prec + lost + 16 {
-                return Ok(Float::with_val(prec, &sum));
-            }
-            if work > prec + 200_000 {
-                return Err(Error::numeric(format!(
-                    "{self} cancels to below 2^-200000 of its largest term"
-                )));
-            }
-            work = prec + lost + 32;
-        }
-    }
-
-    fn sum_at(&self, prec: u32) -> (Float, Float) {
-        let constants = Constants::new(prec);
-        let mut sum = Float::with_val(prec, 0);
-        let mut largest = Float::with_val(prec, 0);
-        for (m, c) in &self.terms {
-            let mut t = Float::with_val(prec, c);
-            t *= constants.pi_power(m.pi_exponent());
-            for &z in m.zetas() {
-                t *= constants.zeta(z);
-            }
-            if t.clone().abs() > largest {
-                largest = t.clone().abs();
-            }
-            sum += t;
-        }
-        (sum, largest)
-    }
-}
-
-/// pi and zeta values at one precision, computed once per evaluation.
-struct Constants {
-    prec: u32,
-    pi: Float,
-}
-
-impl Constants {
-    fn new(prec: u32) -> Self {
-        Constants {
-            prec,
-            pi: Float::with_val(prec, rug::float::Constant::Pi),
-        }
-    }
-    fn pi_power(&self, e: i32) -> Float {
-        Float::with_val(self.prec, (&self.pi).pow(e))
-    }
-    fn zeta(&self, n: u32) -> Float {
-        Float::with_val(self.prec, Float::zeta_u(n))
-    }
 }
 
 impl From<i64> for Exact {
@@ -394,7 +321,8 @@ impl Neg for Exact {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use rug::Integer;
+    use rug::ops::Pow;
+    use rug::{Float, Integer};
 
     fn zeta(n: u32) -> Exact {
         Exact::zeta(n).unwrap()
