@@ -13,7 +13,7 @@ use std::hash::{BuildHasherDefault, Hasher};
 
 use crate::exact::ring::Monomial;
 
-/// The monomials of each weight 0..=top as partitions (parts descending).
+/// The monomials of each weight 0..=highest as partitions (parts descending).
 pub struct WeightBases {
     parts: Vec<Vec<Box<[u8]>>>,
     /// pi_halves[w][k]: the number of parts 2 (factors pi^2) of element k.
@@ -21,8 +21,8 @@ pub struct WeightBases {
 }
 
 impl WeightBases {
-    pub fn new(top: usize) -> Self {
-        let parts = (0..=top)
+    pub fn new(highest: usize) -> Self {
+        let parts = (0..=highest)
             .map(|w| {
                 let mut list = Vec::new();
                 partitions(w as u8, w as u8, &mut Vec::new(), &mut list);
@@ -61,13 +61,14 @@ impl WeightBases {
     }
 
     /// maps[m][p][k]: the index in weight m + p of (element k of weight m) * M_p,
-    /// for 2 <= p <= top - m (empty for p < 2); None when the packed keys
+    /// for 2 <= p <= highest - m (empty for p < 2); None when the packed keys
     /// do not fit (see `ProductIndex`).
     pub fn shift_maps(&self) -> Option<Vec<Vec<Vec<u32>>>> {
-        let top = self.parts.len() - 1;
+        let highest = self.parts.len() - 1;
         let index = ProductIndex::new(self)?;
-        let mut maps: Vec<Vec<Vec<u32>>> =
-            (0..=top).map(|m| vec![Vec::new(); top - m + 1]).collect();
+        let mut maps: Vec<Vec<Vec<u32>>> = (0..=highest)
+            .map(|m| vec![Vec::new(); highest - m + 1])
+            .collect();
         for (m, row) in maps.iter_mut().enumerate() {
             for (p, map) in row.iter_mut().enumerate().skip(2) {
                 let factor = index.factor_key(p);
@@ -83,7 +84,7 @@ impl WeightBases {
 
 /// Monomials as additive keys: the exponents of pi^2, zeta(3), zeta(5), ...
 /// packed into bit fields of one u128, each field wide enough for the
-/// largest exponent a weight up to `top` allows, so that the key of a
+/// largest exponent a weight up to `highest` allows, so that the key of a
 /// product is the sum of the keys. Up to weight 100 the fields take 103 bits.
 pub struct ProductIndex {
     offsets: Vec<u32>,
@@ -163,13 +164,13 @@ impl ProductIndex {
 }
 
 /// Bit offsets of the exponent fields of parts 2, 3, 5, ... for weights up
-/// to `top`, or None when they need more than 128 bits.
-fn field_offsets(top: usize) -> Option<Vec<u32>> {
-    let mut offsets = vec![0u32; top + 1];
+/// to `highest`, or None when they need more than 128 bits.
+fn field_offsets(highest: usize) -> Option<Vec<u32>> {
+    let mut offsets = vec![0u32; highest + 1];
     let mut used = 0u32;
-    for p in (2..=top).filter(|&p| p == 2 || p % 2 == 1) {
+    for p in (2..=highest).filter(|&p| p == 2 || p % 2 == 1) {
         offsets[p] = used;
-        used += usize::BITS - (top / p).leading_zeros();
+        used += usize::BITS - (highest / p).leading_zeros();
     }
     (used <= 128).then_some(offsets)
 }

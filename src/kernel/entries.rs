@@ -13,7 +13,7 @@ use rug::{Integer, Rational};
 
 use crate::exact::ring::bernoulli::even_zeta_over_pi_power;
 
-/// a_ijp and D_p for all i, j >= 1 and 2 <= p <= top.
+/// a_ijp and D_p for all i, j >= 1 and 2 <= p <= highest.
 pub struct KernelTable {
     /// numerators[p][i][j] (i, j from 1, stored from index 0 = index 1).
     numerators: Vec<Vec<Vec<Integer>>>,
@@ -26,10 +26,10 @@ impl KernelTable {
     /// so a_ijp = +-2 j C(p, i+k) C(p, k) z_num and D_p = p z_den, where
     /// z = zeta(p)/pi^p (or 1 for odd p). D_p need not be the least common
     /// denominator: the recursion reduces every level anyway.
-    pub fn new(top: usize) -> Self {
-        let mut numerators = vec![Vec::new(); top + 1];
-        let mut denominators = vec![Integer::from(1); top + 1];
-        for p in 2..=top {
+    pub fn new(highest: usize) -> Self {
+        let mut numerators = vec![Vec::new(); highest + 1];
+        let mut denominators = vec![Integer::from(1); highest + 1];
+        for p in 2..=highest {
             let z = if p % 2 == 0 {
                 even_zeta_over_pi_power(p as u32 / 2)
             } else {

@@ -39,9 +39,9 @@ fn check_loops(loops: u32) -> Result<()> {
     Ok(())
 }
 
-/// The recursion's tables through weight `top`, for a message naming `loops`.
-fn tables(top: usize, loops: u32) -> Result<recursion::Tables> {
-    recursion::Tables::new(top).ok_or_else(|| beyond_packed_keys(loops))
+/// The recursion's tables through weight `highest`, for a message naming `loops`.
+fn tables(highest: usize, loops: u32) -> Result<recursion::Tables> {
+    recursion::Tables::new(highest).ok_or_else(|| beyond_packed_keys(loops))
 }
 
 fn beyond_packed_keys(loops: u32) -> Error {
@@ -66,10 +66,10 @@ pub fn expand(
 /// Gamma_alpha through g^(2 loops), as a series in x = g^2.
 pub fn gamma(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Series> {
     check_loops(loops)?;
-    let top = 2 * loops as usize - 2;
-    let tables = tables(top, loops)?;
+    let highest = 2 * loops as usize - 2;
+    let tables = tables(highest, loops)?;
     let factors = tilt.factors();
-    let diag = recursion::diagonal_dense(&tables, &factors, 1, top, progress);
+    let diag = recursion::diagonal_dense(&tables, &factors, 1, highest, progress);
     // The coefficient of g^(2L) is 4 times that of g^(2L-2) in the element;
     // each is converted as it is taken, so one form is alive at a time.
     let coeffs = std::iter::once(Exact::zero())
@@ -86,16 +86,16 @@ pub fn gamma(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) ->
 /// Delta_alpha = ln det(1 + K(alpha)) through g^(2 loops).
 pub fn delta(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Series> {
     check_loops(loops)?;
-    let top = 2 * loops as usize;
-    let tables = tables(top, loops)?;
+    let highest = 2 * loops as usize;
+    let tables = tables(highest, loops)?;
     let factors = tilt.factors();
     let index = basis::ProductIndex::new(&tables.bases).ok_or_else(|| beyond_packed_keys(loops))?;
     let mut total = logdet::zeros(&tables.bases, &factors, loops as usize);
     // [(1 + K_{>=s})^(-1)]_ss - 1 starts at g^(2s), so s <= loops suffices.
-    let steps = loops as usize * top;
+    let steps = loops as usize * highest;
     for s in 1..=loops as usize {
-        let diag = recursion::diagonal_dense(&tables, &factors, s, top, &mut |n, _| {
-            progress((s - 1) * top + n, steps)
+        let diag = recursion::diagonal_dense(&tables, &factors, s, highest, &mut |n, _| {
+            progress((s - 1) * highest + n, steps)
         });
         let in_x: logdet::DenseSeries = diag.into_iter().step_by(2).collect();
         total = logdet::subtract(&total, &logdet::ln(&in_x, &tables.bases, &index, &factors));

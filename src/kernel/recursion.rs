@@ -6,8 +6,8 @@
 //! - K^(p)_ij is a_ijp / D_p times one monomial M_p, so the sum over j at
 //!   fixed p is an integer combination of vectors of one weight, and the
 //!   monomial is applied once afterwards;
-//! - R^(m)_j can only reach the diagonal element at order top if
-//!   m + j + s <= top (the cheapest way back from j to s costs g^(j+s)), and it
+//! - R^(m)_j can only reach the diagonal element at order highest if
+//!   m + j + s <= highest (the cheapest way back from j to s costs g^(j+s)), and it
 //!   vanishes unless m + j + s is even; other entries are never formed;
 //! - the entries of one weight with the same power of pi share one
 //!   denominator, reduced after each weight, so the inner loops are integer
@@ -55,11 +55,11 @@ pub struct Tables {
 
 impl Tables {
     /// None beyond the weights the packed monomial keys hold (about 100).
-    pub fn new(top: usize) -> Option<Self> {
-        let bases = WeightBases::new(top);
+    pub fn new(highest: usize) -> Option<Self> {
+        let bases = WeightBases::new(highest);
         let shifts = bases.shift_maps()?;
         Some(Tables {
-            kernel: KernelTable::new(top),
+            kernel: KernelTable::new(highest),
             bases,
             shifts,
         })
@@ -83,20 +83,20 @@ pub struct Dense {
     pub numerators: Vec<Integer>,
 }
 
-/// [(1 + K_{>=s})^(-1)]_{ss} through g^top, each coefficient of g^n for
-/// n = 0..=top in dense form (all-zero numerators where the element has no
-/// g^n term). `progress` is told (n, top) after each order.
+/// [(1 + K_{>=s})^(-1)]_{ss} through g^highest, each coefficient of g^n for
+/// n = 0..=highest in dense form (all-zero numerators where the element has no
+/// g^n term). `progress` is told (n, highest) after each order.
 pub fn diagonal_dense(
     tables: &Tables,
     tilt: &TiltFactors,
     s: usize,
-    top: usize,
+    highest: usize,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Vec<Dense> {
     let threads = std::thread::available_parallelism()
         .map_or(1, |n| n.get())
         .min(8);
-    let mut levels: Vec<Level> = Vec::with_capacity(top + 1);
+    let mut levels: Vec<Level> = Vec::with_capacity(highest + 1);
     let len0 = tables.bases.len(0) * tilt.slots(0);
     let mut start = vec![Integer::new(); len0];
     start[0] = Integer::from(1);
@@ -105,9 +105,9 @@ pub fn diagonal_dense(
         rows: vec![(s, start)],
     });
 
-    for n in 1..=top {
+    for n in 1..=highest {
         let targets: Vec<usize> = (s..)
-            .take_while(|&i| n + i + s <= top || (i == s && n <= top))
+            .take_while(|&i| n + i + s <= highest || (i == s && n <= highest))
             .filter(|&i| (n + i + s) % 2 == 0)
             .collect();
         let common = level_denominator(tables, tilt, &levels, n, s, &targets);
@@ -144,7 +144,7 @@ pub fn diagonal_dense(
                 rows,
             },
         ));
-        progress(n, top);
+        progress(n, highest);
     }
 
     levels
