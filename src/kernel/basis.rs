@@ -44,7 +44,7 @@ impl WeightBases {
         Monomial::from_parts(pi, zetas, Vec::new())
     }
 
-    /// maps[m][p][k]: the index in weight m + p of (element k of weight m) * M_p,
+    /// `maps[m][p][k]`: the index in weight m + p of (element k of weight m) * M_p,
     /// for 2 <= p <= top - m (empty for p < 2).
     pub fn shift_maps(&self) -> Vec<Vec<Vec<u32>>> {
         let top = self.parts.len() - 1;
