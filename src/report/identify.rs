@@ -8,6 +8,7 @@ use serde::Serialize;
 
 use super::{decimal, wrap, DataFormat};
 use crate::error::Result;
+use crate::numeric::pslq::MIN_SPARE_DIGITS;
 use crate::quantity::identify::{Identification, BASIS_STATEMENT, BASIS_SUMMARY};
 
 /// The caution every identification carries.
@@ -78,8 +79,8 @@ fn text(r: &Identification) -> String {
             ));
             if let Some(c) = &r.candidate {
                 out.push_str(&format!(
-                    "a candidate that the digits cannot confirm ({} digits short): {c}\n",
-                    -r.digits_to_spare.unwrap_or(0)
+                    "a candidate that the digits cannot confirm ({} digits to spare, {MIN_SPARE_DIGITS} needed): {c}\n",
+                    r.digits_to_spare.unwrap_or(0)
                 ));
             }
         }
