@@ -174,6 +174,11 @@ fn a_multiple_zeta_value_in_the_weight_basis() {
     let (code, v, err) = json(&["identify", "zeta(3,5)", "--digits", "60", "--weight", "8"]);
     assert_eq!(code, 0, "{err}");
     assert_eq!(v["relation"], "-1/9450*pi^8 + zeta(3)*zeta(5) - zeta(5,3)");
+    // In the order of the basis: zeta(3)*zeta(5), pi^2*zeta(3)^2, pi^8, zeta(5,3).
+    assert_eq!(
+        v["coefficients"],
+        serde_json::json!(["1", "0", "-1/9450", "-1"])
+    );
 }
 
 /// A combination built here from the user's basis comes back in formula text

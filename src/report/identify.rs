@@ -21,6 +21,8 @@ struct JsonReport<'a> {
     value: &'a str,
     found: bool,
     relation: Option<&'a str>,
+    /// The rational coefficient of each basis element in the relation.
+    coefficients: Option<Vec<String>>,
     /// A relation the digits cannot confirm, as an equation.
     candidate: Option<&'a str>,
     residual: Option<String>,
@@ -46,6 +48,10 @@ fn json(r: &Identification) -> JsonReport<'_> {
         value: &r.value,
         found: r.found.is_some(),
         relation: r.found.as_ref().map(|f| f.expression.as_str()),
+        coefficients: r
+            .found
+            .as_ref()
+            .map(|f| f.coefficients.iter().map(ToString::to_string).collect()),
         candidate: r.candidate.as_deref(),
         residual: r.residual.as_ref().map(|x| decimal(x, 3)),
         bound: decimal(&r.bound, 3),
