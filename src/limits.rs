@@ -94,3 +94,20 @@ pub const MAX_POINTS: usize = 100_000;
 
 /// The most points along a plot's range: more add nothing a figure can show.
 pub const MAX_PLOT_POINTS: usize = 2_000;
+
+// Numerical identification.
+
+/// Highest weight of `identify --weight`: through weight 11 the basis of
+/// multiple zeta values is stated in `quantity::identify` and its size
+/// matches the dimension conjecture; weight 12 needs a depth-4 element this
+/// tool does not state.
+pub const MAX_IDENTIFY_WEIGHT: u32 = 11;
+
+/// Most basis elements of one identification: PSLQ costs about n^3 operations
+/// per iteration and needs about n digits per digit of coefficient size, so
+/// 60 elements already want hundreds of digits.
+pub const MAX_IDENTIFY_BASIS: usize = 60;
+
+/// Most trusted digits of one identification: far beyond published values,
+/// and a search at that precision with a large basis still takes seconds.
+pub const MAX_IDENTIFY_DIGITS: u32 = 2000;

@@ -7,6 +7,7 @@
 mod check;
 mod eval;
 mod expand;
+mod identify;
 mod origin;
 mod progress;
 mod values;
@@ -64,6 +65,8 @@ pub enum Command {
     Radius(values::RadiusArgs),
     /// Compare the summed weak-coupling series with the numerical engine.
     Selftest,
+    /// Identify a number as a rational combination of zeta values, pi powers or a given basis (PSLQ).
+    Identify(identify::Args),
 }
 
 /// Output formats, as the command line spells them.
@@ -207,6 +210,7 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::Plot(args) => values::plot(args, &catalogue),
         Command::Radius(args) => values::radius(args, &catalogue),
         Command::Selftest => values::selftest(),
+        Command::Identify(args) => identify::run(args, &catalogue),
     }
 }
 

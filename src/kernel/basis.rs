@@ -60,7 +60,7 @@ impl WeightBases {
         Monomial::from_parts(pi, zetas, Vec::new())
     }
 
-    /// maps[m][p][k]: the index in weight m + p of (element k of weight m) * M_p,
+    /// `maps[m][p][k]`: the index in weight m + p of (element k of weight m) * M_p,
     /// for 2 <= p <= highest - m (empty for p < 2); None when the packed keys
     /// do not fit (see `ProductIndex`).
     pub fn shift_maps(&self) -> Option<Vec<Vec<Vec<u32>>>> {

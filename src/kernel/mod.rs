@@ -21,6 +21,7 @@ use crate::exact::powerseries::Series;
 use crate::exact::ring::Exact;
 use crate::limits::MAX_LOOPS;
 
+pub use basis::WeightBases;
 pub use entries::entry;
 pub use recursion::TiltFactors;
 pub use tilt::Tilt;

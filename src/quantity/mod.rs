@@ -7,6 +7,7 @@
 
 pub mod curves;
 pub mod finite;
+pub mod identify;
 pub mod selftest;
 pub mod shard;
 

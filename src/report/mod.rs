@@ -6,6 +6,7 @@ pub mod check;
 pub mod decimal;
 pub mod expansion;
 pub mod fit;
+pub mod identify;
 pub mod latex;
 pub mod origin;
 pub mod svg;
