@@ -125,19 +125,17 @@ impl Exact {
     }
 
     pub fn scale(&self, c: &Rational) -> Exact {
-        if *c == 0 {
-            return Exact::zero();
-        }
-        Exact {
-            terms: self
-                .terms
-                .iter()
-                .map(|(m, x)| (m.clone(), Rational::from(x * c)))
-                .collect(),
-        }
+        self.mapped(c, Monomial::clone)
     }
 
     pub fn mul_monomial(&self, m: &Monomial, c: &Rational) -> Exact {
+        self.mapped(c, |k| k.mul(m))
+    }
+
+    /// Every term's monomial through `f`, its coefficient times `c`; `f`
+    /// must be injective on the monomials (a product by a monomial is), so
+    /// that no two terms meet.
+    fn mapped(&self, c: &Rational, f: impl Fn(&Monomial) -> Monomial) -> Exact {
         if *c == 0 {
             return Exact::zero();
         }
@@ -145,7 +143,7 @@ impl Exact {
             terms: self
                 .terms
                 .iter()
-                .map(|(k, x)| (k.mul(m), Rational::from(x * c)))
+                .map(|(m, x)| (f(m), Rational::from(x * c)))
                 .collect(),
         }
     }
