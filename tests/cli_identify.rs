@@ -221,3 +221,47 @@ fn unusable_requests_are_refused_with_exit_2() {
         assert!(err.contains(says), "{args:?}: {err}");
     }
 }
+
+/// `check --identify` proposes the exact form of every agreeing numerical
+/// entry: the cusp's two-, three- and four-loop coefficients (hep-th/0610251;
+/// decimals from `loopwise eval ... --digits 30`, and they round-trip), while
+/// a differing entry gets no proposal.
+#[test]
+fn check_proposes_exact_forms_for_agreeing_numbers() {
+    let dir = std::env::temp_dir().join(format!("loopwise-check-identify-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let path = dir.join("numbers.yaml");
+    std::fs::write(
+        &path,
+        "# invented numerical run for the test\nprediction: cusp\ncoupling: g2\norders:\n  - loop: 2\n    value: \"-13.1594725347858114917793213331682\"\n  - loop: 3\n    value: \"95.244444566580160853408325295623\"\n  - loop: 4\n    value: \"-937.430627848253741875155629019\"\n  - loop: 5\n    value: \"10601.8\"\n",
+    )
+    .unwrap();
+    let (code, out, err) = loopwise(&[
+        "check",
+        path.to_str().unwrap(),
+        "--identify",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 1, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let ids = v["identified"].as_array().unwrap();
+    let relations: Vec<(u64, &str)> = ids
+        .iter()
+        .map(|p| (p["loop"].as_u64().unwrap(), p["relation"].as_str().unwrap()))
+        .collect();
+    assert_eq!(
+        relations,
+        [
+            (2, "-4/3*pi^2"),
+            (3, "44/45*pi^4"),
+            (4, "-292/315*pi^6 - 32*zeta(3)^2")
+        ]
+    );
+    let (code, out, _) = loopwise(&["check", path.to_str().unwrap(), "--identify"]);
+    assert_eq!(code, 1);
+    assert!(out.contains("numerical identification"), "{out}");
+    let (_, plain, _) = loopwise(&["check", path.to_str().unwrap(), "--format", "json"]);
+    assert!(!plain.contains("identified"), "{plain}");
+    std::fs::remove_dir_all(&dir).unwrap();
+}

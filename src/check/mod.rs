@@ -11,6 +11,7 @@
 //!   difference is below 10^-(D-3) at D working digits.
 
 mod diagnose;
+pub mod propose;
 pub mod supplied;
 
 use rug::ops::Pow;

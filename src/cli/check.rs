@@ -6,9 +6,10 @@ use std::path::{Path, PathBuf};
 use clap::{Args as ClapArgs, ValueEnum};
 
 use loopwise::check;
+use loopwise::check::propose::propose;
 use loopwise::input::catalogue::Catalogue;
 use loopwise::input::seriesfile::{parse_series_text, read_series_file, SeriesFile, STDIN_NAME};
-use loopwise::report::check::{joined, render, render_unusable};
+use loopwise::report::check::{joined, render, render_identified, render_unusable};
 use loopwise::report::DataFormat;
 use loopwise::{Error, Result};
 
@@ -32,6 +33,10 @@ pub struct Args {
     /// Working decimal digits of numerical comparisons.
     #[arg(long, default_value_t = 30)]
     pub digits: u32,
+    /// Propose an exact form for every numerical entry that agrees (PSLQ in
+    /// the weight basis of the predicted coefficient; numerical identification).
+    #[arg(long)]
+    pub identify: bool,
 }
 
 /// The built-in demos.
@@ -83,9 +88,16 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
         |p: &PathBuf| read_series_file(p).and_then(|f| run_one(&f, catalogue, args.digits));
     // One file that cannot be used is the whole answer; among several, it is
     // one entry of the report and the others are still checked.
+    let report = |c: &check::Comparison| -> Result<String> {
+        if args.identify {
+            render_identified(c, &propose(c, catalogue)?, format)
+        } else {
+            render(c, format)
+        }
+    };
     if let [only] = args.files.as_slice() {
         let c = checked(only)?;
-        emit(&render(&c, format)?)?;
+        emit(&report(&c)?)?;
         return Ok(if c.agrees() {
             Outcome::Done
         } else {
@@ -100,7 +112,7 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     let mut parts = Vec::new();
     for (name, r) in &results {
         parts.push(match r {
-            Ok(c) => render(c, format)?,
+            Ok(c) => report(c)?,
             Err(e) => {
                 eprintln!("loopwise: {e}");
                 render_unusable(name, e, format)?

@@ -7,6 +7,7 @@ use serde::Serialize;
 
 use super::expansion::status_line;
 use super::{decimal, in_units_text, serialized, DataFormat, JsonVerdict};
+use crate::check::propose::Proposal;
 use crate::check::{Comparison, OrderResult, Verdict};
 use crate::error::{Error, Result};
 
@@ -40,6 +41,89 @@ struct JsonReport {
     orders: Vec<JsonOrder>,
     diagnoses: Vec<String>,
     summary: String,
+    /// `check --identify`: exact forms proposed for agreeing numerical entries.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    identified: Vec<JsonProposal>,
+}
+
+#[derive(Serialize)]
+struct JsonProposal {
+    #[serde(rename = "loop")]
+    loop_order: u32,
+    found: bool,
+    relation: Option<String>,
+    digits_used: Option<u32>,
+    digits_to_spare: Option<i64>,
+    /// Why nothing was found or attempted.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    note: Option<String>,
+}
+
+fn json_proposal(p: &Proposal) -> JsonProposal {
+    match &p.outcome {
+        Ok(id) => JsonProposal {
+            loop_order: p.loop_order,
+            found: id.found.is_some(),
+            relation: id.found.as_ref().map(|f| f.expression.clone()),
+            digits_used: Some(id.digits_used),
+            digits_to_spare: id.digits_to_spare.filter(|_| id.found.is_some()),
+            note: id
+                .found
+                .is_none()
+                .then(|| "no relation the digits can confirm".to_string()),
+        },
+        Err(why) => JsonProposal {
+            loop_order: p.loop_order,
+            found: false,
+            relation: None,
+            digits_used: None,
+            digits_to_spare: None,
+            note: Some(why.clone()),
+        },
+    }
+}
+
+/// The lines of `check --identify`.
+fn proposals_text(proposals: &[Proposal]) -> String {
+    let mut out = String::from(
+        "\nexact forms proposed for the agreeing numerical entries (numerical identification by \
+         PSLQ in the weight basis of the prediction, not a proof):\n",
+    );
+    if proposals.is_empty() {
+        out.push_str("  (no numerical entry agrees)\n");
+    }
+    for p in proposals {
+        let line = match &p.outcome {
+            Ok(id) => match &id.found {
+                Some(f) => format!(
+                    "{} digits used, {} to spare: {}",
+                    id.digits_used,
+                    id.digits_to_spare.unwrap_or(0),
+                    f.expression
+                ),
+                None => format!("no relation the {} digits can confirm", id.digits_used),
+            },
+            Err(why) => format!("not attempted: {why}"),
+        };
+        out.push_str(&format!("  loop {:>2}: {line}\n", p.loop_order));
+    }
+    out
+}
+
+/// The report with the proposals of `check --identify`.
+pub fn render_identified(
+    c: &Comparison,
+    proposals: &[Proposal],
+    format: DataFormat,
+) -> Result<String> {
+    match format {
+        DataFormat::Text => Ok(text(c) + &proposals_text(proposals)),
+        DataFormat::Json | DataFormat::Yaml => {
+            let mut j = json(c);
+            j.identified = proposals.iter().map(json_proposal).collect();
+            serialized(&j, format)
+        }
+    }
 }
 
 /// What an implied uncertainty is, in the words of the report.
@@ -201,6 +285,7 @@ fn json(c: &Comparison) -> JsonReport {
         orders: c.orders.iter().map(json_order).collect(),
         diagnoses: c.diagnoses.iter().map(ToString::to_string).collect(),
         summary: c.summary(),
+        identified: Vec::new(),
     }
 }
 
