@@ -9,6 +9,7 @@ pub mod fit;
 pub mod identify;
 pub mod latex;
 pub mod origin;
+pub mod strong;
 pub mod svg;
 pub mod values;
 
