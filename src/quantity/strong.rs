@@ -83,21 +83,10 @@ pub struct Coefficient {
 }
 
 impl Coefficient {
-    /// Significant digits the error leaves (0 when it swamps the value).
+    /// Significant digits the error leaves (0 when it swamps the value),
+    /// counted as every other value with an error is.
     pub fn digits(&self) -> u32 {
-        if self.value.is_zero() {
-            return 0;
-        }
-        if self.error.is_zero() {
-            return u32::MAX;
-        }
-        let ratio = Float::with_val(64, &self.value / &self.error).abs();
-        let d = ratio.log10().to_f64().floor();
-        if d < 0.0 {
-            0
-        } else {
-            d as u32
-        }
+        Estimate::new(self.value.clone(), self.error.clone()).digits_supported()
     }
 }
 
