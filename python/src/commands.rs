@@ -80,8 +80,8 @@ pub fn expand(
     let coupling = coupling.map(str::parse::<Coupling>).transpose()?;
     let quantity = Quantity::resolve(quantity, catalogue)?;
     let series = quantity.expand(loops, &mut |_, _, _| {})?;
-    let coupling = coupling
-        .unwrap_or_else(|| quantity.entry.as_ref().map_or(Coupling::G2, |e| e.coupling));
+    let coupling =
+        coupling.unwrap_or_else(|| quantity.entry.as_ref().map_or(Coupling::G2, |e| e.coupling));
     Expansion::new(
         &quantity.label,
         &quantity.definition,

@@ -1,6 +1,6 @@
 //! `loopwise._native`: the Python extension module. Each function takes
 //! plain arguments, runs one composition of library calls from
-//! [`commands`] with the interpreter released, and returns text (JSON for
+//! `commands.rs` with the interpreter released, and returns text (JSON for
 //! reports); the Python package `loopwise` turns that into Python objects.
 //! Library errors become `loopwise.InputError` (a `ValueError`: unusable
 //! input, out-of-range numbers, unreadable files) or `loopwise.NumericError`
