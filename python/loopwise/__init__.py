@@ -253,15 +253,16 @@ def at(
 
     Args:
         quantity: a catalogue name or a formula in the functionals (any real tilt).
-        g: a number (int, float, decimal text, ``Decimal``, mpmath or sympy
-            number), or a list of them.
+        g: a number (int, float, decimal text, ``Decimal``, a terminating
+            fraction, mpmath or sympy number), or a list of them.
         digits: significant digits wanted, 1 to 200; the value carries only
             the digits its error estimate supports.
         as_text: return decimal text even when mpmath is importable.
         catalog: a directory of extra catalogue entries.
 
     Returns:
-        ``Value(value, error)`` for one coupling, a list of them for a list.
+        ``Value(value, error)`` for one coupling, a list of them for a list
+        (or for text naming several couplings, ``"0.1,0.5"`` or a grid ``"0:1:0.25"``).
         The values are ``mpmath.mpf`` when mpmath is importable (and
         ``as_text`` is false), decimal text otherwise.
 
@@ -282,7 +283,11 @@ def at(
         Value(number_or_text(r["value"], as_text), number_or_text(r["error"], as_text))
         for r in report["values"]
     ]
-    return values if isinstance(g, (list, tuple)) else values[0]
+    # Text may name several couplings ("0.1,0.5", a grid "0:1:0.25"): then all
+    # of them come back, never just the first.
+    if isinstance(g, (list, tuple)) or len(values) != 1:
+        return values
+    return values[0]
 
 
 def scan(
@@ -380,7 +385,10 @@ def check(
     Raises:
         InputError: a file that cannot be read or used, with file, line and column.
     """
-    return json.loads(_native.check(os.fspath(path), whole("digits", digits), bool(identify), _catalog(catalog)))
+    report: Dict[str, Any] = json.loads(
+        _native.check(os.fspath(path), whole("digits", digits), bool(identify), _catalog(catalog))
+    )
+    return report
 
 
 def origin(
@@ -403,7 +411,10 @@ def origin(
     Raises:
         InputError: a file that cannot be read or used, with file, line and column.
     """
-    return json.loads(_native.origin(os.fspath(path), whole("digits", digits), _text_arg("even", even), _catalog(catalog)))
+    report: Dict[str, Any] = json.loads(
+        _native.origin(os.fspath(path), whole("digits", digits), _text_arg("even", even), _catalog(catalog))
+    )
+    return report
 
 
 def identify(
@@ -439,7 +450,7 @@ def identify(
     """
     if basis is not None and not isinstance(basis, str):
         basis = "; ".join(_text_arg("basis element", b) for b in basis)
-    return json.loads(
+    report: Dict[str, Any] = json.loads(
         _native.identify(
             number_text("value", value),
             optional_whole("digits", digits),
@@ -449,6 +460,7 @@ def identify(
             _catalog(catalog),
         )
     )
+    return report
 
 
 def evaluate(

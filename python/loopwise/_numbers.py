@@ -12,7 +12,7 @@ from typing import Any, Optional, Union
 from ._native import InputError
 
 try:
-    import mpmath as _mpmath
+    import mpmath as _mpmath  # type: ignore[import-untyped]
 except ImportError:  # mpmath is optional: without it values stay decimal text
     _mpmath = None
 
@@ -41,7 +41,7 @@ def optional_whole(name: str, value: Any) -> Optional[int]:
     return None if value is None else whole(name, value)
 
 
-def _terminating(q: numbers.Rational, name: str) -> str:
+def _terminating(q: Any, name: str) -> str:
     """An exact decimal for a fraction whose denominator has only the prime
     factors 2 and 5; any other fraction would need rounding, which is refused."""
     num, den = int(q.numerator), int(q.denominator)

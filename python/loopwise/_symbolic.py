@@ -26,7 +26,7 @@ _cache: Dict[str, Any] = {}
 
 def _sympy() -> Any:
     try:
-        import sympy
+        import sympy  # type: ignore[import-untyped]
     except ImportError as e:
         raise ImportError("sympy is not installed: `pip install sympy` for symbolic results") from e
     return sympy
@@ -39,7 +39,9 @@ def mzv_class() -> Any:
         return _cache["MZV"]
     sympy = _sympy()
 
-    class MZV(sympy.Function):  # type: ignore[misc, valid-type]
+    function: Any = sympy.Function
+
+    class MZV(function):  # type: ignore[misc]
         """Multiple zeta value MZV(s1, ..., sk) = sum_{n1 > ... > nk >= 1}
         n1^-s1 ... nk^-sk, the coefficient language's ``zeta(s1, ..., sk)``;
         MZV(n) is ``zeta(n)``. Numerical values come from loopwise's MPFR

@@ -39,6 +39,9 @@ def test_at_takes_numbers_of_every_kind_and_lists():
         assert abs(value - reference) < mpmath.mpf(10) ** -18 * reference
     both = loopwise.at("octagon", [0.5, 2], digits=20)
     assert len(both) == 2
+    # Text naming several couplings gives all of them, as the command line's --g does.
+    assert loopwise.at("octagon", "0.5,2", digits=20) == both
+    assert len(loopwise.at("octagon", "0:2:0.5", digits=10)) == 5
     assert abs(both[1].value - octagon(2)) < mpmath.mpf(10) ** -18 * octagon(2)
 
 
