@@ -152,10 +152,7 @@ pub fn scan(
     let digits = finite_digits(digits)?;
     let prec = bits_for_digits(digits) + 64;
     let points = match points {
-        Some(n) => GridPoints::Given(
-            usize::try_from(n)
-                .map_err(|_| Error::range(format!("points={n} must be at least 2")))?,
-        ),
+        Some(n) => GridPoints::Given(in_range("points", n, 2, MAX_POINTS as u32)? as usize),
         None if grid.contains(':') => GridPoints::Default(61),
         None => GridPoints::NoCount,
     };

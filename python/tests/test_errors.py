@@ -80,6 +80,12 @@ def test_fractions_without_a_finite_decimal_are_refused():
     assert value == loopwise.at("octagon", "0.5", digits=10, as_text=True).value
 
 
+@pytest.mark.parametrize("points", [1, -3, 100_001])
+def test_a_grid_of_too_few_or_too_many_points_is_refused(points):
+    with pytest.raises(loopwise.InputError, match=rf"points={points} is out of range: 2 to 100000"):
+        loopwise.scan("octagon", 0, 1, points)
+
+
 def test_digits_out_of_range_are_refused():
     with pytest.raises(loopwise.InputError, match="digits=0 is out of range"):
         loopwise.at("octagon", 1, digits=0)
