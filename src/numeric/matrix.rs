@@ -83,6 +83,47 @@ pub(crate) fn kernel_integrals(
     Ok(s)
 }
 
+/// The diagonal integrals S_mm for m = from + 1 ..= upto on the same nodes,
+/// for the trace of the kernel's tail (see `attempt` in mod.rs). Each term
+/// W_k J_m^2 is positive, so plain MPFR sums lose nothing to cancellation;
+/// orders whose term would lie below exp(ln_drop) at a node are skipped as
+/// in `kernel_integrals`.
+pub(crate) fn diagonal_integrals(
+    g: &Float,
+    from: usize,
+    upto: usize,
+    nodes: &[(Float, Float)],
+    ln_drop: f64,
+    prec: u32,
+) -> Vec<Float> {
+    let mut out = vec![Float::new(prec); upto.saturating_sub(from)];
+    if out.is_empty() {
+        return out;
+    }
+    let two_g = Float::with_val(prec, g * 2u32);
+    let gf = g.to_f64();
+    let mut term = Float::new(prec);
+    for (t, w) in nodes {
+        let xf = 2.0 * gf * t.to_f64();
+        let ln_w = w.to_f64().abs().ln();
+        let mut m = upto;
+        while m > from && 2.0 * ln_magnitude(m, xf) + ln_w < ln_drop {
+            m -= 1;
+        }
+        if m == from {
+            continue;
+        }
+        let x = Float::with_val(prec, &two_g * t);
+        let js = bessel_j_upto(m, &x, prec);
+        for (sum, j) in out.iter_mut().zip(&js[from + 1..=m]) {
+            term.assign(j.square_ref());
+            term *= w;
+            *sum += &term;
+        }
+    }
+    out
+}
+
 /// 1 + K' for the leading k x k block of S, with
 /// K_ij = 2 j (-1)^(j(i+1)) S_ij and the tilt in rational form:
 /// K'_ij = 2 s2 K_ij for even i and odd j, 2 c2 K_ij otherwise.
