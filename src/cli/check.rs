@@ -3,7 +3,7 @@
 
 use std::path::{Path, PathBuf};
 
-use clap::{Args as ClapArgs, ValueEnum};
+use clap::Args as ClapArgs;
 
 use loopwise::check;
 use loopwise::check::propose::propose;
@@ -18,8 +18,8 @@ use super::{emit, in_range, DataFormatArg, Outcome};
 use loopwise::limits::MAX_CHECK_DIGITS;
 
 /// The demo's series file, shipped in the binary.
-const DEMO: &str = include_str!("../../series/examples/demo-cusp.yaml");
-const DEMO_NAME: &str = "series/examples/demo-cusp.yaml";
+pub(super) const DEMO: &str = include_str!("../../series/examples/demo-cusp.yaml");
+pub(super) const DEMO_NAME: &str = "series/examples/demo-cusp.yaml";
 
 #[derive(ClapArgs, Debug)]
 pub struct Args {
@@ -37,25 +37,6 @@ pub struct Args {
     /// the weight basis of the predicted coefficient; numerical identification).
     #[arg(long)]
     pub identify: bool,
-}
-
-/// The built-in demos.
-#[derive(Clone, Copy, Debug, ValueEnum)]
-pub enum DemoKind {
-    /// `check` on a seven-loop cusp anomalous dimension.
-    Cusp,
-    /// `origin` on a seven-loop six-gluon amplitude at the origin.
-    Origin,
-}
-
-#[derive(ClapArgs, Debug)]
-pub struct DemoArgs {
-    /// Which demo to run.
-    #[arg(value_enum, default_value = "cusp")]
-    pub which: DemoKind,
-    /// Output format.
-    #[arg(long, value_enum, default_value = "text")]
-    pub format: DataFormatArg,
 }
 
 fn run_one(file: &SeriesFile, catalogue: &Catalogue, digits: u32) -> Result<check::Comparison> {
@@ -134,11 +115,11 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
 
 /// Runs the check on the built-in fictional scenario. It always exits 0:
 /// finding the planted mistake is what the demo is for.
-pub fn demo(args: &DemoArgs, catalogue: &Catalogue) -> Result<Outcome> {
+pub fn demo(format: DataFormatArg, catalogue: &Catalogue) -> Result<Outcome> {
     let file = parse_series_text(DEMO, DEMO_NAME)?;
     let c = run_one(&file, catalogue, 30)?;
     let mut text = String::new();
-    if matches!(args.format, DataFormatArg::Text) {
+    if matches!(format, DataFormatArg::Text) {
         text.push_str(
             "loopwise demo: an invented group's seven-loop cusp results (fictional data, shipped\n",
         );
@@ -146,7 +127,7 @@ pub fn demo(args: &DemoArgs, catalogue: &Catalogue) -> Result<Outcome> {
             "in series/examples/demo-cusp.yaml) checked order by order against the prediction.\n\n",
         );
     }
-    text.push_str(&render(&c, args.format.into())?);
+    text.push_str(&render(&c, format.into())?);
     emit(&text)?;
     Ok(Outcome::Done)
 }

@@ -5,16 +5,20 @@
 //! go to stderr, results alone to stdout.
 
 mod check;
+mod completions;
+mod demo;
 mod eval;
 mod expand;
 mod identify;
+mod init;
+mod manual;
 mod origin;
 mod progress;
 mod strong;
 mod values;
 
 use std::io::Write;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 use clap::{Parser, Subcommand, ValueEnum};
 
@@ -49,7 +53,7 @@ pub enum Command {
     /// Evaluate one expression numerically to many digits.
     Eval(eval::Args),
     /// Run `check` (cusp, the default) or `origin` on a built-in, fictional seven-loop dataset.
-    Demo(check::DemoArgs),
+    Demo(demo::Args),
     /// Read a six-gluon origin series: exponentiation, Gamma_oct, Gamma_hex and C0 order by order.
     Origin(origin::OriginArgs),
     /// Fit loop coefficients as an exact rational combination of basis series.
@@ -70,6 +74,12 @@ pub enum Command {
     Identify(identify::Args),
     /// Fit the strong-coupling expansion c1 g + c0 + c-1/g + ... to values at large g, and identify its coefficients.
     Strong(strong::Args),
+    /// Write a commented series file to start from, whose example entries pass `check`.
+    Init(init::Args),
+    /// Print a shell's completion script (bash, zsh, fish, elvish, powershell).
+    Completions(completions::Args),
+    /// Print the manual page (roff), or write one page per command with --dir.
+    Manual(manual::Args),
 }
 
 /// Output formats, as the command line spells them.
@@ -201,10 +211,7 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::Expand(args) => expand::run(args, &catalogue),
         Command::Check(args) => check::run(args, &catalogue),
         Command::Eval(args) => eval::run(args, &catalogue),
-        Command::Demo(args) => match args.which {
-            check::DemoKind::Cusp => check::demo(args, &catalogue),
-            check::DemoKind::Origin => origin::demo(args.format, &catalogue),
-        },
+        Command::Demo(args) => demo::run(args, &catalogue),
         Command::Origin(args) => origin::origin(args, &catalogue),
         Command::Fit(args) => origin::fit(args, &catalogue),
         Command::At(args) => values::at(args, &catalogue),
@@ -215,6 +222,9 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::Selftest => values::selftest(),
         Command::Identify(args) => identify::run(args, &catalogue),
         Command::Strong(args) => strong::run(args, &catalogue),
+        Command::Init(args) => init::run(args, &catalogue),
+        Command::Completions(args) => completions::run(args),
+        Command::Manual(args) => manual::run(args),
     }
 }
 
@@ -250,6 +260,31 @@ pub fn emit(text: &str) -> Result<()> {
                 Error::io(format!("cannot write to standard output: {e}"))
             }
         })
+}
+
+/// Writes `text` to a new file at `path`; an existing file is replaced only
+/// with `force`, and otherwise left as it was (the check and the creation are
+/// one step, so no file appearing in between is lost).
+pub fn write_new(path: &Path, text: &str, force: bool) -> Result<()> {
+    let mut options = std::fs::OpenOptions::new();
+    options.write(true);
+    if force {
+        options.create(true).truncate(true);
+    } else {
+        options.create_new(true);
+    }
+    let cannot = |e: std::io::Error| Error::io(format!("cannot write {}: {e}", path.display()));
+    let mut file = options.open(path).map_err(|e| {
+        if e.kind() == std::io::ErrorKind::AlreadyExists {
+            Error::input(format!(
+                "{} exists already and was left as it is; give --force to replace it",
+                path.display()
+            ))
+        } else {
+            cannot(e)
+        }
+    })?;
+    file.write_all(text.as_bytes()).map_err(cannot)
 }
 
 fn list(catalogue: &Catalogue) -> Result<Outcome> {

@@ -18,8 +18,8 @@ use super::{emit, in_range, DataFormatArg, EvenArg, Outcome};
 use loopwise::limits::MAX_CHECK_DIGITS;
 
 /// The origin demo's series file, shipped in the binary.
-const DEMO: &str = include_str!("../../series/examples/demo-origin.yaml");
-const DEMO_NAME: &str = "series/examples/demo-origin.yaml";
+pub(super) const DEMO: &str = include_str!("../../series/examples/demo-origin.yaml");
+pub(super) const DEMO_NAME: &str = "series/examples/demo-origin.yaml";
 
 /// Default of `--ceiling`: how far the basis is expanded to find the orders that fix a family.
 const DEFAULT_CEILING: u32 = 12;

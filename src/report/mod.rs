@@ -11,6 +11,7 @@ pub mod latex;
 pub mod origin;
 pub mod strong;
 pub mod svg;
+pub mod template;
 pub mod values;
 
 pub use decimal::{decimal, digit_place, rounded_at};
