@@ -5,11 +5,11 @@
 pub mod check;
 pub mod decimal;
 pub mod expansion;
+pub mod figure;
 pub mod fit;
 pub mod identify;
 pub mod latex;
 pub mod origin;
-pub mod svg;
 pub mod values;
 
 pub use decimal::{decimal, digit_place, rounded_at};
