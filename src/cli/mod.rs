@@ -10,6 +10,7 @@ mod expand;
 mod identify;
 mod origin;
 mod progress;
+mod strong;
 mod values;
 
 use std::io::Write;
@@ -67,6 +68,8 @@ pub enum Command {
     Selftest,
     /// Identify a number as a rational combination of zeta values, pi powers or a given basis (PSLQ).
     Identify(identify::Args),
+    /// Fit the strong-coupling expansion c1 g + c0 + c-1/g + ... to values at large g, and identify its coefficients.
+    Strong(strong::Args),
 }
 
 /// Output formats, as the command line spells them.
@@ -211,6 +214,7 @@ fn dispatch(cli: &Cli) -> Result<Outcome> {
         Command::Radius(args) => values::radius(args, &catalogue),
         Command::Selftest => values::selftest(),
         Command::Identify(args) => identify::run(args, &catalogue),
+        Command::Strong(args) => strong::run(args, &catalogue),
     }
 }
 

@@ -35,7 +35,7 @@ fn grid_points(points: Option<usize>) -> GridPoints {
     points.map_or(GridPoints::Default(DEFAULT_POINTS), GridPoints::Given)
 }
 
-fn check_digits(digits: u32) -> Result<()> {
+pub fn check_digits(digits: u32) -> Result<()> {
     if digits == 0 || digits > MAX_FINITE_DIGITS {
         return Err(Error::range(format!(
             "--digits {digits} is out of range: the finite-coupling engine delivers 1 to {MAX_FINITE_DIGITS} digits honestly"

@@ -16,6 +16,7 @@ pub mod convergence;
 pub mod estimate;
 pub mod evaluate;
 mod gram;
+pub mod leastsquares;
 mod matrix;
 pub mod mzv;
 pub mod pslq;

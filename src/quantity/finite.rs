@@ -64,6 +64,13 @@ fn functionals(q: &Quantity, prec: u32) -> Result<Vec<(Functional, Angle, Float)
     Ok(out)
 }
 
+/// Whether the quantity's formula contains the functional `f`.
+pub fn uses(q: &Quantity, f: Functional) -> bool {
+    let mut found = Vec::new();
+    collect(&q.expr, &mut found);
+    found.iter().any(|(k, _)| *k == f)
+}
+
 fn collect(e: &Expr, out: &mut Vec<(Functional, Angle)>) {
     match &e.node {
         Node::Functional { kind, angle } => out.push((*kind, angle.clone())),

@@ -114,14 +114,57 @@ struct Element {
 /// among them a linearly dependent basis, which names its relation.
 pub fn identify(request: &Request<'_>, catalogue: &Catalogue) -> Result<Identification> {
     let (value, digits) = read_value(request, catalogue)?;
-    let prec = value.prec();
-    let basis = read_basis(request, prec)?;
+    let basis = read_basis(request, value.prec())?;
+    search(
+        request.value.trim().to_string(),
+        &value,
+        digits,
+        &basis,
+        request.weight.is_some(),
+    )
+}
+
+/// Identifies a computed number, trusted to `digits` significant digits,
+/// against the elements of `basis` (expressions separated by `;`); `label`
+/// is how the result names the value.
+///
+/// Errors: as [`identify`], and a zero value (kind Input).
+pub fn identify_number(
+    value: &Float,
+    digits: u32,
+    label: &str,
+    basis: &str,
+) -> Result<Identification> {
+    check_digits(digits)?;
+    if value.is_zero() {
+        return Err(Error::input(format!(
+            "{label} is zero: there is nothing to identify"
+        )));
+    }
+    let value = Float::with_val(working_bits(digits), value);
+    let request = Request {
+        basis: Some(basis),
+        ..Request::default()
+    };
+    let basis = read_basis(&request, value.prec())?;
+    search(label.to_string(), &value, digits, &basis, false)
+}
+
+/// The search behind both entry points: the basis must be independent, then
+/// a relation with the value is sought, believed or refused.
+fn search(
+    label: String,
+    value: &Float,
+    digits: u32,
+    basis: &[Element],
+    weight_basis: bool,
+) -> Result<Identification> {
     // The digits alone decide how far a search can vouch for its answer.
     let unbounded = Float::with_val(64, Special::Infinity);
     if basis.len() >= 2 {
         let values: Vec<Float> = basis.iter().map(|b| b.value.clone()).collect();
         if let Some(r) = find_relation(&values, digits, &unbounded)?.relation {
-            return Err(dependent(&basis, &r.coefficients, digits));
+            return Err(dependent(basis, &r.coefficients, digits));
         }
     }
     let mut values = vec![value.clone()];
@@ -134,9 +177,9 @@ pub fn identify(request: &Request<'_>, catalogue: &Catalogue) -> Result<Identifi
         ..
     } = find_relation(&values, digits, &unbounded)?;
     let mut result = Identification {
-        value: request.value.trim().to_string(),
+        value: label,
         basis: basis.iter().map(|b| b.text.clone()).collect(),
-        weight_basis: request.weight.is_some(),
+        weight_basis,
         found: None,
         candidate: None,
         residual: None,
@@ -146,10 +189,10 @@ pub fn identify(request: &Request<'_>, catalogue: &Catalogue) -> Result<Identifi
     };
     if let Some(r) = relation {
         if r.coefficients[0] == 0 {
-            return Err(dependent(&basis, &r.coefficients[1..], digits_used));
+            return Err(dependent(basis, &r.coefficients[1..], digits_used));
         }
-        let (expression, coefficients) = solved(&basis, &r.coefficients);
-        let agreeing_digits = verify(&expression, &value, &basis, &coefficients, digits_used)?;
+        let (expression, coefficients) = solved(basis, &r.coefficients);
+        let agreeing_digits = verify(&expression, value, basis, &coefficients, digits_used)?;
         result.residual = Some(residual(&r));
         result.digits_to_spare = Some(r.digits_to_spare);
         result.found = Some(Found {
@@ -159,9 +202,9 @@ pub fn identify(request: &Request<'_>, catalogue: &Catalogue) -> Result<Identifi
         });
     } else if let Some(r) = refused {
         result.candidate = Some(if r.coefficients[0] == 0 {
-            format!("{} = 0", terms(&basis, &to_rationals(&r.coefficients[1..])))
+            format!("{} = 0", terms(basis, &to_rationals(&r.coefficients[1..])))
         } else {
-            format!("{} = {}", result.value, solved(&basis, &r.coefficients).0)
+            format!("{} = {}", result.value, solved(basis, &r.coefficients).0)
         });
         result.residual = Some(residual(&r));
         result.digits_to_spare = Some(r.digits_to_spare);
@@ -364,7 +407,9 @@ fn user_element(piece: &str, place: usize, prec: u32) -> Result<Element> {
             cache: std::collections::HashMap::new(),
             progress: &mut |_, _, _| {},
         };
-        Some(expander.series(&e)?.coeff(0).clone())
+        // Constants outside the exact ring (3^(1/2)) take part by value;
+        // the relation then prints them as written.
+        expander.series(&e).ok().map(|s| s.coeff(0).clone())
     };
     Ok(Element {
         compound: matches!(e.node, Node::Add(..) | Node::Sub(..) | Node::Neg(_)),

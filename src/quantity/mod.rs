@@ -10,6 +10,7 @@ pub mod finite;
 pub mod identify;
 pub mod selftest;
 pub mod shard;
+pub mod strong;
 
 use std::collections::HashMap;
 

@@ -10,6 +10,7 @@ pub mod fit;
 pub mod identify;
 pub mod latex;
 pub mod origin;
+pub mod strong;
 pub mod values;
 
 pub use decimal::{decimal, digit_place, rounded_at};
