@@ -57,6 +57,9 @@ const FRAME_TOP: f64 = 92.0;
 const INK: &str = "#222222";
 const GRID: &str = "#e3e3e3";
 
+/// The visible pieces of a curve in figure coordinates, after clipping.
+type Pieces = Vec<Vec<(f64, f64)>>;
+
 /// How one quantity is named in the figure.
 struct Subject {
     /// On the y axis and in the title: Γ_cusp, Γ(0), 2Γ(π/4) − 4g².
@@ -197,7 +200,7 @@ pub fn draw(figure: &Figure, quantities: &[Quantity]) -> Drawing {
 
     // Clip every curve; keep those with something to show.
     let mut notes = Vec::new();
-    let mut shown: Vec<(&Curve, Vec<Vec<(f64, f64)>>)> = Vec::new();
+    let mut shown: Vec<(&Curve, Pieces)> = Vec::new();
     for c in &figure.curves {
         let mapped: Vec<(f64, f64)> = c.points.iter().map(|&(x, y)| (px(x), py(y))).collect();
         let pieces = clip::polyline(&frame, &mapped);
@@ -338,7 +341,7 @@ pub fn draw(figure: &Figure, quantities: &[Quantity]) -> Drawing {
         out,
         r#"<g clip-path="url(#frame-clip)" fill="none" stroke-linejoin="round">"#
     );
-    let mut order: Vec<&(&Curve, Vec<Vec<(f64, f64)>>)> = shown.iter().collect();
+    let mut order: Vec<&(&Curve, Pieces)> = shown.iter().collect();
     order.sort_by_key(|(c, _)| c.kind == CurveKind::Finite);
     for (c, pieces) in order {
         let s = stroke_of(c);
