@@ -7,7 +7,7 @@ use crate::quantity::curves::CurveKind;
 
 /// Base hues in degrees, one per quantity: blue, red, green, purple,
 /// amber, teal; far enough apart (at least 40 degrees) to name at a glance.
-pub const HUES: [f64; 6] = [215.0, 5.0, 135.0, 280.0, 38.0, 180.0];
+pub const HUES: [f64; 6] = [215.0, 0.0, 125.0, 285.0, 40.0, 170.0];
 
 /// The stroke of one curve.
 #[derive(Clone, Debug, PartialEq)]
