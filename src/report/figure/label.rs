@@ -352,15 +352,19 @@ pub fn convention() -> Rich {
 }
 
 /// The symbol of a catalogue quantity where the literature has one
-/// (Γ_cusp, hep-th/0610251; the scaling function f = 2Γ_cusp); other
-/// quantities are shown by their definition.
+/// (Γ_cusp, hep-th/0610251; Γ_oct, arXiv:1907.13131; Γ_hex, the
+/// six-gluon origin; the scaling function f = 2Γ_cusp), as the catalogue's
+/// summaries name them; other quantities are shown by their definition.
 pub fn symbol(name: &str) -> Option<Rich> {
+    let gamma = |sub: &str| {
+        let mut r = Rich::plain("Γ");
+        r.push(sub, Shift::Sub);
+        Some(r)
+    };
     match name {
-        "cusp" => {
-            let mut r = Rich::plain("Γ");
-            r.push("cusp", Shift::Sub);
-            Some(r)
-        }
+        "cusp" => gamma("cusp"),
+        "octagon" => gamma("oct"),
+        "hexagon" => gamma("hex"),
         "scaling-function" => Some(Rich::plain("f")),
         _ => None,
     }

@@ -111,10 +111,11 @@ fn labels_legend_and_title_are_typeset() {
         .lines()
         .find(|l| l.contains("class=\"y-label\""))
         .unwrap();
-    assert!(y_label.contains(&format!("{cusp}, Γ(0)")), "{y_label}");
+    let oct = "Γ<tspan baseline-shift=\"sub\" font-size=\"70%\">oct</tspan>";
+    assert!(y_label.contains(&format!("{cusp}, {oct}")), "{y_label}");
     for needle in [
         &format!("{cusp} = Γ(π/4)") as &str,
-        "octagon, Γ(0)",
+        &format!("{oct} = Γ(0)"),
         "g² = λ/(16π²)",
         "weak coupling to g⁴ (2 loops)",
         "weak coupling to g¹⁶ (8 loops)",
@@ -147,7 +148,12 @@ fn formulas_and_conjectures_are_labelled() {
     };
     let all = texts(&draw(&fig, &qs).svg).join("\n");
     assert!(all.contains("Γ(π/4) − 4g²"), "{all}");
-    assert!(all.contains("hexagon, Γ(π/3) (conjecture)"), "{all}");
+    assert!(
+        all.contains(
+            "Γ<tspan baseline-shift=\"sub\" font-size=\"70%\">hex</tspan> = Γ(π/3) (conjecture)"
+        ),
+        "{all}"
+    );
 }
 
 #[test]
@@ -229,7 +235,11 @@ fn nothing_leaves_the_frame_and_truncations_do_not_stretch_it() {
     let second = pade.3.rfind('M').unwrap();
     let before = coordinates(pade.3[..second].trim_end());
     let after = coordinates(&pade.3[second..]);
-    assert!(before.last().unwrap().0 < pole && after[0].0 > pole, "{}", pade.3);
+    assert!(
+        before.last().unwrap().0 < pole && after[0].0 > pole,
+        "{}",
+        pade.3
+    );
 }
 
 #[test]
