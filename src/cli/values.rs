@@ -215,7 +215,7 @@ pub struct PlotArgs {
     #[arg(long)]
     pub no_strong: bool,
     /// Draw the strong-coupling expansions from this coupling on (0 < G <= 200) [default: 0.5].
-    #[arg(long, value_name = "G")]
+    #[arg(long, value_name = "G", allow_negative_numbers = true)]
     pub strong_from: Option<f64>,
     /// The file to write: SVG, or PDF when it ends in .pdf.
     #[arg(long, short = 'o')]
