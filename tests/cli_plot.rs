@@ -42,8 +42,19 @@ fn attr<'a>(line: &'a str, name: &str) -> &'a str {
     &line[start..start + line[start..].find('"').unwrap()]
 }
 
-/// (data-quantity, data-kind, stroke, points) of every curve.
-fn curves(svg: &str) -> Vec<(String, String, String, Vec<(f64, f64)>)> {
+/// One curve of a figure, as its `<path>` states it.
+#[derive(Debug)]
+struct Drawn {
+    /// `data-quantity`: the quantity's place in the command line, from 0.
+    quantity: String,
+    /// `data-kind`: finite, weak-L, pade-N or strong.
+    kind: String,
+    stroke: String,
+    points: Vec<(f64, f64)>,
+}
+
+/// Every curve of a figure.
+fn curves(svg: &str) -> Vec<Drawn> {
     svg.lines()
         .filter(|l| l.starts_with("<path class=\"curve\""))
         .map(|l| {
@@ -54,12 +65,12 @@ fn curves(svg: &str) -> Vec<(String, String, String, Vec<(f64, f64)>)> {
                     (x.parse().unwrap(), y.parse().unwrap())
                 })
                 .collect();
-            (
-                attr(l, "data-quantity").to_string(),
-                attr(l, "data-kind").to_string(),
-                attr(l, "stroke").to_string(),
+            Drawn {
+                quantity: attr(l, "data-quantity").to_string(),
+                kind: attr(l, "data-kind").to_string(),
+                stroke: attr(l, "stroke").to_string(),
                 points,
-            )
+            }
         })
         .collect()
 }
@@ -167,8 +178,8 @@ fn each_quantity_keeps_one_colour_family() {
     assert_eq!(cs.len(), 12, "{cs:?}");
     let family = |q: &str| -> Vec<(String, f64)> {
         cs.iter()
-            .filter(|c| c.0 == q)
-            .map(|c| (c.2.clone(), hue(&c.2)))
+            .filter(|c| c.quantity == q)
+            .map(|c| (c.stroke.clone(), hue(&c.stroke)))
             .collect()
     };
     let (cusp, octagon) = (family("0"), family("1"));
@@ -206,9 +217,12 @@ fn strong_coupling_starts_at_the_threshold() {
         let s = svg(&args, "strong.svg");
         let (left, _, right, _) = clip_rect(&s);
         let g_of = |x: f64| (x - left) / (right - left) * 2.0;
-        let strong: Vec<_> = curves(&s).into_iter().filter(|c| c.1 == "strong").collect();
+        let strong: Vec<_> = curves(&s)
+            .into_iter()
+            .filter(|c| c.kind == "strong")
+            .collect();
         assert_eq!(strong.len(), 1, "{extra:?}");
-        let gs: Vec<f64> = strong[0].3.iter().map(|p| g_of(p.0)).collect();
+        let gs: Vec<f64> = strong[0].points.iter().map(|p| g_of(p.0)).collect();
         assert!(
             (gs[0] - first).abs() < 1e-3,
             "{extra:?}: starts at g = {}",
@@ -257,7 +271,7 @@ fn truncations_are_clipped_at_the_frame() {
     let (left, top, right, bottom) = clip_rect(&s);
     assert!(s.contains("<g clip-path=\"url(#frame-clip)\""));
     let cs = curves(&s);
-    for (_, kind, _, points) in &cs {
+    for Drawn { kind, points, .. } in &cs {
         for &(x, y) in points {
             assert!(
                 x >= left - 0.005 && x <= right + 0.005 && y >= top - 0.005 && y <= bottom + 0.005,
@@ -265,8 +279,8 @@ fn truncations_are_clipped_at_the_frame() {
             );
         }
     }
-    let six = cs.iter().find(|c| c.1 == "weak-6").unwrap();
-    let end = six.3.last().unwrap();
+    let six = cs.iter().find(|c| c.kind == "weak-6").unwrap();
+    let end = six.points.last().unwrap();
     assert!(
         (end.1 - top).abs() < 0.01 || (end.1 - bottom).abs() < 0.01,
         "the 6-loop sum ends at {end:?}, inside the frame"
@@ -285,9 +299,9 @@ fn coordinates_are_sub_pixel() {
         &["cusp", "--g", "0:2", "--points", "41", "--no-strong"],
         "subpixel.svg",
     );
-    let finite = curves(&s).into_iter().find(|c| c.1 == "finite").unwrap();
-    assert_eq!(finite.3.len(), 41);
-    let fractional = finite.3.iter().filter(|p| p.1.fract() != 0.0).count();
+    let finite = curves(&s).into_iter().find(|c| c.kind == "finite").unwrap();
+    assert_eq!(finite.points.len(), 41);
+    let fractional = finite.points.iter().filter(|p| p.1.fract() != 0.0).count();
     assert!(fractional >= 35, "{fractional} of 41");
 }
 
