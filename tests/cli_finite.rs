@@ -150,7 +150,10 @@ fn scan_gives_csv_and_json() {
     assert_eq!(v[2]["g"], "1");
 }
 
-/// The SVG is written, is SVG, and names every series in its legend.
+/// The SVG is written, is SVG, draws every series and names it in its
+/// legend, typeset: under each quantity's symbol the finite-coupling curve,
+/// the truncations by their last power of g, the Padé approximant and the
+/// strong-coupling expansion.
 #[test]
 fn plot_writes_an_svg_with_every_series_named() {
     let path = std::env::temp_dir().join(format!("loopwise-plot-{}.svg", std::process::id()));
@@ -172,26 +175,34 @@ fn plot_writes_an_svg_with_every_series_named() {
     assert_eq!(code, 0, "{err}");
     let svg = std::fs::read_to_string(&path).unwrap();
     std::fs::remove_file(&path).ok();
-    assert!(
-        svg.trim_start().starts_with("<svg") || svg.trim_start().starts_with("<?xml"),
-        "{}",
-        &svg[..80.min(svg.len())]
-    );
+    assert!(svg.starts_with("<svg xmlns=\"http://www.w3.org/2000/svg\""));
     assert!(svg.trim_end().ends_with("</svg>"));
-    for name in [
-        "cusp (finite coupling)",
-        "octagon (finite coupling)",
-        "cusp weak coupling, 2 loops",
-        "cusp weak coupling, 6 loops",
-        "cusp strong coupling",
-        "g^2 = lambda/(16 pi^2)",
-    ] {
-        assert!(svg.contains(name), "missing {name}");
+    let sub = |s: &str| format!("<tspan baseline-shift=\"sub\" font-size=\"70%\">{s}</tspan>");
+    // The legend, in order: each quantity's header, then its curves.
+    let legend: Vec<&str> = svg
+        .lines()
+        .filter(|l| l.starts_with("<text") && l.contains("text-anchor=\"start\""))
+        .map(|l| &l[l.find('>').unwrap() + 1..l.rfind("</text>").unwrap()])
+        .collect();
+    let rows = [
+        "finite coupling",
+        "weak coupling to g⁴ (2 loops)",
+        "weak coupling to g¹² (6 loops)",
+        "Padé [4/4] in g²",
+        "strong coupling, g ≥ 0.5",
+    ];
+    let mut expected = vec![format!("Γ{} = Γ(π/4)", sub("cusp"))];
+    expected.extend(rows.iter().map(|r| r.to_string()));
+    expected.push(format!("Γ{} = Γ(0)", sub("oct")));
+    expected.extend(rows.iter().map(|r| r.to_string()));
+    assert_eq!(legend, expected);
+    assert!(svg.contains("g² = λ/(16π²)"), "the convention is stated");
+    for k in 0..2 {
+        for kind in ["finite", "weak-2", "weak-6", "pade-4", "strong"] {
+            let tag = format!("<path class=\"curve\" data-quantity=\"{k}\" data-kind=\"{kind}\"");
+            assert_eq!(svg.matches(&tag).count(), 1, "{k} {kind}");
+        }
     }
-    assert!(
-        svg.contains("Padé [4/4]") || svg.contains("Pad&#233; [4/4]") || svg.contains("Pad\u{e9}"),
-        "Padé curve named"
-    );
 }
 
 /// The ratio test on the octagon's 30 exact orders points to 1/4, the
@@ -457,15 +468,18 @@ fn plot_skips_the_weak_coupling_series_it_cannot_expand() {
         err.contains("Gamma(0.3): weak-coupling curves left out"),
         "{err}"
     );
-    for name in [
-        "Gamma(0.3) (finite coupling)",
-        "cusp (finite coupling)",
-        "cusp weak coupling, 2 loops",
-    ] {
-        assert!(svg.contains(name), "missing {name}");
+    let texts: Vec<&str> = svg
+        .lines()
+        .filter(|l| l.starts_with("<text"))
+        .map(|l| &l[l.find('>').unwrap() + 1..l.rfind("</text>").unwrap()])
+        .collect();
+    assert!(texts.contains(&"Γ(0.3)"), "{texts:?}");
+    for (k, kind) in [(0, "finite"), (1, "finite"), (1, "weak-2"), (1, "weak-4")] {
+        let tag = format!("<path class=\"curve\" data-quantity=\"{k}\" data-kind=\"{kind}\"");
+        assert!(svg.contains(&tag), "missing {k} {kind}");
     }
     assert!(
-        !svg.contains("Gamma(0.3) weak coupling"),
+        !svg.contains("data-quantity=\"0\" data-kind=\"weak"),
         "a curve that cannot exist was drawn"
     );
 }

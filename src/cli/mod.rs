@@ -64,7 +64,7 @@ pub enum Command {
     Scan(values::ScanArgs),
     /// Join the outputs of `scan --shard K/N` into the output of the whole scan.
     Merge(values::MergeArgs),
-    /// Draw finite-coupling curves, weak- and strong-coupling expansions (SVG).
+    /// Draw finite-coupling curves, weak- and strong-coupling expansions (SVG or PDF).
     Plot(values::PlotArgs),
     /// Radius of convergence of the weak-coupling series (ratio and root tests).
     Radius(values::RadiusArgs),

@@ -15,7 +15,7 @@ use loopwise::quantity::finite::{self, parse_couplings, GridPoints};
 use loopwise::quantity::selftest::{self_checks, SelfCheck};
 use loopwise::quantity::shard::{self, ScanId, Shard};
 use loopwise::quantity::Quantity;
-use loopwise::report::svg;
+use loopwise::report::figure::{self, FigureFormat};
 use loopwise::report::values::{
     radius_text, scan_row, scan_rows, scan_text, selftest_text, shard_text, AtReport, AtRow,
 };
@@ -214,9 +214,33 @@ pub struct PlotArgs {
     /// Leave out the strong-coupling expansions of the catalogue.
     #[arg(long)]
     pub no_strong: bool,
-    /// The SVG file to write.
+    /// Draw the strong-coupling expansions from this coupling on (0 < G <= 200) [default: 0.5].
+    #[arg(long, value_name = "G", allow_negative_numbers = true)]
+    pub strong_from: Option<f64>,
+    /// The file to write: SVG, or PDF when it ends in .pdf.
     #[arg(long, short = 'o')]
     pub out: PathBuf,
+    /// The file format [default: pdf for a path ending in .pdf, else svg].
+    #[arg(long, value_enum)]
+    pub format: Option<FigureFormatArg>,
+}
+
+/// The file formats of `plot`.
+#[derive(Clone, Copy, Debug, ValueEnum)]
+pub enum FigureFormatArg {
+    /// Scalable vector graphics, text as text.
+    Svg,
+    /// PDF with the font embedded.
+    Pdf,
+}
+
+impl From<FigureFormatArg> for FigureFormat {
+    fn from(f: FigureFormatArg) -> Self {
+        match f {
+            FigureFormatArg::Svg => FigureFormat::Svg,
+            FigureFormatArg::Pdf => FigureFormat::Pdf,
+        }
+    }
 }
 
 pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
@@ -268,10 +292,18 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
             )));
         }
     }
+    let format = figure_format(args)?;
+    let strong_from = args.strong_from.unwrap_or(curves::STRONG_FROM);
+    if !(strong_from > 0.0 && strong_from <= 200.0) {
+        return Err(Error::range(format!(
+            "--strong-from {strong_from}: the threshold must lie in 0 < G <= 200"
+        )));
+    }
     let companions = Companions {
         loops,
         pade: args.pade,
         strong: !args.no_strong,
+        strong_from,
     };
     let mut progress = Progress::new();
     let figure = curves::figure(&quantities, &couplings, &companions, &mut |w, d, t| {
@@ -282,13 +314,43 @@ pub fn plot(args: &PlotArgs, catalogue: &Catalogue) -> Result<Outcome> {
     for note in &figure.notes {
         eprintln!("loopwise: {note}");
     }
-    svg::write_svg(&args.out, &figure.title, "g", "value", &figure.curves)?;
-    eprintln!(
-        "wrote {} ({} curves)",
-        args.out.display(),
-        figure.curves.len()
-    );
+    let drawing = figure::write(&args.out, format, &figure, &quantities)?;
+    for note in &drawing.notes {
+        eprintln!("loopwise: {note}");
+    }
+    eprintln!("wrote {} ({} curves)", args.out.display(), drawing.drawn);
     Ok(Outcome::Done)
+}
+
+/// The format asked for: `--format`, else the path's ending; a `--format`
+/// that contradicts a `.svg` or `.pdf` ending is refused, not obeyed silently.
+fn figure_format(args: &PlotArgs) -> Result<FigureFormat> {
+    let by_path = figure::format_of(&args.out);
+    let Some(asked) = args.format.map(FigureFormat::from) else {
+        return Ok(by_path);
+    };
+    let ending = args
+        .out
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(str::to_ascii_lowercase);
+    let named = match ending.as_deref() {
+        Some("pdf") => Some(FigureFormat::Pdf),
+        Some("svg") => Some(FigureFormat::Svg),
+        _ => None,
+    };
+    match named {
+        Some(n) if n != asked => Err(Error::input(format!(
+            "{}: --format {} contradicts the file's ending",
+            args.out.display(),
+            if asked == FigureFormat::Pdf {
+                "pdf"
+            } else {
+                "svg"
+            }
+        ))),
+        _ => Ok(asked),
+    }
 }
 
 #[derive(ClapArgs, Debug)]

@@ -1,8 +1,9 @@
 //! The curves of a figure: each quantity at finite coupling, and beside it
 //! its truncated weak-coupling sums, a diagonal Padé approximant in g^2 and
-//! its strong-coupling expansion, cut where they leave the window of the
-//! finite-coupling curves. The figure is drawn by the SVG printer of `report`;
-//! f64 is enough here, since a figure is presentation.
+//! its strong-coupling expansion (from a threshold coupling on). Curves are
+//! computed over the whole range and left uncut: the figure printer of
+//! `report` clips them at its frame. f64 is enough here, since a figure is
+//! presentation.
 
 use rug::Float;
 
@@ -11,14 +12,38 @@ use super::Quantity;
 use crate::error::Result;
 use crate::input::catalogue::Status;
 
+/// What a curve shows; the printer names and styles it from this.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum CurveKind {
+    /// The finite-coupling values of the numerical engine.
+    Finite,
+    /// The weak-coupling series summed through this loop order.
+    Weak(u32),
+    /// The [n/n] Padé approximant in g^2 of the weak-coupling series.
+    Pade(usize),
+    /// The catalogue's strong-coupling expansion, from `Figure::strong_from` on.
+    Strong { conjecture: bool },
+}
+
 /// One curve of a figure.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Curve {
-    pub name: String,
+    /// Index of the quantity (in the order given) the curve belongs to.
+    pub quantity: usize,
+    pub kind: CurveKind,
     pub points: Vec<(f64, f64)>,
-    /// Expansions and approximants are dashed; finite-coupling values solid.
-    pub dashed: bool,
 }
+
+/// The smallest coupling at which a strong-coupling expansion is drawn,
+/// unless the user says otherwise. The catalogue's expansions are
+/// asymptotic series in 1/g whose leading omitted corrections are
+/// exponentially small only once g is of order one, and some of their terms
+/// (-catalan/(8 pi^2 g) of the cusp, log(8 pi g) of the octagon constant)
+/// diverge as g -> 0. At g = 1/2 the cusp's three terms are within 1.3 % of
+/// its finite-coupling value (0.6458 against 0.6539, `loopwise at cusp`),
+/// at g = 1/4 they are 43 % off (0.1226 against 0.2133): below 1/2 the curve
+/// would only show where the expansion is meaningless.
+pub const STRONG_FROM: f64 = 0.5;
 
 /// What to draw besides the finite-coupling values.
 pub struct Companions {
@@ -28,12 +53,16 @@ pub struct Companions {
     pub pade: Option<usize>,
     /// The catalogue's strong-coupling expansion, where it has one.
     pub strong: bool,
+    /// The strong-coupling expansions start at this coupling
+    /// ([`STRONG_FROM`] unless the user chose another).
+    pub strong_from: f64,
 }
 
 /// The curves, and notes on what was left out and why (for stderr).
 pub struct Figure {
-    pub title: String,
     pub curves: Vec<Curve>,
+    /// Where the strong-coupling curves start.
+    pub strong_from: f64,
     pub notes: Vec<String>,
 }
 
@@ -41,6 +70,7 @@ pub struct Figure {
 /// pixel resolves.
 const FIGURE_DIGITS: u32 = 10;
 
+/// Computes every curve of the figure of `quantities` over `couplings`.
 pub fn figure(
     quantities: &[Quantity],
     couplings: &[Float],
@@ -51,63 +81,35 @@ pub fn figure(
     let xs: Vec<f64> = couplings.iter().map(Float::to_f64).collect();
     let mut curves = Vec::new();
     let mut notes = Vec::new();
-    let mut window = (f64::INFINITY, f64::NEG_INFINITY);
-    for q in quantities {
+    for (k, q) in quantities.iter().enumerate() {
         let values = finite::values(q, couplings, FIGURE_DIGITS, &mut |d, t| {
             progress(&q.label, d, t)
         })?;
-        let points: Vec<(f64, f64)> = xs
+        let points = xs
             .iter()
             .zip(&values)
             .map(|(x, e)| (*x, e.value.to_f64()))
             .collect();
-        for p in &points {
-            window = (window.0.min(p.1), window.1.max(p.1));
-        }
         curves.push(Curve {
-            name: format!("{} (finite coupling)", q.label),
+            quantity: k,
+            kind: CurveKind::Finite,
             points,
-            dashed: false,
         });
     }
-    let mut extra = Vec::new();
-    for q in quantities {
-        extra.extend(expansions(q, couplings, companions, prec, &mut notes)?);
+    for (k, q) in quantities.iter().enumerate() {
+        curves.extend(expansions(k, q, couplings, companions, prec, &mut notes)?);
     }
-    // Truncated series leave the picture quickly; cut each extra curve where
-    // it leaves the window of the finite-coupling curves (plus a quarter of
-    // its height) so that the figure stays readable.
-    let margin = 0.25 * (window.1 - window.0).max(1e-12);
-    let inside = |y: f64| y >= window.0 - margin && y <= window.1 + margin;
-    for mut c in extra {
-        let keep: Vec<(f64, f64)> = c
-            .points
-            .iter()
-            .copied()
-            .skip_while(|p| !inside(p.1))
-            .take_while(|p| inside(p.1))
-            .collect();
-        if keep.len() >= 2 {
-            c.points = keep;
-            curves.push(c);
-        } else {
-            notes.push(format!(
-                "{}: left out, fewer than two of its points lie near the finite-coupling curves",
-                c.name
-            ));
-        }
-    }
-    let names: Vec<&str> = quantities.iter().map(|q| q.label.as_str()).collect();
     Ok(Figure {
-        title: format!("{} vs g, with g^2 = lambda/(16 pi^2)", names.join(", ")),
         curves,
+        strong_from: companions.strong_from,
         notes,
     })
 }
 
 /// The weak-coupling sums, the Padé approximant and the strong-coupling
-/// expansion of one quantity, uncut.
+/// expansion of the `k`-th quantity, uncut.
 fn expansions(
+    k: usize,
     q: &Quantity,
     couplings: &[Float],
     companions: &Companions,
@@ -147,9 +149,9 @@ fn expansions(
                 .map(|(x, g)| (*x, finite::weak_sum(coeffs, l as usize, g).to_f64()))
                 .collect();
             out.push(Curve {
-                name: format!("{} weak coupling, {l} loops", q.label),
+                quantity: k,
+                kind: CurveKind::Weak(l),
                 points,
-                dashed: true,
             });
         }
         if let Some(n) = companions.pade {
@@ -165,9 +167,9 @@ fn expansions(
                 })
                 .collect();
             out.push(Curve {
-                name: format!("{} Padé [{n}/{n}] in g^2", q.label),
+                quantity: k,
+                kind: CurveKind::Pade(n),
                 points,
-                dashed: true,
             });
         }
     }
@@ -175,22 +177,26 @@ fn expansions(
         if let Some(sc) = q.entry.as_ref().and_then(|e| e.strong_coupling.as_ref()) {
             let mut points = Vec::new();
             for (x, g) in xs.iter().zip(couplings) {
-                if *x > 0.0 {
+                if *x >= companions.strong_from && *x > 0.0 {
                     if let Some(v) = finite::strong_coupling(q, g, prec)? {
                         points.push((*x, v.to_f64()));
                     }
                 }
             }
-            let tag = if sc.status == Status::Conjecture {
-                " (conjecture)"
+            if points.len() >= 2 {
+                out.push(Curve {
+                    quantity: k,
+                    kind: CurveKind::Strong {
+                        conjecture: sc.status == Status::Conjecture,
+                    },
+                    points,
+                });
             } else {
-                ""
-            };
-            out.push(Curve {
-                name: format!("{} strong coupling{tag}", q.label),
-                points,
-                dashed: true,
-            });
+                notes.push(format!(
+                    "{}: strong-coupling curve left out: it is drawn from g = {} on, and the range has fewer than two couplings there",
+                    q.label, companions.strong_from
+                ));
+            }
         }
     }
     Ok(out)

@@ -5,12 +5,12 @@
 pub mod check;
 pub mod decimal;
 pub mod expansion;
+pub mod figure;
 pub mod fit;
 pub mod identify;
 pub mod latex;
 pub mod origin;
 pub mod strong;
-pub mod svg;
 pub mod template;
 pub mod values;
 
