@@ -283,6 +283,9 @@ fn term(m: &Monomial, abs: &Rational, even_zeta: Option<u32>, cas: Cas) -> Resul
 #[derive(Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
 enum Binding {
     Sum,
+    /// A negation: as a product's left factor it needs no brackets, since
+    /// -(a*b) and (-a)*b are one value in both systems.
+    Negated,
     Product,
     Power,
     Atom,
@@ -320,7 +323,7 @@ fn written(e: &Expr, cas: Cas) -> Result<Option<(String, Binding)>> {
             cas.name()
         ))),
         Node::Neg(inner) => {
-            Ok(at_least(inner, Binding::Product)?.map(|s| (format!("-{s}"), Binding::Sum)))
+            Ok(at_least(inner, Binding::Product)?.map(|s| (format!("-{s}"), Binding::Negated)))
         }
         Node::Add(a, b) => binary(a, " + ", b, Binding::Sum, Binding::Product, Binding::Sum),
         Node::Sub(a, b) => binary(a, " - ", b, Binding::Sum, Binding::Product, Binding::Sum),
@@ -328,7 +331,7 @@ fn written(e: &Expr, cas: Cas) -> Result<Option<(String, Binding)>> {
             a,
             "*",
             b,
-            Binding::Product,
+            Binding::Negated,
             Binding::Power,
             Binding::Product,
         ),
@@ -336,7 +339,7 @@ fn written(e: &Expr, cas: Cas) -> Result<Option<(String, Binding)>> {
             a,
             "/",
             b,
-            Binding::Product,
+            Binding::Negated,
             Binding::Power,
             Binding::Product,
         ),
@@ -467,7 +470,11 @@ pub fn check(c: &Comparison, cas: Cas) -> Result<String> {
         cas.gap_words(&[
             (Gap::NotExact, "where the file gives a number with decimals"),
             (Gap::NotSupplied, "where it gives nothing"),
-            (Gap::NotPredicted, "beyond the engine's reach"),
+            (
+                Gap::NotPredicted,
+                "where the check has no prediction (beyond the engine's reach, or above \
+                 the highest order it compares)",
+            ),
         ]),
         c.summary(),
         tilt_words(c.orders.iter().filter_map(|o| o.predicted.as_ref())),
@@ -551,4 +558,84 @@ pub fn origin(c: &OriginCheck, even: EvenStyle, cas: Cas) -> Result<String> {
         c.summary(),
     );
     Ok(cas.document(&comment, &cas.long_list(&items)))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn zeta(n: u32) -> Exact {
+        Exact::zeta(n).unwrap()
+    }
+
+    /// One element of every kind the ring holds: a rational, a negative
+    /// power of pi, an even zeta value, odd zeta powers and a symbol;
+    /// 90 zeta(4) = pi^4 (Abramowitz & Stegun 23.2.16) is how the two even styles meet.
+    fn sample() -> Exact {
+        let half = Exact::from(Rational::from((1, 2)));
+        let inverse_pi2 = Exact::pi().pow(2).inverse().unwrap();
+        &(&(&half - &inverse_pi2) + &zeta(4).scale(&Rational::from(90)))
+            + &(&Exact::symbol("c2") * &zeta(3).pow(2) * zeta(5)).scale(&Rational::from(-3))
+    }
+
+    #[test]
+    fn every_kind_of_ring_element_in_both_systems() {
+        assert_eq!(
+            exact(&sample(), EvenStyle::Pi, Cas::Mathematica).unwrap(),
+            "-3*c2*Zeta[3]^2*Zeta[5] + Pi^4 + 1/2 - Pi^(-2)"
+        );
+        assert_eq!(
+            exact(&sample(), EvenStyle::Zeta, Cas::Maple).unwrap(),
+            "-3*c2*Zeta(3)^2*Zeta(5) + 90*Zeta(4) + 1/2 - Pi^(-2)"
+        );
+        assert_eq!(
+            exact(&Exact::zero(), EvenStyle::Pi, Cas::Maple).unwrap(),
+            "0"
+        );
+    }
+
+    #[test]
+    fn symbols_that_would_mean_something_else_are_refused() {
+        for (name, cas) in [
+            ("E", Cas::Mathematica),
+            ("x_1", Cas::Mathematica),
+            ("gamma", Cas::Maple),
+            ("in", Cas::Maple),
+        ] {
+            let x = Exact::symbol(name);
+            let e = exact(&x, EvenStyle::Pi, cas).unwrap_err();
+            assert!(e.to_string().contains(name), "{e}");
+        }
+        assert_eq!(
+            exact(&Exact::symbol("gamma"), EvenStyle::Pi, Cas::Mathematica).unwrap(),
+            "gamma"
+        );
+    }
+
+    fn written_as(text: &str, cas: Cas) -> Option<String> {
+        expression(&expr::parse(text, "<test>", None).unwrap(), cas).unwrap()
+    }
+
+    #[test]
+    fn expressions_keep_their_grouping() {
+        assert_eq!(
+            written_as("-(a+b)*2^-3/(c*d) - (2-3)", Cas::Mathematica).as_deref(),
+            Some("-(a + b)*2^(-3)/(c*d) - (2 - 3)")
+        );
+        assert_eq!(
+            written_as("zeta(5,3) + ln(2)^2 - catalan*zeta(3)", Cas::Maple).as_deref(),
+            Some("MZV(5, 3) + log(2)^2 - Catalan*Zeta(3)")
+        );
+        assert_eq!(
+            written_as("(-2)^2 + a*(-b) - -c", Cas::Maple).as_deref(),
+            Some("(-2)^2 + a*(-b) - (-c)")
+        );
+        assert_eq!(written_as("pi^2 + 1.5", Cas::Maple), None);
+    }
+
+    #[test]
+    fn comments_cannot_be_closed_by_their_text() {
+        assert_eq!(Cas::Mathematica.comment("a *) b\nc"), "(* a * ) b c *)\n");
+        assert_eq!(Cas::Maple.comment("a\nb"), "# a b\n");
+    }
 }
