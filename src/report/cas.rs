@@ -152,12 +152,26 @@ impl Cas {
         }
     }
 
-    /// How `gap` is written, for the comment line.
+    /// How the gaps are written, for the comment line. Mathematica's reasons
+    /// are named without their quotes: a string inside a comment trips
+    /// parsers that split strings out before comments.
     fn gap_words(self, gaps: &[(Gap, &str)]) -> String {
-        gaps.iter()
-            .map(|(g, when)| format!("{} {when}", self.gap(*g)))
+        let each = |g: Gap| match self {
+            Cas::Mathematica => self
+                .gap(g)
+                .replace(['"', '[', ']'], " ")
+                .replace("Missing ", ""),
+            Cas::Maple => self.gap(g),
+        };
+        let listed = gaps
+            .iter()
+            .map(|(g, when)| format!("{} {when}", each(*g).trim()))
             .collect::<Vec<_>>()
-            .join(", ")
+            .join(", ");
+        match self {
+            Cas::Mathematica => format!("Missing[reason] stands for a gap, the reason {listed}"),
+            Cas::Maple => listed,
+        }
     }
 
     fn list(self, items: &[String]) -> String {
