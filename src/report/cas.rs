@@ -34,19 +34,19 @@ pub enum Cas {
 /// Why an entry of a check or origin expression holds no value.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 enum Gap {
-    NotSupplied,
-    NotExact,
-    NotPredicted,
-    NotTestableOnLine,
+    NoEntry,
+    Decimals,
+    NoPrediction,
+    OnTheLine,
 }
 
 impl Gap {
     fn words(self) -> &'static str {
         match self {
-            Gap::NotSupplied => "not supplied",
-            Gap::NotExact => "not exact",
-            Gap::NotPredicted => "not predicted",
-            Gap::NotTestableOnLine => "not testable on line",
+            Gap::NoEntry => "not supplied",
+            Gap::Decimals => "not exact",
+            Gap::NoPrediction => "not predicted",
+            Gap::OnTheLine => "not testable on line",
         }
     }
 }
@@ -254,10 +254,9 @@ pub fn exact(x: &Exact, even: EvenStyle, cas: Cas) -> Result<String> {
     let mut out = String::new();
     for (i, (m, c)) in x.terms().enumerate() {
         let (c, even_zeta) = match m.pi_exponent() {
-            e if even == EvenStyle::Zeta && e > 0 && e % 2 == 0 => (
-                Rational::from(c / even_zeta_over_pi_power(e as u32 / 2)),
-                Some(e as u32),
-            ),
+            e if even == EvenStyle::Zeta && e > 0 && e % 2 == 0 => {
+                (c / even_zeta_over_pi_power(e as u32 / 2), Some(e as u32))
+            }
             _ => (c.clone(), None),
         };
         out.push_str(match (i, c < 0) {
@@ -435,17 +434,17 @@ pub fn expansion(report: &Expansion, cas: Cas) -> Result<String> {
 /// A user's entry as the system reads it, or why it cannot be.
 fn supplied(s: Option<&Supplied>, origin: &str, cas: Cas) -> Result<String> {
     match s {
-        None => Ok(cas.gap(Gap::NotSupplied)),
+        None => Ok(cas.gap(Gap::NoEntry)),
         Some(Supplied::Exact(x)) => exact(x, EvenStyle::Pi, cas),
         Some(Supplied::Number { text, .. }) => {
             let parsed = expr::parse(text, origin, None)?;
-            Ok(expression(&parsed, cas)?.unwrap_or_else(|| cas.gap(Gap::NotExact)))
+            Ok(expression(&parsed, cas)?.unwrap_or_else(|| cas.gap(Gap::Decimals)))
         }
     }
 }
 
 fn predicted(p: Option<&Exact>, even: EvenStyle, cas: Cas) -> Result<String> {
-    p.map_or(Ok(cas.gap(Gap::NotPredicted)), |p| exact(p, even, cas))
+    p.map_or(Ok(cas.gap(Gap::NoPrediction)), |p| exact(p, even, cas))
 }
 
 fn no_exact_part(file: &str, command: &str, why: &str, cas: Cas) -> Error {
@@ -462,8 +461,8 @@ pub fn check(c: &Comparison, cas: Cas) -> Result<String> {
     for o in &c.orders {
         let p = predicted(o.predicted.as_ref(), EvenStyle::Pi, cas)?;
         let s = supplied(o.supplied.as_ref(), &c.file, cas)?;
-        any_exact |= o.predicted.is_some()
-            || (s != cas.gap(Gap::NotExact) && s != cas.gap(Gap::NotSupplied));
+        any_exact |=
+            o.predicted.is_some() || (s != cas.gap(Gap::Decimals) && s != cas.gap(Gap::NoEntry));
         items.push(cas.list(&[o.loop_order.to_string(), p, s]));
     }
     if !any_exact {
@@ -482,10 +481,10 @@ pub fn check(c: &Comparison, cas: Cas) -> Result<String> {
         status_words(c.entry.as_ref()),
         coefficient_words(c.coupling),
         cas.gap_words(&[
-            (Gap::NotExact, "where the file gives a number with decimals"),
-            (Gap::NotSupplied, "where it gives nothing"),
+            (Gap::Decimals, "where the file gives a number with decimals"),
+            (Gap::NoEntry, "where it gives nothing"),
             (
-                Gap::NotPredicted,
+                Gap::NoPrediction,
                 "where the check has no prediction (beyond the engine's reach, or above \
                  the highest order it compares)",
             ),
@@ -500,7 +499,7 @@ pub fn check(c: &Comparison, cas: Cas) -> Result<String> {
 fn pair(j: &Judged, even: EvenStyle, cas: Cas) -> Result<String> {
     let s = match &j.supplied {
         Reading::Exact(x) => exact(x, even, cas)?,
-        Reading::Number(_) => cas.gap(Gap::NotExact),
+        Reading::Number(_) => cas.gap(Gap::Decimals),
     };
     Ok(cas.list(&[predicted(j.predicted.as_ref(), even, cas)?, s]))
 }
@@ -522,7 +521,7 @@ pub fn origin(c: &OriginCheck, even: EvenStyle, cas: Cas) -> Result<String> {
         let mut row = vec![r.loop_order.to_string(), pair(&r.octagon, even, cas)?];
         row.push(match &r.hexagon {
             HexagonCell::Judged(j) => pair(j, even, cas)?,
-            HexagonCell::NotTestableOnLine => cas.gap(Gap::NotTestableOnLine),
+            HexagonCell::NotTestableOnLine => cas.gap(Gap::OnTheLine),
         });
         row.push(pair(&r.linear, even, cas)?);
         row.push(pair(&r.constant, even, cas)?);
@@ -562,12 +561,9 @@ pub fn origin(c: &OriginCheck, even: EvenStyle, cas: Cas) -> Result<String> {
         },
         coefficient_words(c.coupling),
         cas.gap_words(&[
-            (Gap::NotExact, "where the file was read numerically"),
-            (Gap::NotPredicted, "where loopwise predicts nothing"),
-            (
-                Gap::NotTestableOnLine,
-                "for the hexagon on the line u1 = u2 = u3"
-            ),
+            (Gap::Decimals, "where the file was read numerically"),
+            (Gap::NoPrediction, "where loopwise predicts nothing"),
+            (Gap::OnTheLine, "for the hexagon on the line u1 = u2 = u3"),
         ]),
         c.summary(),
     );
