@@ -9,12 +9,12 @@ use loopwise::check;
 use loopwise::check::propose::propose;
 use loopwise::input::catalogue::Catalogue;
 use loopwise::input::seriesfile::{parse_series_text, read_series_file, SeriesFile, STDIN_NAME};
+use loopwise::report::cas::{self, Cas};
 use loopwise::report::check::{joined, render, render_identified, render_unusable};
-use loopwise::report::DataFormat;
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
-use super::{emit, in_range, DataFormatArg, Outcome};
+use super::{emit, in_range, CheckFormatArg, DataFormatArg, Outcome, Written};
 use loopwise::limits::MAX_CHECK_DIGITS;
 
 /// The demo's series file, shipped in the binary.
@@ -27,9 +27,11 @@ pub struct Args {
     #[arg(required = true)]
     pub files: Vec<PathBuf>,
     /// Output format; JSON gives one object per file, an array for several
-    /// (a file that cannot be used is an object with `error`).
+    /// (a file that cannot be used is an object with `error`); mathematica and
+    /// maple write the exact predicted and supplied coefficients of one file
+    /// as one expression.
     #[arg(long, value_enum, default_value = "text")]
-    pub format: DataFormatArg,
+    pub format: CheckFormatArg,
     /// Working decimal digits of numerical comparisons.
     #[arg(long, default_value_t = 30)]
     pub digits: u32,
@@ -59,7 +61,10 @@ fn display_name(path: &Path) -> String {
 
 pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
     in_range("--digits", args.digits, 6, MAX_CHECK_DIGITS)?;
-    let format: DataFormat = args.format.into();
+    let format = match Written::from(args.format) {
+        Written::Data(format) => format,
+        Written::Cas(system) => return run_cas(args, catalogue, system),
+    };
     if args.files.iter().filter(|p| p.as_os_str() == "-").count() > 1 {
         return Err(Error::input(
             "`-` (standard input) is given more than once; it can be read only once",
@@ -110,6 +115,30 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
         Outcome::Differs
     } else {
         Outcome::Done
+    })
+}
+
+/// The exact parts of one file's check, for a computer-algebra system.
+fn run_cas(args: &Args, catalogue: &Catalogue, system: Cas) -> Result<Outcome> {
+    let [only] = args.files.as_slice() else {
+        return Err(Error::input(format!(
+            "--format {} writes one expression for one file; {} files were given (check them one at a time)",
+            system.name().to_lowercase(),
+            args.files.len()
+        )));
+    };
+    if args.identify {
+        return Err(Error::input(format!(
+            "--identify proposes forms for numbers, which --format {} does not write; use text, json or yaml",
+            system.name().to_lowercase()
+        )));
+    }
+    let c = read_series_file(only).and_then(|f| run_one(&f, catalogue, args.digits))?;
+    emit(&cas::check(&c, system)?)?;
+    Ok(if c.agrees() {
+        Outcome::Done
+    } else {
+        Outcome::Differs
     })
 }
 

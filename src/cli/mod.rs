@@ -25,6 +25,7 @@ use clap::{Parser, Subcommand, ValueEnum};
 use loopwise::exact::coupling::Coupling;
 use loopwise::exact::ring::EvenStyle;
 use loopwise::input::catalogue::Catalogue;
+use loopwise::report::cas::Cas;
 use loopwise::report::{DataFormat, Format};
 use loopwise::{Error, ErrorKind, Result};
 
@@ -89,6 +90,10 @@ pub enum FormatArg {
     Json,
     Yaml,
     Latex,
+    /// One Wolfram Language expression: the list of coefficients.
+    Mathematica,
+    /// One Maple expression: the list of coefficients.
+    Maple,
 }
 
 impl From<FormatArg> for Format {
@@ -98,6 +103,8 @@ impl From<FormatArg> for Format {
             FormatArg::Json => Format::Json,
             FormatArg::Yaml => Format::Yaml,
             FormatArg::Latex => Format::Latex,
+            FormatArg::Mathematica => Format::Mathematica,
+            FormatArg::Maple => Format::Maple,
         }
     }
 }
@@ -116,6 +123,36 @@ impl From<DataFormatArg> for DataFormat {
             DataFormatArg::Text => DataFormat::Text,
             DataFormatArg::Json => DataFormat::Json,
             DataFormatArg::Yaml => DataFormat::Yaml,
+        }
+    }
+}
+
+/// Output formats of reports with exact parts (`check`, `origin`).
+#[derive(Clone, Copy, Debug, ValueEnum)]
+pub enum CheckFormatArg {
+    Text,
+    Json,
+    Yaml,
+    /// The exact parts as one Wolfram Language expression.
+    Mathematica,
+    /// The exact parts as one Maple expression.
+    Maple,
+}
+
+/// Where a report with exact parts goes: a data format, or a computer-algebra system.
+pub enum Written {
+    Data(DataFormat),
+    Cas(Cas),
+}
+
+impl From<CheckFormatArg> for Written {
+    fn from(f: CheckFormatArg) -> Self {
+        match f {
+            CheckFormatArg::Text => Written::Data(DataFormat::Text),
+            CheckFormatArg::Json => Written::Data(DataFormat::Json),
+            CheckFormatArg::Yaml => Written::Data(DataFormat::Yaml),
+            CheckFormatArg::Mathematica => Written::Cas(Cas::Mathematica),
+            CheckFormatArg::Maple => Written::Cas(Cas::Maple),
         }
     }
 }

@@ -11,10 +11,10 @@ use loopwise::input::catalogue::Catalogue;
 use loopwise::input::seriesfile::{parse_series_text, read_input};
 use loopwise::origin::check::check_origin;
 use loopwise::origin::read::{parse_origin_text, read_origin_file, OriginData};
-use loopwise::report::{fit as fit_report, origin as origin_report, DataFormat};
+use loopwise::report::{cas, fit as fit_report, origin as origin_report, DataFormat};
 use loopwise::Result;
 
-use super::{emit, in_range, DataFormatArg, EvenArg, Outcome};
+use super::{emit, in_range, CheckFormatArg, DataFormatArg, EvenArg, Outcome, Written};
 use loopwise::limits::MAX_CHECK_DIGITS;
 
 /// The origin demo's series file, shipped in the binary.
@@ -30,9 +30,10 @@ pub struct OriginArgs {
     /// coefficients exact, or with decimals (then the whole file is read numerically);
     /// `-` reads standard input.
     pub file: PathBuf,
-    /// Output format.
+    /// Output format; mathematica and maple write the readings and predictions
+    /// of the exponentiating orders as one expression.
     #[arg(long, value_enum, default_value = "text")]
-    pub format: DataFormatArg,
+    pub format: CheckFormatArg,
     /// Working decimal digits: of the numerical size of differences, and of the
     /// whole analysis when the file is read numerically.
     #[arg(long, default_value_t = 30)]
@@ -63,12 +64,16 @@ pub struct FitArgs {
 fn report(
     data: &OriginData,
     catalogue: &Catalogue,
-    format: DataFormat,
+    format: Written,
     even: EvenArg,
     digits: u32,
 ) -> Result<(String, bool)> {
     let c = check_origin(data, catalogue, digits)?;
-    Ok((origin_report::render(&c, format, even.into())?, c.agrees()))
+    let text = match format {
+        Written::Data(f) => origin_report::render(&c, f, even.into())?,
+        Written::Cas(cas) => cas::origin(&c, even.into(), cas)?,
+    };
+    Ok((text, c.agrees()))
 }
 
 pub fn origin(args: &OriginArgs, catalogue: &Catalogue) -> Result<Outcome> {
@@ -107,7 +112,8 @@ pub fn demo(format: DataFormatArg, catalogue: &Catalogue) -> Result<Outcome> {
         text.push_str("loopwise demo origin: an invented group's seven-loop six-gluon amplitude at the origin\n");
         text.push_str("(fictional data, shipped in series/examples/demo-origin.yaml), read order by order.\n\n");
     }
-    text.push_str(&report(&data, catalogue, format.into(), EvenArg::Zeta, 30)?.0);
+    let format = Written::Data(DataFormat::from(format));
+    text.push_str(&report(&data, catalogue, format, EvenArg::Zeta, 30)?.0);
     emit(&text)?;
     Ok(Outcome::Done)
 }

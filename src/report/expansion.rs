@@ -1,11 +1,13 @@
 //! The report of `expand`: a quantity's exact loop coefficients with their
-//! decimal values, as a table, JSON, YAML or a LaTeX table.
+//! decimal values, as a table, JSON, YAML or a LaTeX table (the Mathematica
+//! and Maple forms are written by [`super::cas`]).
 
 use std::sync::atomic::{AtomicUsize, Ordering};
 use std::sync::Mutex;
 
 use serde::Serialize;
 
+use super::cas::Cas;
 use super::latex::{escape, math_cell};
 use super::{decimal, Format};
 use crate::error::Result;
@@ -142,20 +144,13 @@ impl Expansion {
         done.into_iter().map(|(_, row)| row).collect()
     }
 
-    /// The coefficient's meaning in words: "g^(2L), g^2 = lambda/(16 pi^2)".
-    fn variable_text(&self) -> &'static str {
-        match self.coupling {
-            Coupling::G2 => "coefficient of g^(2L), with g^2 = lambda/(16 pi^2)",
-            Coupling::A => "coefficient of a^L, with a = lambda/(8 pi^2) = 2 g^2",
-            Coupling::Lambda => "coefficient of lambda^L, lambda = g_YM^2 N_c",
-        }
-    }
-
     pub fn render(&self, format: Format) -> Result<String> {
         match format {
             Format::Text => self.text(),
             Format::Json | Format::Yaml => super::serialized(&self.json()?, format),
             Format::Latex => self.latex(),
+            Format::Mathematica => super::cas::expansion(self, Cas::Mathematica),
+            Format::Maple => super::cas::expansion(self, Cas::Maple),
         }
     }
 
@@ -190,7 +185,7 @@ impl Expansion {
         }
         out.push_str(&format!(
             "{}; values to {} significant digits\n\n",
-            self.variable_text(),
+            coefficient_words(self.coupling),
             self.digits
         ));
         let rows = self.rows()?;
@@ -224,7 +219,7 @@ impl Expansion {
             "% loopwise: {} = {}; {}\n",
             self.quantity,
             self.definition,
-            self.variable_text()
+            coefficient_words(self.coupling)
         ));
         out.push_str("\\begin{table}[ht]\n\\centering\n\\begin{tabular}{rlr}\n\\hline\n");
         out.push_str(&format!(
@@ -261,6 +256,15 @@ impl Expansion {
             label_slug(&self.quantity)
         ));
         Ok(out)
+    }
+}
+
+/// A coefficient's meaning in words: "coefficient of g^(2L), with g^2 = lambda/(16 pi^2)".
+pub fn coefficient_words(coupling: Coupling) -> &'static str {
+    match coupling {
+        Coupling::G2 => "coefficient of g^(2L), with g^2 = lambda/(16 pi^2)",
+        Coupling::A => "coefficient of a^L, with a = lambda/(8 pi^2) = 2 g^2",
+        Coupling::Lambda => "coefficient of lambda^L, lambda = g_YM^2 N_c",
     }
 }
 

@@ -2,6 +2,7 @@
 //! printers turn into a readable table (default), JSON or YAML for pipelines,
 //! or LaTeX for papers; nothing here computes physics.
 
+pub mod cas;
 pub mod check;
 pub mod decimal;
 pub mod expansion;
@@ -30,8 +31,9 @@ pub enum DataFormat {
     Yaml,
 }
 
-/// The formats of `expand`, whose exact coefficients also go into papers:
-/// the data formats and a LaTeX table. Only renderers that can write every
+/// The formats of `expand`, whose exact coefficients also go into papers
+/// and computer-algebra sessions: the data formats, a LaTeX table, and one
+/// Mathematica or Maple expression ([`cas`]). Only renderers that can write every
 /// variant take this type, so no format is refused at run time.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
 pub enum Format {
@@ -40,6 +42,8 @@ pub enum Format {
     Json,
     Yaml,
     Latex,
+    Mathematica,
+    Maple,
 }
 
 impl From<DataFormat> for Format {
@@ -59,6 +63,8 @@ impl fmt::Display for Format {
             Format::Json => "json",
             Format::Yaml => "yaml",
             Format::Latex => "latex",
+            Format::Mathematica => "mathematica",
+            Format::Maple => "maple",
         })
     }
 }
