@@ -107,9 +107,12 @@ impl Expansion {
             loop {
                 let next = queue.lock().unwrap_or_else(|e| e.into_inner()).pop();
                 let Some((l, c)) = next else { break };
+                // The text grew by doubling; the rows live until printed.
+                let mut text = exact(&c);
+                text.shrink_to_fit();
                 let row = this.value(&c, &mut constants).map(|value| JsonOrder {
                     loop_order: l as u32,
-                    exact: exact(&c),
+                    exact: text,
                     value,
                 });
                 drop(c);
