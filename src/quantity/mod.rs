@@ -596,6 +596,49 @@ mod tests {
         assert_eq!(expand("(1 + g^2)^2", 3).unwrap().coeff(1), &Exact::from(2));
     }
 
+    /// A walk counted once keeps an expansion only while a later use remains:
+    /// Gamma(pi/4) and Gamma(c2=1/2) are one tilt (cos^2(pi/4) = 1/2), so
+    /// their difference vanishes, the second use is served from the cache,
+    /// and nothing is left in it at the end; uncounted walks keep everything.
+    #[test]
+    fn counted_walks_leave_no_copies() {
+        let c = Catalogue::builtin().unwrap();
+        let q = Quantity::resolve("Gamma(pi/4) - Gamma(c2=1/2) + Delta(0)", &c).unwrap();
+        let mut expanded = 0;
+        let mut progress = |what: &str, done: usize, total: usize| {
+            if done == total && what.starts_with("Gamma") {
+                expanded += 1;
+            }
+        };
+        let mut ev = Expander {
+            source: &q.definition,
+            origin: &q.origin,
+            site: None,
+            loops: 4,
+            cache: HashMap::new(),
+            uses_left: None,
+            progress: &mut progress,
+        };
+        ev.count_uses(&q.expr);
+        let s = ev.series(&q.expr).unwrap();
+        assert!(ev.cache.is_empty());
+        drop(ev);
+        assert_eq!(expanded, 1);
+        assert_eq!(s, expand("Delta(0)", 4).unwrap());
+
+        let mut ev = Expander {
+            source: &q.definition,
+            origin: &q.origin,
+            site: None,
+            loops: 4,
+            cache: HashMap::new(),
+            uses_left: None,
+            progress: &mut |_, _, _| {},
+        };
+        ev.series(&q.expr).unwrap();
+        assert_eq!(ev.cache.len(), 2);
+    }
+
     #[test]
     fn errors_point_at_the_culprit() {
         let e = expand("Gamma(pi/5)", 3).unwrap_err();
