@@ -167,7 +167,7 @@ impl ProductIndex {
         let keys: Vec<Vec<u128>> = bases
             .parts
             .iter()
-            .map(|w| w.iter().map(|p| key(p)).collect())
+            .map(|w| w.iter().map(&key).collect())
             .collect();
         let index = keys
             .iter()
