@@ -36,6 +36,7 @@ pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
             site: Some(&located.site),
             loops: 0,
             cache: HashMap::new(),
+            uses_left: None,
             progress: &mut |_, _, _| {},
         };
         return Ok(Supplied::Exact(

@@ -1,5 +1,7 @@
 //! `loopwise expand`: validate the arguments, expand, print.
 
+use std::io::Write;
+
 use clap::Args as ClapArgs;
 
 use loopwise::exact::coupling::Coupling;
@@ -7,10 +9,11 @@ use loopwise::input::catalogue::Catalogue;
 
 use loopwise::quantity::Quantity;
 use loopwise::report::expansion::Expansion;
+use loopwise::report::output_error;
 use loopwise::{Error, Result};
 
 use super::progress::Progress;
-use super::{emit, in_range, CouplingArg, EvenArg, FormatArg, Outcome};
+use super::{in_range, CouplingArg, EvenArg, FormatArg, Outcome};
 use loopwise::limits::MAX_LOOPS;
 use loopwise::limits::MAX_PRINTED_DIGITS;
 
@@ -64,6 +67,8 @@ pub fn run(args: &Args, catalogue: &Catalogue) -> Result<Outcome> {
         args.even.into(),
         args.digits,
     );
-    emit(&report.render(args.format.into())?)?;
+    let mut out = std::io::BufWriter::new(std::io::stdout().lock());
+    report.write(args.format.into(), &mut out)?;
+    out.flush().map_err(output_error)?;
     Ok(Outcome::Done)
 }

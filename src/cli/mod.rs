@@ -26,7 +26,7 @@ use loopwise::exact::coupling::Coupling;
 use loopwise::exact::ring::EvenStyle;
 use loopwise::input::catalogue::Catalogue;
 use loopwise::report::cas::Cas;
-use loopwise::report::{DataFormat, Format};
+use loopwise::report::{output_error, DataFormat, Format};
 use loopwise::{Error, ErrorKind, Result};
 
 /// Exact and finite-coupling predictions for planar N=4 super-Yang-Mills loop
@@ -290,13 +290,7 @@ pub fn emit(text: &str) -> Result<()> {
     let mut out = std::io::stdout().lock();
     out.write_all(text.as_bytes())
         .and_then(|_| out.flush())
-        .map_err(|e| {
-            if e.kind() == std::io::ErrorKind::BrokenPipe {
-                Error::closed("standard output was closed")
-            } else {
-                Error::io(format!("cannot write to standard output: {e}"))
-            }
-        })
+        .map_err(output_error)
 }
 
 /// Writes `text` to a new file at `path`; an existing file is replaced only

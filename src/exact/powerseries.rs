@@ -63,6 +63,11 @@ impl Series {
         &self.coeffs
     }
 
+    /// The coefficients of x^0, x^1, ..., taken out of the series.
+    pub fn into_coeffs(self) -> Vec<Exact> {
+        self.coeffs
+    }
+
     pub fn truncate(&self, order: usize) -> Series {
         Series {
             coeffs: self.coeffs[..=order.min(self.order())].to_vec(),

@@ -117,6 +117,7 @@ pub fn expand_basis(
             site: q.site.as_ref(),
             loops,
             cache: std::mem::take(&mut cache),
+            uses_left: None,
             progress: &mut progress,
         };
         let s = ex.series(&q.expr);

@@ -5,17 +5,42 @@
 //! carry the single factor pi^p or zeta(p)).
 //!
 //! A basis element is kept as its partition of w into parts 2 (one pi^2) and
-//! odd n (one zeta(n)): at 40 loops there are 356,209 of them, so the compact
-//! form matters; full monomials are built only for output.
+//! odd n (one zeta(n)): at 40 loops there are 356,209 of them and at 50
+//! loops 2.3 million, so the compact form matters: the parts of one weight
+//! are laid end to end in one byte vector (one small allocation per element
+//! took 48 bytes, over 100 MB at 50 loops); full monomials are built only
+//! for output.
 
 use std::collections::HashMap;
 use std::hash::{BuildHasherDefault, Hasher};
 
 use crate::exact::ring::Monomial;
 
+/// The partitions of one weight, end to end: element k is
+/// `parts[starts[k]..starts[k + 1]]`.
+#[derive(Default)]
+struct Partitions {
+    parts: Vec<u8>,
+    starts: Vec<u32>,
+}
+
+impl Partitions {
+    fn len(&self) -> usize {
+        self.starts.len() - 1
+    }
+
+    fn get(&self, k: usize) -> &[u8] {
+        &self.parts[self.starts[k] as usize..self.starts[k + 1] as usize]
+    }
+
+    fn iter(&self) -> impl Iterator<Item = &[u8]> {
+        (0..self.len()).map(|k| self.get(k))
+    }
+}
+
 /// The monomials of each weight 0..=highest as partitions (parts descending).
 pub struct WeightBases {
-    parts: Vec<Vec<Box<[u8]>>>,
+    parts: Vec<Partitions>,
     /// pi_halves[w][k]: the number of parts 2 (factors pi^2) of element k.
     pi_halves: Vec<Vec<u8>>,
 }
@@ -24,11 +49,16 @@ impl WeightBases {
     pub fn new(highest: usize) -> Self {
         let parts = (0..=highest)
             .map(|w| {
-                let mut list = Vec::new();
+                let mut list = Partitions {
+                    parts: Vec::new(),
+                    starts: vec![0],
+                };
                 partitions(w as u8, w as u8, &mut Vec::new(), &mut list);
+                list.parts.shrink_to_fit();
+                list.starts.shrink_to_fit();
                 list
             })
-            .collect::<Vec<Vec<Box<[u8]>>>>();
+            .collect::<Vec<Partitions>>();
         let pi_halves = parts
             .iter()
             .map(|w| {
@@ -50,7 +80,7 @@ impl WeightBases {
     }
 
     pub fn monomial(&self, w: usize, k: usize) -> Monomial {
-        let parts = &self.parts[w][k];
+        let parts = self.parts[w].get(k);
         let pi = parts.iter().filter(|&&p| p == 2).count() as i32 * 2;
         let zetas = parts
             .iter()
@@ -98,12 +128,18 @@ pub struct ProductIndex {
 /// arithmetic. The odd constant is 2^64 divided by the golden ratio, the
 /// usual multiplier of multiplicative hashing: it spreads keys that differ
 /// in few bits over the whole word.
+///
+/// Only the high bits of a product depend on all bits of the key, and the
+/// table picks its bucket from the low bits, so `finish` folds the high half
+/// down: with the bare product, keys differing only in the exponents of
+/// long zetas (the high fields) shared buckets, and building the shift maps
+/// took a fifth of the 44-loop run.
 #[derive(Default)]
 struct KeyHasher(u64);
 
 impl Hasher for KeyHasher {
     fn finish(&self) -> u64 {
-        self.0
+        self.0 ^ (self.0 >> 32)
     }
 
     fn write(&mut self, bytes: &[u8]) {
@@ -131,7 +167,7 @@ impl ProductIndex {
         let keys: Vec<Vec<u128>> = bases
             .parts
             .iter()
-            .map(|w| w.iter().map(|p| key(p)).collect())
+            .map(|w| w.iter().map(&key).collect())
             .collect();
         let index = keys
             .iter()
@@ -176,9 +212,10 @@ fn field_offsets(highest: usize) -> Option<Vec<u32>> {
 }
 
 /// All multisets of parts from {2} and odd n >= 3, parts <= max, summing to w.
-fn partitions(w: u8, max: u8, current: &mut Vec<u8>, out: &mut Vec<Box<[u8]>>) {
+fn partitions(w: u8, max: u8, current: &mut Vec<u8>, out: &mut Partitions) {
     if w == 0 {
-        out.push(current.clone().into_boxed_slice());
+        out.parts.extend_from_slice(current);
+        out.starts.push(out.parts.len() as u32);
         return;
     }
     for part in (2..=max.min(w)).rev() {

@@ -68,18 +68,14 @@ pub fn expand(
 pub fn gamma(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Series> {
     check_loops(loops)?;
     let highest = 2 * loops as usize - 2;
-    let tables = tables(highest, loops)?;
+    let mut tables = tables(highest, loops)?;
     let factors = tilt.factors();
     let diag = recursion::diagonal_dense(&tables, &factors, 1, highest, progress);
-    // The coefficient of g^(2L) is 4 times that of g^(2L-2) in the element;
-    // each is converted as it is taken, so one form is alive at a time.
+    tables.drop_shifts();
+    // The coefficient of g^(2L) is 4 times that of g^(2L-2) in the element.
+    let even: Vec<(usize, recursion::Dense)> = diag.into_iter().enumerate().step_by(2).collect();
     let coeffs = std::iter::once(Exact::zero())
-        .chain(
-            diag.into_iter()
-                .enumerate()
-                .step_by(2)
-                .map(|(n, d)| recursion::to_exact(&tables, &factors, n, d, 4)),
-        )
+        .chain(recursion::to_exact_all(&tables, &factors, even, 4))
         .collect();
     Ok(Series::new(coeffs))
 }
@@ -88,7 +84,7 @@ pub fn gamma(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) ->
 pub fn delta(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) -> Result<Series> {
     check_loops(loops)?;
     let highest = 2 * loops as usize;
-    let tables = tables(highest, loops)?;
+    let mut tables = tables(highest, loops)?;
     let factors = tilt.factors();
     let index = basis::ProductIndex::new(&tables.bases).ok_or_else(|| beyond_packed_keys(loops))?;
     let mut total = logdet::zeros(&tables.bases, &factors, loops as usize);
@@ -101,10 +97,14 @@ pub fn delta(tilt: &Tilt, loops: u32, progress: &mut dyn FnMut(usize, usize)) ->
         let in_x: logdet::DenseSeries = diag.into_iter().step_by(2).collect();
         total = logdet::subtract(&total, &logdet::ln(&in_x, &tables.bases, &index, &factors));
     }
-    let coeffs = total
+    drop(index);
+    tables.drop_shifts();
+    let total = total
         .into_iter()
         .enumerate()
-        .map(|(k, d)| recursion::to_exact(&tables, &factors, 2 * k, d, 1))
+        .map(|(k, d)| (2 * k, d))
         .collect();
-    Ok(Series::new(coeffs))
+    Ok(Series::new(recursion::to_exact_all(
+        &tables, &factors, total, 1,
+    )))
 }

@@ -130,6 +130,7 @@ pub(crate) fn exact_coefficient(file: &SeriesFile, entry: &OrderEntry) -> Result
         site: Some(&located.site),
         loops: 0,
         cache: std::collections::HashMap::new(),
+        uses_left: None,
         progress: &mut |_, _, _| {},
     };
     Ok(expander.series(&located.expr)?.coeff(0).clone())

@@ -405,6 +405,7 @@ fn user_element(piece: &str, place: usize, prec: u32) -> Result<Element> {
             site: None,
             loops: 0,
             cache: std::collections::HashMap::new(),
+            uses_left: None,
             progress: &mut |_, _, _| {},
         };
         // Constants outside the exact ring (3^(1/2)) take part by value;

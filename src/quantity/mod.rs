@@ -3,7 +3,9 @@
 //! the coupling g) turned into a truncated series in g^2 over the exact ring.
 //!
 //! Kernel expansions are cached per (functional, tilt), so a formula that
-//! uses Gamma(pi/4) twice expands it once.
+//! uses Gamma(pi/4) twice expands it once; a formula walked once keeps an
+//! expansion only while a later use remains, because at 50 loops a second
+//! copy of the cusp's series takes about 400 MiB.
 
 pub mod curves;
 pub mod finite;
@@ -171,8 +173,10 @@ impl Quantity {
             site: self.site.as_ref(),
             loops,
             cache: HashMap::new(),
+            uses_left: None,
             progress,
         };
+        ev.count_uses(&self.expr);
         ev.series(&self.expr)
     }
 
@@ -353,6 +357,10 @@ pub struct Expander<'a> {
     pub site: Option<&'a Site>,
     pub loops: u32,
     pub cache: HashMap<(Functional, Tilt), Series>,
+    /// The uses of each kernel expansion still ahead, once counted by
+    /// `count_uses`: an expansion stays in `cache` only while one remains.
+    /// None keeps every expansion (a cache shared by several walks).
+    pub uses_left: Option<HashMap<(Functional, Tilt), usize>>,
     pub progress: &'a mut dyn FnMut(&str, usize, usize),
 }
 
@@ -444,16 +452,46 @@ impl Expander<'_> {
         Ok(total)
     }
 
+    /// Counts the functionals of `e` for a single walk of it. A tilt that
+    /// does not resolve is not counted: the walk reports it at its place.
+    pub fn count_uses(&mut self, e: &Expr) {
+        let mut counts = HashMap::new();
+        expr::find(e, &mut |x| {
+            if let Node::Functional { kind, angle } = &x.node {
+                if let Ok(tilt) = self.tilt(angle, x.span) {
+                    *counts.entry((*kind, tilt)).or_insert(0) += 1;
+                }
+            }
+            false
+        });
+        self.uses_left = Some(counts);
+    }
+
     fn functional(&mut self, f: Functional, tilt: Tilt) -> Result<Series> {
-        if let Some(s) = self.cache.get(&(f, tilt.clone())) {
-            return Ok(s.clone());
+        let key = (f, tilt);
+        let used_later = match &mut self.uses_left {
+            None => true,
+            Some(left) => left.get_mut(&key).is_some_and(|n| {
+                *n = n.saturating_sub(1);
+                *n > 0
+            }),
+        };
+        if used_later {
+            if let Some(s) = self.cache.get(&key) {
+                return Ok(s.clone());
+            }
+        } else if let Some(s) = self.cache.remove(&key) {
+            return Ok(s);
         }
+        let (f, tilt) = key;
         let label = format!("{}({})", f.name(), tilt.label());
         let progress = &mut *self.progress;
         let s = kernel::expand(f, &tilt, self.loops, &mut |done, total| {
             progress(&label, done, total)
         })?;
-        self.cache.insert((f, tilt), s.clone());
+        if used_later {
+            self.cache.insert((f, tilt), s.clone());
+        }
         Ok(s)
     }
 
@@ -488,6 +526,7 @@ impl Expander<'_> {
             site: self.site,
             loops: 0,
             cache: HashMap::new(),
+            uses_left: None,
             progress: &mut |_, _, _| {},
         };
         if contains_functional_or_coupling(e) {
@@ -555,6 +594,49 @@ mod tests {
         let b = expand("Gamma(c2=1/2) / 2 + Gamma(pi/4)/2", 4).unwrap();
         assert_eq!(b, expand("cusp", 4).unwrap());
         assert_eq!(expand("(1 + g^2)^2", 3).unwrap().coeff(1), &Exact::from(2));
+    }
+
+    /// A walk counted once keeps an expansion only while a later use remains:
+    /// Gamma(pi/4) and Gamma(c2=1/2) are one tilt (cos^2(pi/4) = 1/2), so
+    /// their difference vanishes, the second use is served from the cache,
+    /// and nothing is left in it at the end; uncounted walks keep everything.
+    #[test]
+    fn counted_walks_leave_no_copies() {
+        let c = Catalogue::builtin().unwrap();
+        let q = Quantity::resolve("Gamma(pi/4) - Gamma(c2=1/2) + Delta(0)", &c).unwrap();
+        let mut expanded = 0;
+        let mut progress = |what: &str, done: usize, total: usize| {
+            if done == total && what.starts_with("Gamma") {
+                expanded += 1;
+            }
+        };
+        let mut ev = Expander {
+            source: &q.definition,
+            origin: &q.origin,
+            site: None,
+            loops: 4,
+            cache: HashMap::new(),
+            uses_left: None,
+            progress: &mut progress,
+        };
+        ev.count_uses(&q.expr);
+        let s = ev.series(&q.expr).unwrap();
+        assert!(ev.cache.is_empty());
+        drop(ev);
+        assert_eq!(expanded, 1);
+        assert_eq!(s, expand("Delta(0)", 4).unwrap());
+
+        let mut ev = Expander {
+            source: &q.definition,
+            origin: &q.origin,
+            site: None,
+            loops: 4,
+            cache: HashMap::new(),
+            uses_left: None,
+            progress: &mut |_, _, _| {},
+        };
+        ev.series(&q.expr).unwrap();
+        assert_eq!(ev.cache.len(), 2);
     }
 
     #[test]

@@ -2,15 +2,15 @@
 //! decimal values, as a table, JSON, YAML or a LaTeX table (the Mathematica
 //! and Maple forms are written by [`super::cas`]).
 
-use std::sync::atomic::{AtomicUsize, Ordering};
+use std::io::Write;
 use std::sync::Mutex;
 
 use serde::Serialize;
 
 use super::cas::Cas;
 use super::latex::{escape, math_cell};
-use super::{decimal, Format};
-use crate::error::Result;
+use super::{decimal, output_error, Format};
+use crate::error::{Error, Result};
 use crate::exact::coupling::Coupling;
 use crate::exact::powerseries::Series;
 use crate::exact::ring::{Constants, EvenStyle, Exact, Notation};
@@ -97,31 +97,37 @@ impl Expansion {
         Ok(Some(decimal(&v, self.digits)))
     }
 
-    fn row(&self, l: u32, c: &Exact, constants: &mut Constants) -> Result<JsonOrder> {
-        Ok(JsonOrder {
-            loop_order: l,
-            exact: c.format(self.even, Notation::Text),
-            value: self.value(c, constants)?,
-        })
-    }
-
-    /// The rows in loop order, written by up to one thread per core, each
-    /// with its own constants; the largest coefficients go first so that no
-    /// thread is left with a big one at the end.
-    fn rows(&self) -> Result<Vec<JsonOrder>> {
-        let coeffs = self.series.coeffs();
-        let mut queue: Vec<usize> = (1..coeffs.len()).collect();
-        queue.sort_by_key(|&l| std::cmp::Reverse(coeffs[l].len()));
+    /// The rows in loop order, `exact` writing each coefficient, by up to one
+    /// thread per core, each with its own constants. The coefficients are
+    /// taken out of the report and each is dropped once written, so that the
+    /// exact series and its text are not both whole in memory; the largest
+    /// go first so that no thread is left with a big one at the end.
+    fn rows(&mut self, exact: &(dyn Fn(&Exact) -> String + Sync)) -> Result<Vec<JsonOrder>> {
+        let coeffs = std::mem::replace(&mut self.series, Series::zero(0)).into_coeffs();
+        let count = coeffs.len().saturating_sub(1);
         let terms: usize = coeffs.iter().map(Exact::len).sum();
+        let mut queue: Vec<(usize, Exact)> = coeffs.into_iter().enumerate().skip(1).collect();
+        queue.sort_by_key(|(_, c)| c.len());
+        let queue = Mutex::new(queue);
         let threads = std::thread::available_parallelism()
             .map_or(1, |n| n.get())
-            .min(queue.len());
-        let next = AtomicUsize::new(0);
-        let done: Mutex<Vec<(usize, Result<JsonOrder>)>> = Mutex::new(Vec::new());
+            .min(count);
+        let done: Mutex<Vec<(usize, Result<JsonOrder>)>> = Mutex::new(Vec::with_capacity(count));
+        let this = &*self;
         let work = || {
             let mut constants = Constants::new();
-            while let Some(&l) = queue.get(next.fetch_add(1, Ordering::Relaxed)) {
-                let row = self.row(l as u32, &coeffs[l], &mut constants);
+            loop {
+                let next = queue.lock().unwrap_or_else(|e| e.into_inner()).pop();
+                let Some((l, c)) = next else { break };
+                // The text grew by doubling; the rows live until printed.
+                let mut text = exact(&c);
+                text.shrink_to_fit();
+                let row = this.value(&c, &mut constants).map(|value| JsonOrder {
+                    loop_order: l as u32,
+                    exact: text,
+                    value,
+                });
+                drop(c);
                 done.lock()
                     .unwrap_or_else(|e| e.into_inner())
                     .push((l, row));
@@ -144,17 +150,52 @@ impl Expansion {
         done.into_iter().map(|(_, row)| row).collect()
     }
 
-    pub fn render(&self, format: Format) -> Result<String> {
+    /// The exact coefficients in the coefficient language.
+    fn text_rows(&mut self) -> Result<Vec<JsonOrder>> {
+        let even = self.even;
+        self.rows(&move |c: &Exact| c.format(even, Notation::Text))
+    }
+
+    /// The report as one text.
+    pub fn render(self, format: Format) -> Result<String> {
+        let mut out = Vec::new();
+        self.write(format, &mut out)?;
+        String::from_utf8(out).map_err(|e| Error::io(format!("the report is not UTF-8: {e}")))
+    }
+
+    /// Writes the report to `out` as it is made: at 50 loops the JSON is
+    /// over 100 MB, which is not built as one string first.
+    pub fn write(mut self, format: Format, out: &mut dyn Write) -> Result<()> {
         match format {
-            Format::Text => self.text(),
-            Format::Json | Format::Yaml => super::serialized(&self.json()?, format),
-            Format::Latex => self.latex(),
-            Format::Mathematica => super::cas::expansion(self, Cas::Mathematica),
-            Format::Maple => super::cas::expansion(self, Cas::Maple),
+            Format::Text => self.text(out),
+            Format::Json => {
+                let report = self.json()?;
+                serde_json::to_writer_pretty(&mut *out, &report)
+                    .map_err(|e| output_error(e.into()))?;
+                out.write_all(b"\n").map_err(output_error)
+            }
+            Format::Yaml => {
+                let text = super::serialized(&self.json()?, format)?;
+                out.write_all(text.as_bytes()).map_err(output_error)
+            }
+            Format::Latex => {
+                let text = self.latex()?;
+                out.write_all(text.as_bytes()).map_err(output_error)
+            }
+            Format::Mathematica | Format::Maple => {
+                let cas = if format == Format::Mathematica {
+                    Cas::Mathematica
+                } else {
+                    Cas::Maple
+                };
+                let text = super::cas::expansion(&self, cas)?;
+                out.write_all(text.as_bytes()).map_err(output_error)
+            }
         }
     }
 
-    fn json(&self) -> Result<JsonReport<'_>> {
+    fn json(&mut self) -> Result<JsonReport<'_>> {
+        let orders = self.text_rows()?;
         Ok(JsonReport {
             quantity: &self.quantity,
             definition: &self.definition,
@@ -165,11 +206,11 @@ impl Expansion {
                 .as_ref()
                 .map(|e| e.references.clone())
                 .unwrap_or_default(),
-            orders: self.rows()?,
+            orders,
         })
     }
 
-    fn text(&self) -> Result<String> {
+    fn text(&mut self, sink: &mut dyn Write) -> Result<()> {
         let mut out = String::new();
         let title = if self.quantity == self.definition {
             self.quantity.clone()
@@ -188,7 +229,7 @@ impl Expansion {
             coefficient_words(self.coupling),
             self.digits
         ));
-        let rows = self.rows()?;
+        let rows = self.text_rows()?;
         let width = rows
             .iter()
             .map(|r| r.value.as_deref().map_or(1, str::len))
@@ -196,19 +237,23 @@ impl Expansion {
             .unwrap_or(5)
             .max(5);
         out.push_str(&format!("{:>4}  {:<width$}  exact\n", "L", "value"));
+        sink.write_all(out.as_bytes()).map_err(output_error)?;
         for r in &rows {
-            out.push_str(&format!(
-                "{:>4}  {:<width$}  {}\n",
+            writeln!(
+                sink,
+                "{:>4}  {:<width$}  {}",
                 r.loop_order,
                 r.value.as_deref().unwrap_or("-"),
                 r.exact
-            ));
+            )
+            .map_err(output_error)?;
         }
-        Ok(out)
+        Ok(())
     }
 
-    fn latex(&self) -> Result<String> {
-        let rows = self.rows()?;
+    fn latex(&mut self) -> Result<String> {
+        let even = self.even;
+        let rows = self.rows(&move |c: &Exact| math_cell(&c.format(even, Notation::Latex), 3))?;
         let variable = match self.coupling {
             Coupling::G2 => "g^{2L}",
             Coupling::A => "a^{L}",
@@ -225,8 +270,8 @@ impl Expansion {
         out.push_str(&format!(
             "$L$ & coefficient of ${variable}$ & value \\\\\n\\hline\n"
         ));
-        for ((l, c), r) in self.orders().zip(&rows) {
-            let cell = math_cell(&c.format(self.even, Notation::Latex), 3);
+        for r in &rows {
+            let (l, cell) = (r.loop_order, &r.exact);
             let value = r
                 .value
                 .as_deref()

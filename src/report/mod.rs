@@ -154,6 +154,16 @@ impl JsonVerdict {
     }
 }
 
+/// A failed write of a report: a reader that closed the pipe (`| head`) has
+/// read all it wanted, which the binary treats as success.
+pub fn output_error(e: std::io::Error) -> Error {
+    if e.kind() == std::io::ErrorKind::BrokenPipe {
+        Error::closed("standard output was closed")
+    } else {
+        Error::io(format!("cannot write to standard output: {e}"))
+    }
+}
+
 /// A report value as JSON (pretty, with a final newline) or YAML.
 pub fn serialized<T: serde::Serialize>(value: &T, format: impl Into<Format>) -> Result<String> {
     match format.into() {
