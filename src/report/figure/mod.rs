@@ -157,6 +157,18 @@ fn coord(v: f64) -> String {
 }
 
 /// `<text>` at (x, y) with the given size, anchor and colour.
+/// A grid line or tick from `a` to `b`.
+fn line(out: &mut String, a: (f64, f64), b: (f64, f64), stroke: &str, width: &str) {
+    let _ = writeln!(
+        out,
+        r#"<line x1="{}" y1="{}" x2="{}" y2="{}" stroke="{stroke}" stroke-width="{width}"/>"#,
+        coord(a.0),
+        coord(a.1),
+        coord(b.0),
+        coord(b.1)
+    );
+}
+
 fn text(out: &mut String, x: f64, y: f64, size: f64, anchor: &str, fill: &str, content: &Rich) {
     let _ = writeln!(
         out,
@@ -286,19 +298,13 @@ pub fn draw(figure: &Figure, quantities: &[Quantity]) -> Drawing {
     // Grid and ticks.
     for (v, l) in &xticks {
         let x = px(*v);
-        let _ = writeln!(
-            out,
-            r#"<line x1="{0}" y1="{1}" x2="{0}" y2="{2}" stroke="{GRID}" stroke-width="1"/>"#,
-            coord(x),
-            coord(frame.top),
-            coord(frame.bottom)
-        );
-        let _ = writeln!(
-            out,
-            r#"<line x1="{0}" y1="{1}" x2="{0}" y2="{2}" stroke="{INK}" stroke-width="1.2"/>"#,
-            coord(x),
-            coord(frame.bottom),
-            coord(frame.bottom + 6.0)
+        line(&mut out, (x, frame.top), (x, frame.bottom), GRID, "1");
+        line(
+            &mut out,
+            (x, frame.bottom),
+            (x, frame.bottom + 6.0),
+            INK,
+            "1.2",
         );
         text(
             &mut out,
@@ -312,20 +318,8 @@ pub fn draw(figure: &Figure, quantities: &[Quantity]) -> Drawing {
     }
     for (v, l) in &yticks {
         let y = py(*v);
-        let _ = writeln!(
-            out,
-            r#"<line x1="{1}" y1="{0}" x2="{2}" y2="{0}" stroke="{GRID}" stroke-width="1"/>"#,
-            coord(y),
-            coord(frame.left),
-            coord(frame.right)
-        );
-        let _ = writeln!(
-            out,
-            r#"<line x1="{1}" y1="{0}" x2="{2}" y2="{0}" stroke="{INK}" stroke-width="1.2"/>"#,
-            coord(y),
-            coord(frame.left - 6.0),
-            coord(frame.left)
-        );
+        line(&mut out, (frame.left, y), (frame.right, y), GRID, "1");
+        line(&mut out, (frame.left - 6.0, y), (frame.left, y), INK, "1.2");
         text(
             &mut out,
             frame.left - 10.0,
