@@ -3,15 +3,13 @@
 //! number with an uncertainty (decimals, logarithms, Catalan's constant,
 //! multiple zeta values), evaluated at the working precision.
 
-use std::collections::HashMap;
-
 use crate::error::{Error, Result};
 use crate::exact::ring::Exact;
 use crate::input::expr::Node;
 use crate::input::seriesfile::Located;
 use crate::numeric::evaluate::{self, needs_numbers, written_digits, Context};
 use crate::numeric::Estimate;
-use crate::quantity::Expander;
+use crate::quantity::exact_constant;
 
 /// One supplied coefficient.
 #[derive(Clone, Debug)]
@@ -30,18 +28,12 @@ pub enum Supplied {
 /// Reads a located coefficient: exact if possible, numerical otherwise.
 pub fn read(located: &Located, origin: &str, prec: u32) -> Result<Supplied> {
     if !needs_numbers(&located.expr) {
-        let mut expander = Expander {
-            source: &located.text,
+        return Ok(Supplied::Exact(exact_constant(
+            &located.text,
             origin,
-            site: Some(&located.site),
-            loops: 0,
-            cache: HashMap::new(),
-            uses_left: None,
-            progress: &mut |_, _, _| {},
-        };
-        return Ok(Supplied::Exact(
-            expander.series(&located.expr)?.coeff(0).clone(),
-        ));
+            Some(&located.site),
+            &located.expr,
+        )?));
     }
     read_number(located, origin, prec)
 }

@@ -9,7 +9,7 @@ use crate::exact::ring::Exact;
 use crate::input::seriesfile::{parse_series_text, Located, Normalisation, OrderEntry, SeriesFile};
 use crate::origin::numeric::needs_numbers;
 use crate::origin::OriginLogs;
-use crate::quantity::Expander;
+use crate::quantity::exact_constant;
 
 /// An origin file, read and checked: the coefficients as one series in g^2.
 #[derive(Clone, Debug)]
@@ -124,16 +124,12 @@ pub(crate) fn exact_coefficient(file: &SeriesFile, entry: &OrderEntry) -> Result
     })?;
     // The exact reader names file, line and column of anything outside the
     // exact ring (decimals, logarithms, Catalan's constant, multiple zeta values).
-    let mut expander = Expander {
-        source: &located.text,
-        origin: &file.origin,
-        site: Some(&located.site),
-        loops: 0,
-        cache: std::collections::HashMap::new(),
-        uses_left: None,
-        progress: &mut |_, _, _| {},
-    };
-    Ok(expander.series(&located.expr)?.coeff(0).clone())
+    exact_constant(
+        &located.text,
+        &file.origin,
+        Some(&located.site),
+        &located.expr,
+    )
 }
 
 #[cfg(test)]

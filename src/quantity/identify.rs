@@ -23,7 +23,7 @@ use crate::numeric::evaluate::{evaluate, located, needs_numbers, number, written
 use crate::numeric::evaluate::{Context, Settled};
 use crate::numeric::pslq::{find_relation, Relation, RelationSearch};
 use crate::numeric::working_bits;
-use crate::quantity::Expander;
+use crate::quantity::exact_constant;
 
 /// The multiple zeta values through weight 11 that the weight bases add to
 /// the products of zeta values, as (weight, arguments); the choice is the
@@ -399,18 +399,9 @@ fn user_element(piece: &str, place: usize, prec: u32) -> Result<Element> {
     let exact = if needs_numbers(&e) {
         None
     } else {
-        let mut expander = Expander {
-            source: piece,
-            origin: &origin,
-            site: None,
-            loops: 0,
-            cache: std::collections::HashMap::new(),
-            uses_left: None,
-            progress: &mut |_, _, _| {},
-        };
         // Constants outside the exact ring (3^(1/2)) take part by value;
         // the relation then prints them as written.
-        expander.series(&e).ok().map(|s| s.coeff(0).clone())
+        exact_constant(piece, &origin, None, &e).ok()
     };
     Ok(Element {
         compound: matches!(e.node, Node::Add(..) | Node::Sub(..) | Node::Neg(_)),

@@ -350,6 +350,21 @@ fn respan(mut e: Expr, span: Span) -> Expr {
     e
 }
 
+/// A constant expression (no coupling, no functionals) as a ring element,
+/// its errors located in `source` (at `site` when it comes from a file).
+pub fn exact_constant(source: &str, origin: &str, site: Option<&Site>, e: &Expr) -> Result<Exact> {
+    let mut ev = Expander {
+        source,
+        origin,
+        site,
+        loops: 0,
+        cache: HashMap::new(),
+        uses_left: None,
+        progress: &mut |_, _, _| {},
+    };
+    Ok(ev.series(e)?.coeff(0).clone())
+}
+
 /// Walks a formula into a series, remembering kernel expansions.
 pub struct Expander<'a> {
     pub source: &'a str,
@@ -520,19 +535,10 @@ impl Expander<'_> {
 
     /// A subexpression without the coupling or functionals, as a ring element.
     fn constant_value(&self, e: &Expr) -> Result<Exact> {
-        let mut inner = Expander {
-            source: self.source,
-            origin: self.origin,
-            site: self.site,
-            loops: 0,
-            cache: HashMap::new(),
-            uses_left: None,
-            progress: &mut |_, _, _| {},
-        };
         if contains_functional_or_coupling(e) {
             return Err(self.fail(e.span, "expected a constant here, without g or functionals"));
         }
-        Ok(inner.series(e)?.coeff(0).clone())
+        exact_constant(self.source, self.origin, self.site, e)
     }
 
     /// The tilt of a functional, exactly: a rational multiple of pi with
