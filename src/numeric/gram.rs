@@ -16,11 +16,13 @@ use crate::error::{Error, Result};
 /// Largest limb count provided (about 1000 bits, above what MAX_DIGITS asks).
 const MAX_LIMBS: usize = 16;
 
-/// The rows of one node: orders 1..=m as fixed-point numbers.
+/// One row: orders 1..=m as fixed-point numbers, and whether its outer
+/// product is subtracted.
 pub(crate) struct FixedRow {
     /// (sign mask, L magnitude limbs) per order, stride L + 1.
     words: Vec<u64>,
     m: usize,
+    negative: bool,
 }
 
 /// The fixed-point format: `limbs` limbs with `frac_bits` fractional bits.
@@ -46,8 +48,9 @@ impl Format {
         })
     }
 
-    /// The row for values A_1..A_m (MPFR), or an error if one does not fit.
-    pub fn row(&self, values: &[Float], scratch: &mut Integer) -> Result<FixedRow> {
+    /// The row for values A_1..A_m (MPFR), or an error if one does not fit;
+    /// a `negative` row's outer product is subtracted from the sum.
+    pub fn row(&self, values: &[Float], negative: bool, scratch: &mut Integer) -> Result<FixedRow> {
         let l = self.limbs;
         let mut words = vec![0u64; values.len() * (l + 1)];
         for (v, w) in values.iter().zip(words.chunks_exact_mut(l + 1)) {
@@ -70,6 +73,7 @@ impl Format {
         Ok(FixedRow {
             words,
             m: values.len(),
+            negative,
         })
     }
 }
@@ -79,9 +83,10 @@ fn packed_index(n: usize, i: usize, j: usize) -> usize {
     i * n - i * (i + 1) / 2 + j
 }
 
-/// sum over rows of the outer products, upper triangle, as exact integers
-/// scaled by 2^(2F); `rows` are produced by `make(k)` for k in 0..count and
-/// spread over `threads` threads by their cost m^2.
+/// sum over rows of the (signed) outer products, upper triangle, as exact
+/// integers scaled by 2^(2F); the rows of node k are produced by `make(k)`
+/// for k in 0..count, and nodes are spread over `threads` threads by their
+/// `cost` (multiply-adds).
 pub(crate) fn gram<M>(
     n: usize,
     format: Format,
@@ -91,16 +96,16 @@ pub(crate) fn gram<M>(
     make: M,
 ) -> Result<Vec<Integer>>
 where
-    M: Fn(usize, &mut Integer) -> Result<Option<FixedRow>> + Sync,
+    M: Fn(usize, &mut Integer) -> Result<Vec<FixedRow>> + Sync,
 {
     let width = 2 * format.limbs + 1;
-    let total: usize = cost.iter().map(|&m| m * m).sum();
+    let total: usize = cost.iter().sum();
     let threads = threads.clamp(1, count.max(1));
     // Contiguous chunks of nodes of about equal work.
     let mut bounds = vec![0usize];
     let mut run = 0usize;
-    for (k, &m) in cost.iter().enumerate() {
-        run += m * m;
+    for (k, &c) in cost.iter().enumerate() {
+        run += c;
         if bounds.len() < threads && run * threads >= total * bounds.len() {
             bounds.push(k + 1);
         }
@@ -119,7 +124,7 @@ where
                     let mut acc = vec![0u64; entries * width];
                     let mut scratch = Integer::new();
                     for k in lo..hi {
-                        if let Some(row) = make(k, &mut scratch)? {
+                        for row in make(k, &mut scratch)? {
                             add_outer(&mut acc, &row, n, format.limbs)?;
                         }
                     }
@@ -197,6 +202,7 @@ fn add_outer_l<const L: usize>(acc: &mut [u64], row: &FixedRow, n: usize) {
     let stride = L + 1;
     let m = row.m.min(n);
     let mut p = [0u64; 2 * MAX_LIMBS];
+    let flip = if row.negative { u64::MAX } else { 0 };
     for i in 0..m {
         let a = &row.words[i * stride..(i + 1) * stride];
         let base = packed_index(n, i, 0);
@@ -213,7 +219,7 @@ fn add_outer_l<const L: usize>(acc: &mut [u64], row: &FixedRow, n: usize) {
                 p[x + L] = carry as u64;
             }
             // Add p or its two's complement negation: (p ^ mask) + (mask & 1).
-            let mask = a[0] ^ b[0];
+            let mask = a[0] ^ b[0] ^ flip;
             let dst = &mut acc[(base + j) * width..(base + j + 1) * width];
             let mut carry = u128::from(mask & 1);
             for (d, &pk) in dst[..2 * L].iter_mut().zip(&p[..2 * L]) {
@@ -247,8 +253,9 @@ mod tests {
             .collect();
         let format = Format::new(70, 150).unwrap();
         let cost = vec![5; vals.len()];
+        // Every third row is subtracted.
         let got = gram(5, format, vals.len(), &cost, 2, |k, s| {
-            format.row(&vals[k], s).map(Some)
+            format.row(&vals[k], k % 3 == 2, s).map(|r| vec![r])
         })
         .unwrap();
         let fixed = |v: &Float| -> Integer {
@@ -259,7 +266,18 @@ mod tests {
         };
         for i in 0..5 {
             for j in i..5 {
-                let want: Integer = vals.iter().map(|r| fixed(&r[i]) * fixed(&r[j])).sum();
+                let want: Integer = vals
+                    .iter()
+                    .enumerate()
+                    .map(|(k, r)| {
+                        let p = fixed(&r[i]) * fixed(&r[j]);
+                        if k % 3 == 2 {
+                            -p
+                        } else {
+                            p
+                        }
+                    })
+                    .sum();
                 assert_eq!(got[packed_index(5, i, j)], want, "entry ({i}, {j})");
             }
         }
@@ -269,6 +287,6 @@ mod tests {
     fn overflow_is_an_error() {
         let format = Format::new(4, 60).unwrap();
         let big = [Float::with_val(64, 100)];
-        assert!(format.row(&big, &mut Integer::new()).is_err());
+        assert!(format.row(&big, false, &mut Integer::new()).is_err());
     }
 }

@@ -4,23 +4,22 @@
 
 use rug::{Assign, Float};
 
-use super::bessel::{bessel_j_upto, ln_magnitude};
+use super::contour::Node;
 use super::gram::{gram, Format};
 use crate::error::{Error, Result};
 
 /// The symmetric matrix S_ij = int_0^inf J_i(2gt) J_j(2gt) dt / (t (e^t - 1)),
 /// 1 <= i, j <= n, row-major (index (i-1) n + (j-1)).
 ///
-/// All entries share the nodes: at each node the orders 0..m are computed
-/// in one recurrence and the node adds a rank-one term, accumulated exactly
-/// in fixed point (gram.rs) on `threads` threads. Orders above m, with m
-/// from the magnitude estimate of J at 2g t_k, would contribute below
-/// exp(ln_drop) and are skipped; the fixed-point rounding is held below the
-/// same level summed over all nodes.
+/// All entries share the nodes (contour.rs): each node adds the outer
+/// products of its rows, accumulated exactly in fixed point (gram.rs) on
+/// `threads` threads. Orders above m, with m from the magnitude estimate
+/// of J at 2g t_k, would contribute below exp(ln_drop) and are skipped; the
+/// fixed-point rounding is held below the same level summed over all nodes.
 pub(crate) fn kernel_integrals(
     g: &Float,
     n: usize,
-    nodes: &[(Float, Float)],
+    nodes: &[Node],
     ln_drop: f64,
     prec: u32,
     threads: usize,
@@ -29,21 +28,11 @@ pub(crate) fn kernel_integrals(
     let gf = g.to_f64();
     let orders: Vec<usize> = nodes
         .iter()
-        .map(|(t, w)| {
-            let xf = 2.0 * gf * t.to_f64();
-            let ln_w = w.to_f64().abs().ln();
-            let mut m = n;
-            while m > 0 && ln_magnitude(m, xf) + ln_w < ln_drop {
-                m -= 1;
-            }
-            m
-        })
+        .map(|node| node.orders(n, gf, ln_drop, false))
         .collect();
-    // |J_i(x)| <= min(1, x/2) for i >= 1 (DLMF 10.14.1, 10.14.4), so
-    // sqrt(W_k) min(1, g t_k) bounds every entry of row k.
     let bounds: Vec<f64> = nodes
         .iter()
-        .map(|(t, w)| w.to_f64().sqrt() * (gf * t.to_f64()).min(1.0))
+        .map(|node| node.bound(gf) * node.width() as f64)
         .collect();
     let largest = bounds.iter().cloned().fold(1.0, f64::max);
     let total: f64 = bounds.iter().sum::<f64>().max(1.0);
@@ -57,19 +46,21 @@ pub(crate) fn kernel_integrals(
         + 4;
     let int_bits = largest.log2().ceil().max(0.0) as u32 + 2;
     let format = Format::new(int_bits, frac_bits)?;
-    let sums = gram(n, format, nodes.len(), &orders, threads, |k, scratch| {
+    let cost: Vec<usize> = nodes
+        .iter()
+        .zip(&orders)
+        .map(|(node, &m)| node.width() * m * m)
+        .collect();
+    let sums = gram(n, format, nodes.len(), &cost, threads, |k, scratch| {
         let m = orders[k];
         if m == 0 {
-            return Ok(None);
+            return Ok(Vec::new());
         }
-        let (t, w) = &nodes[k];
-        let x = Float::with_val(prec, &two_g * t);
-        let root = Float::with_val(prec, w.sqrt_ref());
-        let mut js = bessel_j_upto(m, &x, prec);
-        for j in js.iter_mut().skip(1) {
-            *j *= &root;
-        }
-        format.row(&js[1..], scratch).map(Some)
+        nodes[k]
+            .rows(&two_g, m, prec)?
+            .iter()
+            .map(|row| format.row(&row.values, row.negative, scratch))
+            .collect()
     })?;
     let mut s = vec![Float::new(prec); n * n];
     let mut it = sums.into_iter();
@@ -84,44 +75,43 @@ pub(crate) fn kernel_integrals(
 }
 
 /// The diagonal integrals S_mm for m = from + 1 ..= upto on the same nodes,
-/// for the trace of the kernel's tail (see `attempt` in mod.rs). Each term
-/// W_k J_m^2 is positive, so plain MPFR sums lose nothing to cancellation;
-/// orders whose term would lie below exp(ln_drop) at a node are skipped as
-/// in `kernel_integrals`.
+/// for the trace of the kernel's tail (see `attempt` in mod.rs). On the
+/// real axis each term W_k J_m^2 is positive, so plain MPFR sums lose
+/// nothing to cancellation; past the split the rows' signed squares are of
+/// the size of the result. Orders whose term would lie below exp(ln_drop)
+/// at a node are skipped as in `kernel_integrals`.
 pub(crate) fn diagonal_integrals(
     g: &Float,
     from: usize,
     upto: usize,
-    nodes: &[(Float, Float)],
+    nodes: &[Node],
     ln_drop: f64,
     prec: u32,
-) -> Vec<Float> {
+) -> Result<Vec<Float>> {
     let mut out = vec![Float::new(prec); upto.saturating_sub(from)];
     if out.is_empty() {
-        return out;
+        return Ok(out);
     }
     let two_g = Float::with_val(prec, g * 2u32);
     let gf = g.to_f64();
     let mut term = Float::new(prec);
-    for (t, w) in nodes {
-        let xf = 2.0 * gf * t.to_f64();
-        let ln_w = w.to_f64().abs().ln();
-        let mut m = upto;
-        while m > from && 2.0 * ln_magnitude(m, xf) + ln_w < ln_drop {
-            m -= 1;
-        }
-        if m == from {
+    for node in nodes {
+        let m = node.orders(upto, gf, ln_drop, true);
+        if m <= from {
             continue;
         }
-        let x = Float::with_val(prec, &two_g * t);
-        let js = bessel_j_upto(m, &x, prec);
-        for (sum, j) in out.iter_mut().zip(&js[from + 1..=m]) {
-            term.assign(j.square_ref());
-            term *= w;
-            *sum += &term;
+        for row in node.rows(&two_g, m, prec)? {
+            for (sum, v) in out.iter_mut().zip(&row.values[from..]) {
+                term.assign(v.square_ref());
+                if row.negative {
+                    *sum -= &term;
+                } else {
+                    *sum += &term;
+                }
+            }
         }
     }
-    out
+    Ok(out)
 }
 
 /// 1 + K' for the leading k x k block of S, with

@@ -16,10 +16,12 @@
 //! every value is computed in MPFR.
 
 mod bessel;
+mod contour;
 pub mod convergence;
 pub mod estimate;
 pub mod evaluate;
 mod gram;
+mod hankel;
 pub mod leastsquares;
 mod matrix;
 pub mod mzv;
@@ -37,8 +39,9 @@ use crate::error::{Error, Result};
 use crate::limits::MAX_FINITE_DIGITS;
 use crate::limits::{MAX_COUPLING, MAX_TRUNCATION};
 use bessel::ln_magnitude;
+use contour::layout;
 use matrix::{diagonal_integrals, factor, factor_nested, kernel_integrals, tilted_system};
-use quadrature::{plan, weighted_nodes, RuleCache};
+use quadrature::RuleCache;
 
 pub use bessel::bessel_j_upto;
 pub use estimate::Estimate;
@@ -185,19 +188,6 @@ fn attempt(
     // Entries of K' carry the factor 4j; the functionals move by at most
     // about that much per entry error, hence the extra margin.
     let ln_entry = ln_tol - ((4 * n2) as f64).ln() - 2.0 * LN_10;
-    let coarse_panels = plan(gf, ln_entry)
-        .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
-    // The fine rule is planned four decades better than the coarse one, so
-    // that |F(fine) - F(coarse)| measures the coarse rule's error and
-    // over-estimates the fine one's.
-    let fine_panels = plan(gf, ln_entry - 4.0 * LN_10)
-        .ok_or_else(|| Error::numeric("no quadrature plan reaches the tolerance"))?;
-    let fine_nodes = weighted_nodes(&fine_panels, cache, prec);
-    let coarse_nodes = weighted_nodes(&coarse_panels, cache, prec);
-    let drop_fine = ln_entry - 4.0 * LN_10 - (fine_nodes.len() as f64).ln();
-    let drop_coarse = ln_entry - (coarse_nodes.len() as f64).ln();
-    let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec, threads)?;
-    let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec, threads)?;
     // Delta: ln det(1 + K') = ln det(1 + K'_NN) + tr K'_TT + second order
     // (`ln_truncation`), so each truncation carries the trace of the
     // diagonal it leaves out, K'_mm = 4 m c2 S_mm, up to `end`; beyond it
@@ -209,6 +199,18 @@ fn attempt(
         }
         Functional::Gamma => (n, Float::new(prec)),
     };
+    // The fine rule is planned four decades better than the coarse one, so
+    // that |F(fine) - F(coarse)| measures the coarse rule's error and
+    // over-estimates the fine one's. Each rule serves orders up to the
+    // largest its matrix or trace reads.
+    let no_rule = || Error::numeric("no quadrature plan reaches the tolerance");
+    let fine_nodes =
+        layout(gf, ln_entry - 4.0 * LN_10, n2.max(end), cache, prec).ok_or_else(no_rule)?;
+    let coarse_nodes = layout(gf, ln_entry, n.max(end), cache, prec).ok_or_else(no_rule)?;
+    let drop_fine = ln_entry - 4.0 * LN_10 - (fine_nodes.len() as f64).ln();
+    let drop_coarse = ln_entry - (coarse_nodes.len() as f64).ln();
+    let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec, threads)?;
+    let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec, threads)?;
     let trace = |diag: &[Float], from: usize| -> Float {
         let mut sum = Float::new(prec);
         for (i, d) in diag.iter().enumerate().skip(from - n) {
@@ -216,8 +218,8 @@ fn attempt(
         }
         sum
     };
-    let fine_diag = diagonal_integrals(g, n, end, &fine_nodes, drop_fine, prec);
-    let coarse_diag = diagonal_integrals(g, n, end, &coarse_nodes, drop_coarse, prec);
+    let fine_diag = diagonal_integrals(g, n, end, &fine_nodes, drop_fine, prec)?;
+    let coarse_diag = diagonal_integrals(g, n, end, &coarse_nodes, drop_coarse, prec)?;
 
     let pick = |sv: matrix::Solved| -> Float {
         match f {

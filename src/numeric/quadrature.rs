@@ -16,11 +16,12 @@ use std::rc::Rc;
 
 use rug::{Assign, Float};
 
-/// One panel [a, a + h] with an n-point rule.
+/// One panel [a, b] with an n-point rule; consecutive panels share the
+/// same f64 end point, so that the rules in MPFR tile their range exactly.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub(crate) struct Panel {
     pub a: f64,
-    pub h: f64,
+    pub b: f64,
     pub n: usize,
 }
 
@@ -131,22 +132,37 @@ pub(crate) fn cutoff(ln_tol: f64) -> f64 {
     t
 }
 
-/// The smallest order whose modelled error on `[a, a + h]` is below
-/// exp(ln_tol), or None past a sanity bound.
-fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
-    // Sum of distances from the pole 2 pi i to the panel's ends bounds the
-    // ellipse: (h/2)(rho + 1/rho) must stay below it with a margin.
-    let pole = 2.0 * PI;
-    let s = (pole * pole + a * a).sqrt() + (pole * pole + (a + h) * (a + h)).sqrt();
-    // 0.9: stay a tenth inside the pole, where |1/(e^t - 1)| is still
-    // within about ten times its size on the real axis.
-    let cap = (2.0 * s / h) * 0.9;
-    let rho_max = 0.5 * (cap + (cap * cap - 4.0).max(0.0).sqrt());
+/// Where the integrand of a panel may grow: `ln_max(left, semi_major,
+/// semi_minor)` bounds ln max |integrand| on the Bernstein ellipse around
+/// the panel from its leftmost point and half-axes (None: that ellipse is
+/// not allowed), and `pole` is the integrand's nearest singularity, which
+/// every ellipse must keep clear of.
+pub(crate) struct Growth<'a> {
+    pub pole: (f64, f64),
+    pub ln_max: &'a dyn Fn(f64, f64, f64) -> Option<f64>,
+}
+
+/// The growth of J_i(2gt) J_j(2gt) / (t (e^t - 1)) on the real axis.
+pub(crate) fn oscillating(g: f64) -> impl Fn(f64, f64, f64) -> Option<f64> {
     // |J_i J_j| / |t|^2 near t = 0 is at most |g t|^2 / |t|^2 = g^2 (both
     // orders >= 1, DLMF 10.14.4), and 1/|e^t - 1| <= e^2 |e^-t| on the
     // ellipse away from the pole: hence ln max(g^2, 1) + 2 over the
     // e^(4 g Im t - Re t) of the two Bessel factors and the weight.
     let amp = (g * g).max(1.0).ln() + 2.0;
+    move |left, _major, minor| Some(4.0 * g * minor - left + amp)
+}
+
+/// The smallest order whose modelled error on `[a, a + h]` is below
+/// exp(ln_tol), or None past a sanity bound.
+fn panel_order(a: f64, h: f64, ln_tol: f64, growth: &Growth) -> Option<usize> {
+    // Sum of distances from the pole to the panel's ends bounds the
+    // ellipse: (h/2)(rho + 1/rho) must stay below it with a margin.
+    let (pr, pi) = growth.pole;
+    let s = ((a - pr).powi(2) + pi * pi).sqrt() + ((a + h - pr).powi(2) + pi * pi).sqrt();
+    // 0.9: stay a tenth inside the pole, where |1/(e^t - 1)| is still
+    // within about ten times its size on the real axis.
+    let cap = (2.0 * s / h) * 0.9;
+    let rho_max = 0.5 * (cap + (cap * cap - 4.0).max(0.0).sqrt());
     let mut best: Option<f64> = None;
     // rho is scanned on a grid quadratic in its range, denser near 1 where
     // the optimum lies at strong coupling; 120 points put the scanned
@@ -160,7 +176,9 @@ fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
         let semi_minor = 0.25 * h * (rho - 1.0 / rho);
         let semi_major = 0.25 * h * (rho + 1.0 / rho);
         let left = a + 0.5 * h - semi_major;
-        let ln_m = 4.0 * g * semi_minor - left.min(a) + amp;
+        let Some(ln_m) = (growth.ln_max)(left, semi_major, semi_minor) else {
+            continue;
+        };
         let ln_err0 = (64.0f64 / 15.0).ln() + (0.5 * h).ln() + ln_m - (rho * rho - 1.0).ln();
         let n = (ln_err0 - ln_tol) / (2.0 * rho.ln());
         // Below two points the error model is not meaningful.
@@ -184,36 +202,78 @@ fn panel_order(a: f64, h: f64, g: f64, ln_tol: f64) -> Option<usize> {
 /// integral J_i(2gt) J_j(2gt) / (t (e^t - 1)), with the width (a power of
 /// two) that needs the fewest nodes.
 pub(crate) fn plan(g: f64, ln_tol: f64) -> Option<Vec<Panel>> {
-    let t_max = cutoff(ln_tol);
-    let mut best: Option<(usize, Vec<Panel>)> = None;
-    // Widths from 1/2 (weak coupling: the pole at 2 pi i limits wider
-    // panels) to 8 (strong coupling: wide panels pay the fixed per-panel
-    // overhead of the error model less often); the plan is cheap (f64), so
-    // every width is tried and the fewest nodes win.
-    for h in [0.5, 1.0, 2.0, 4.0, 8.0] {
-        let count = (t_max / h).ceil() as usize;
-        let ln_each = ln_tol - (count as f64).ln();
-        let mut panels = Vec::with_capacity(count);
-        let mut total = 0usize;
-        let mut ok = true;
-        for p in 0..count {
-            let a = p as f64 * h;
-            match panel_order(a, h, g, ln_each) {
-                Some(n) => {
-                    total += n;
-                    panels.push(Panel { a, h, n });
-                }
-                None => {
-                    ok = false;
-                    break;
-                }
-            }
-        }
-        if ok && best.as_ref().is_none_or(|(b, _)| total < *b) {
-            best = Some((total, panels));
+    let growth = oscillating(g);
+    let growth = Growth {
+        pole: (0.0, 2.0 * PI),
+        ln_max: &growth,
+    };
+    // Whole panels of a power-of-two width from 0, the last one reaching
+    // past the cutoff: the tail it covers costs a few nodes and the widths
+    // stay exact binary fractions.
+    best_of(&[0.5, 1.0, 2.0, 4.0, 8.0], |width| {
+        let count = (cutoff(ln_tol) / width).ceil() as usize;
+        panels(0.0, count as f64 * width, width, count, ln_tol, &growth)
+    })
+}
+
+/// The panels [lo + p h, lo + (p + 1) h], p < count, the last one ending
+/// at `hi`, each with the order that reaches its share of exp(ln_tol), or
+/// None if one cannot.
+fn panels(
+    lo: f64,
+    hi: f64,
+    h: f64,
+    count: usize,
+    ln_tol: f64,
+    growth: &Growth,
+) -> Option<Vec<Panel>> {
+    let ln_each = ln_tol - (count as f64).ln();
+    let end = |p: usize| if p == count { hi } else { lo + p as f64 * h };
+    (0..count)
+        .map(|p| {
+            let (a, b) = (end(p), end(p + 1));
+            panel_order(a, b - a, ln_each, growth).map(|n| Panel { a, b, n })
+        })
+        .collect()
+}
+
+/// The candidate plan with the fewest nodes.
+fn best_of(widths: &[f64], make: impl Fn(f64) -> Option<Vec<Panel>>) -> Option<Vec<Panel>> {
+    widths
+        .iter()
+        .filter_map(|&w| make(w))
+        .min_by_key(|p| p.iter().map(|q| q.n).sum::<usize>())
+}
+
+/// Equal panels covering exactly [lo, hi] for absolute accuracy
+/// exp(ln_tol) in all, with the width (near a power of two, from 1/16 for
+/// the short pieces of the contour at strong coupling to 8) that needs the
+/// fewest nodes.
+pub(crate) fn plan_range(lo: f64, hi: f64, ln_tol: f64, growth: &Growth) -> Option<Vec<Panel>> {
+    best_of(&[0.0625, 0.125, 0.25, 0.5, 1.0, 2.0, 4.0, 8.0], |width| {
+        let count = ((hi - lo) / width).ceil().max(1.0) as usize;
+        panels(lo, hi, (hi - lo) / count as f64, count, ln_tol, growth)
+    })
+}
+
+/// Nodes and weights of the composite rule on its panels, as they are.
+pub(crate) fn panel_points(
+    panels: &[Panel],
+    cache: &mut RuleCache,
+    prec: u32,
+) -> Vec<(Float, Float)> {
+    let mut out = Vec::new();
+    for p in panels {
+        let rule = cache.get(p.n, prec);
+        // Both ends are f64 values, so half and mid are exact in MPFR.
+        let half = (Float::with_val(prec, p.b) - p.a) / 2u32;
+        let mid = Float::with_val(prec, p.a) + &half;
+        for (x, w) in rule.nodes.iter().zip(&rule.weights) {
+            let t = Float::with_val(prec, x * &half) + &mid;
+            out.push((t, Float::with_val(prec, w * &half)));
         }
     }
-    best.map(|(_, p)| p)
+    out
 }
 
 /// Nodes t_k and weights w_k / (t_k (e^t_k - 1)) of the composite rule, the
@@ -223,19 +283,14 @@ pub(crate) fn weighted_nodes(
     cache: &mut RuleCache,
     prec: u32,
 ) -> Vec<(Float, Float)> {
-    let mut out = Vec::new();
-    for p in panels {
-        let rule = cache.get(p.n, prec);
-        let half = Float::with_val(prec, p.h) / 2u32;
-        let mid = Float::with_val(prec, p.a) + &half;
-        for (x, w) in rule.nodes.iter().zip(&rule.weights) {
-            let t = Float::with_val(prec, x * &half) + &mid;
+    panel_points(panels, cache, prec)
+        .into_iter()
+        .map(|(t, w)| {
             let denom = Float::with_val(prec, t.exp_m1_ref()) * &t;
-            let wt = Float::with_val(prec, w * &half) / denom;
-            out.push((t, wt));
-        }
-    }
-    out
+            let wt = w / denom;
+            (t, wt)
+        })
+        .collect()
 }
 
 #[cfg(test)]
