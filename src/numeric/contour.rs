@@ -28,7 +28,7 @@ use crate::error::{Error, Result};
 use super::bessel::bessel_j_upto;
 use super::hankel::{hankel_upto, Cx};
 use super::quadrature::{
-    cutoff, oscillating, panel_points, plan, plan_range, weighted_nodes, Growth, RuleCache,
+    cutoff, oscillating, panel_points, plan, plan_range, weighted_nodes, Growth, Panel, RuleCache,
 };
 
 /// How far past the largest order the split starts, x = KAPPA * top: far
@@ -36,6 +36,11 @@ use super::quadrature::{
 /// halves) and the ray's decay rate c stays at least 0.6, near enough that
 /// the oscillating piece [0, a] stays short (its nodes grow like KAPPA).
 const KAPPA: f64 = 1.25;
+
+/// The cost of a node past the split in plain nodes, measured as the ratio
+/// of run times at equal node counts (Gamma_cusp, 15 and 30 digits, g = 3
+/// to 10: the two layouts break even near g = 5 at 30 digits).
+const SPLIT_COST: f64 = 3.0;
 
 /// One quadrature node and the weight folded with f.
 pub(crate) enum Node {
@@ -90,16 +95,14 @@ impl Node {
 
     /// The node's real rows over orders 1..=m (m >= 1).
     pub fn rows(&self, two_g: &Float, m: usize, prec: u32) -> Result<Vec<Row>> {
-        let scaled = |values: &mut Vec<Float>, root: &Float| {
-            values.remove(0);
-            for v in values.iter_mut() {
-                *v *= root;
-            }
-        };
         match self {
             Node::Plain { t, w } => {
                 let mut js = bessel_j_upto(m, &Float::with_val(prec, two_g * t), prec);
-                scaled(&mut js, &Float::with_val(prec, w.sqrt_ref()));
+                js.remove(0);
+                let root = Float::with_val(prec, w.sqrt_ref());
+                for v in js.iter_mut() {
+                    *v *= &root;
+                }
                 Ok(vec![Row {
                     values: js,
                     negative: false,
@@ -107,10 +110,8 @@ impl Node {
             }
             Node::Smooth { t, w } => {
                 let z = Cx::new(Float::with_val(prec, two_g * t), Float::new(prec));
-                let root = Float::with_val(prec, w.sqrt_ref());
-                let (mut re, mut im) = parts(hankel(m, &z, prec)?);
-                scaled(&mut re, &root);
-                scaled(&mut im, &root);
+                let root = Cx::new(Float::with_val(prec, w.sqrt_ref()), Float::new(prec));
+                let (re, im) = parts(hankel(m, &z, &root, prec)?);
                 Ok(vec![
                     Row {
                         values: re,
@@ -123,10 +124,7 @@ impl Node {
                 ])
             }
             Node::Ray { t, root } => {
-                let z = t.scale(two_g);
-                let mut c = hankel(m, &z, prec)?;
-                c.remove(0);
-                let (re, im) = parts(c.iter().map(|h| h.mul(root)).collect());
+                let (re, im) = parts(hankel(m, &t.scale(two_g), root, prec)?);
                 Ok(vec![
                     Row {
                         values: re,
@@ -150,15 +148,18 @@ impl Node {
     }
 }
 
-fn hankel(m: usize, z: &Cx, prec: u32) -> Result<Vec<Cx>> {
+/// root H_i(z) for i = 1..=m.
+fn hankel(m: usize, z: &Cx, root: &Cx, prec: u32) -> Result<Vec<Cx>> {
     // `layout` only puts nodes where the expansion converges and m < |z|,
     // for orders up to its `top`: a larger m is the caller's mistake.
-    hankel_upto(m, z, prec).ok_or_else(|| {
+    let mut h = hankel_upto(m, z, root, prec).ok_or_else(|| {
         Error::numeric(format!(
             "order {m} is past the split of the contour at |z| = {:.1}",
             z.abs().to_f64()
         ))
-    })
+    })?;
+    h.remove(0);
+    Ok(h)
 }
 
 fn parts(v: Vec<Cx>) -> (Vec<Float>, Vec<Float>) {
@@ -170,6 +171,13 @@ fn parts(v: Vec<Cx>) -> (Vec<Float>, Vec<Float>) {
 fn decay(top: usize, x: f64) -> Option<f64> {
     let r = top as f64 / x;
     (x > 0.0 && r < 1.0 / 1.02).then(|| (1.0 - r * r).sqrt())
+}
+
+fn plain_nodes(panels: &[Panel], cache: &mut RuleCache, prec: u32) -> Vec<Node> {
+    weighted_nodes(panels, cache, prec)
+        .into_iter()
+        .map(|(t, w)| Node::Plain { t, w })
+        .collect()
 }
 
 /// Nodes for all S_ij with i, j <= top at absolute accuracy exp(ln_tol), or
@@ -188,14 +196,7 @@ pub(crate) fn layout(
     let x_split = (KAPPA * top as f64).max(0.5 * wprec * LN_2 + 16.0);
     let a = x_split / (2.0 * g);
     if a > 0.5 * t_max {
-        let panels = plan(g, ln_tol)?;
-        let nodes = weighted_nodes(&panels, cache, prec);
-        return Some(
-            nodes
-                .into_iter()
-                .map(|(t, w)| Node::Plain { t, w })
-                .collect(),
-        );
+        return Some(plain_nodes(&plan(g, ln_tol)?, cache, prec));
     }
     // A third of the tolerance for each piece.
     let ln_piece = ln_tol - 3f64.ln();
@@ -248,10 +249,14 @@ pub(crate) fn layout(
             ln_max: &ray_growth,
         },
     )?;
-    let mut nodes: Vec<Node> = weighted_nodes(&plain, cache, prec)
-        .into_iter()
-        .map(|(t, w)| Node::Plain { t, w })
-        .collect();
+    // A node past the split costs about SPLIT_COST plain ones (two rows,
+    // complex recurrence, and no orders to drop): split only when that wins.
+    let count = |p: &[Panel]| p.iter().map(|q| q.n).sum::<usize>() as f64;
+    let whole = plan(g, ln_tol)?;
+    if count(&whole) <= count(&plain) + SPLIT_COST * (count(&smooth) + count(&ray)) {
+        return Some(plain_nodes(&whole, cache, prec));
+    }
+    let mut nodes = plain_nodes(&plain, cache, prec);
     for (t, w) in weighted_nodes(&smooth, cache, prec) {
         nodes.push(Node::Smooth { t, w: w / 2u32 });
     }

@@ -50,25 +50,26 @@ impl Format {
 
     /// The row for values A_1..A_m (MPFR), or an error if one does not fit;
     /// a `negative` row's outer product is subtracted from the sum.
-    pub fn row(&self, values: &[Float], negative: bool, scratch: &mut Integer) -> Result<FixedRow> {
+    pub fn row(&self, values: &[Float], negative: bool) -> Result<FixedRow> {
         let l = self.limbs;
         let mut words = vec![0u64; values.len() * (l + 1)];
         for (v, w) in values.iter().zip(words.chunks_exact_mut(l + 1)) {
-            let mut shifted = Float::with_val(v.prec(), v << self.frac_bits);
-            shifted.round_mut();
-            let exp = shifted
-                .to_integer_exp_in_place(scratch)
-                .ok_or_else(|| Error::numeric("a Bessel value is not finite"))?;
-            if exp >= 0 {
-                *scratch <<= exp as u32;
-            } else {
-                *scratch >>= exp.unsigned_abs();
+            if v.is_zero() {
+                continue;
             }
-            if scratch.significant_digits::<u64>() > l {
+            let (Some(sig), Some(exp)) = (v.get_significand(), v.get_exp()) else {
+                return Err(Error::numeric("a Bessel value is not finite"));
+            };
+            // |v| = sig 2^(exp - 64 len), so |v| 2^F is sig shifted right by
+            // 64 len - exp - F bits, rounded to nearest (half up).
+            let limbs = sig.as_limbs();
+            let shift = 64 * limbs.len() as i64 - i64::from(exp) - i64::from(self.frac_bits);
+            if !round_shifted(limbs, shift, &mut w[1..]) {
                 return Err(Error::numeric("a quadrature row overflows its fixed point"));
             }
-            w[0] = if *scratch < 0 { u64::MAX } else { 0 };
-            scratch.write_digits(&mut w[1..], Order::Lsf);
+            if v.is_sign_negative() {
+                w[0] = u64::MAX;
+            }
         }
         Ok(FixedRow {
             words,
@@ -76,6 +77,50 @@ impl Format {
             negative,
         })
     }
+}
+
+/// The 64 bits of `limbs` (least significant first) from bit `p` up, with
+/// zeros outside them.
+fn word_at(limbs: &[u64], p: i64) -> u64 {
+    let bits = 64 * limbs.len() as i64;
+    if p >= bits || p <= -64 {
+        0
+    } else if p < 0 {
+        limbs[0] << (-p)
+    } else {
+        let (i, off) = ((p / 64) as usize, (p % 64) as u32);
+        let low = limbs[i] >> off;
+        let high = match limbs.get(i + 1) {
+            Some(&h) if off > 0 => h << (64 - off),
+            _ => 0,
+        };
+        low | high
+    }
+}
+
+/// out = round(limbs / 2^shift) to nearest, half up; false if it does not
+/// fit in out's limbs.
+fn round_shifted(limbs: &[u64], shift: i64, out: &mut [u64]) -> bool {
+    let top = 64 * limbs.len() as i64 - 1;
+    let room = 64 * out.len() as i64;
+    if limbs.last().is_some_and(|&h| h != 0) && top - shift >= room {
+        return false;
+    }
+    for (q, o) in out.iter_mut().enumerate() {
+        *o = word_at(limbs, shift + 64 * q as i64);
+    }
+    let half = shift >= 1 && word_at(limbs, shift - 1) & 1 == 1;
+    if half {
+        for o in out.iter_mut() {
+            let (v, carry) = o.overflowing_add(1);
+            *o = v;
+            if !carry {
+                return true;
+            }
+        }
+        return false;
+    }
+    true
 }
 
 /// Packed upper triangle of an n x n matrix: row i holds columns i..n.
@@ -96,7 +141,7 @@ pub(crate) fn gram<M>(
     make: M,
 ) -> Result<Vec<Integer>>
 where
-    M: Fn(usize, &mut Integer) -> Result<Vec<FixedRow>> + Sync,
+    M: Fn(usize) -> Result<Vec<FixedRow>> + Sync,
 {
     let width = 2 * format.limbs + 1;
     let total: usize = cost.iter().sum();
@@ -122,9 +167,8 @@ where
                 let make = &make;
                 s.spawn(move || -> Result<Vec<u64>> {
                     let mut acc = vec![0u64; entries * width];
-                    let mut scratch = Integer::new();
                     for k in lo..hi {
-                        for row in make(k, &mut scratch)? {
+                        for row in make(k)? {
                             add_outer(&mut acc, &row, n, format.limbs)?;
                         }
                     }
@@ -254,8 +298,8 @@ mod tests {
         let format = Format::new(70, 150).unwrap();
         let cost = vec![5; vals.len()];
         // Every third row is subtracted.
-        let got = gram(5, format, vals.len(), &cost, 2, |k, s| {
-            format.row(&vals[k], k % 3 == 2, s).map(|r| vec![r])
+        let got = gram(5, format, vals.len(), &cost, 2, |k| {
+            format.row(&vals[k], k % 3 == 2).map(|r| vec![r])
         })
         .unwrap();
         let fixed = |v: &Float| -> Integer {
@@ -284,9 +328,40 @@ mod tests {
     }
 
     #[test]
+    fn conversion_rounds_like_mpfr() {
+        // The limb-level conversion against MPFR's own rounding to nearest
+        // (ties away from zero) of v 2^F, over precisions of one to four
+        // limbs and magnitudes from far below 2^-F (rounds to 0) to near
+        // the top of the format, ties included.
+        let format = Format::new(40, 130).unwrap();
+        let mut cases = Vec::new();
+        for prec in [53u32, 64, 65, 200] {
+            for e in [-200i32, -131, -130, -129, -70, -1, 0, 1, 20, 38] {
+                for m in [1.0f64, -1.0, 0.7, -0.999_999_9, 1.5 / 1.9] {
+                    cases.push(Float::with_val(prec, m) << e);
+                }
+            }
+            // A tie: exactly half a unit of 2^-F above 3 units.
+            cases.push(Float::with_val(prec, 7) >> (format.frac_bits + 1));
+        }
+        let row = format.row(&cases, false).unwrap();
+        let stride = format.limbs + 1;
+        for (k, v) in cases.iter().enumerate() {
+            let want = Float::with_val(400, v << format.frac_bits)
+                .round()
+                .to_integer()
+                .unwrap();
+            let w = &row.words[k * stride..(k + 1) * stride];
+            let mag = Integer::from_digits(&w[1..], Order::Lsf);
+            let got = if w[0] == u64::MAX { -mag } else { mag };
+            assert_eq!(got, want, "value {v}");
+        }
+    }
+
+    #[test]
     fn overflow_is_an_error() {
         let format = Format::new(4, 60).unwrap();
         let big = [Float::with_val(64, 100)];
-        assert!(format.row(&big, false, &mut Integer::new()).is_err());
+        assert!(format.row(&big, false).is_err());
     }
 }

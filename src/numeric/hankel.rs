@@ -24,10 +24,6 @@ impl Cx {
         Cx { re, im }
     }
 
-    pub fn zero(prec: u32) -> Cx {
-        Cx::new(Float::new(prec), Float::new(prec))
-    }
-
     pub fn mul(&self, o: &Cx) -> Cx {
         let p = self.re.prec();
         let mut re = Float::with_val(p, &self.re * &o.re);
@@ -106,10 +102,11 @@ fn hankel_sum(nu: u32, i_over_z: &Cx, wprec: u32) -> Option<Cx> {
     None
 }
 
-/// H_0(z), ..., H_n(z) (first kind) at `prec` bits for Re z > 0, Im z >= 0,
-/// or None when |z| is too small for the expansion to reach the precision
-/// (about |z| > prec ln 2 / 2) or n is not below |z|.
-pub(crate) fn hankel_upto(n: usize, z: &Cx, prec: u32) -> Option<Vec<Cx>> {
+/// root H_0(z), ..., root H_n(z) (first kind) at `prec` bits for Re z > 0,
+/// Im z >= 0, or None when |z| is too small for the expansion to reach the
+/// precision (about |z| > prec ln 2 / 2) or n is not below |z|. The factor
+/// `root` is the quadrature's (square-rooted) weight, applied on the way out.
+pub(crate) fn hankel_upto(n: usize, z: &Cx, root: &Cx, prec: u32) -> Option<Vec<Cx>> {
     let wprec = prec + 16;
     let x = Float::with_val(wprec, &z.re);
     let y = Float::with_val(wprec, &z.im);
@@ -136,24 +133,40 @@ pub(crate) fn hankel_upto(n: usize, z: &Cx, prec: u32) -> Option<Vec<Cx>> {
         first.push(Cx::unit(&phase).mul(&sum).scale(&amp));
     }
     let two_over_z = zw.recip().scale(&Float::with_val(wprec, 2));
+    let (tr, ti) = (&two_over_z.re, &two_over_z.im);
+    let root = Cx::new(
+        Float::with_val(wprec, &root.re),
+        Float::with_val(wprec, &root.im),
+    );
+    let out_of = |c: &Cx| {
+        let v = root.mul(c);
+        Cx::new(Float::with_val(prec, &v.re), Float::with_val(prec, &v.im))
+    };
     let mut out = Vec::with_capacity(n + 1);
-    let narrow = |c: &Cx| Cx::new(Float::with_val(prec, &c.re), Float::with_val(prec, &c.im));
     let mut prev = first.swap_remove(0);
     let mut here = first.swap_remove(0);
-    out.push(narrow(&prev));
+    out.push(out_of(&prev));
     if n >= 1 {
-        out.push(narrow(&here));
+        out.push(out_of(&here));
     }
-    let mut factor = Cx::zero(wprec);
+    // In place, without allocation: this loop is the cost of a node.
+    let (mut a, mut b) = (Float::new(wprec), Float::new(wprec));
     for k in 1..n {
-        // H_{k+1} = (2k / z) H_k - H_{k-1}
-        factor.re.assign(&two_over_z.re * k as u32);
-        factor.im.assign(&two_over_z.im * k as u32);
-        let mut next = factor.mul(&here);
-        next.re -= &prev.re;
-        next.im -= &prev.im;
-        out.push(narrow(&next));
-        prev = std::mem::replace(&mut here, next);
+        // H_{k+1} = (2k / z) H_k - H_{k-1}, written over H_{k-1}.
+        a.assign(tr * &here.re);
+        b.assign(ti * &here.im);
+        a -= &b;
+        a *= k as u32;
+        a -= &prev.re;
+        std::mem::swap(&mut prev.re, &mut a);
+        a.assign(tr * &here.im);
+        b.assign(ti * &here.re);
+        a += &b;
+        a *= k as u32;
+        a -= &prev.im;
+        std::mem::swap(&mut prev.im, &mut a);
+        std::mem::swap(&mut prev, &mut here);
+        out.push(out_of(&here));
     }
     Some(out)
 }
@@ -162,6 +175,10 @@ pub(crate) fn hankel_upto(n: usize, z: &Cx, prec: u32) -> Option<Vec<Cx>> {
 mod tests {
     use super::*;
     use crate::numeric::bessel::bessel_j_upto;
+
+    fn one(prec: u32) -> Cx {
+        Cx::new(Float::with_val(prec, 1), Float::new(prec))
+    }
 
     fn parse(s: &str, prec: u32) -> Float {
         Float::with_val(prec, Float::parse(s).unwrap())
@@ -174,7 +191,7 @@ mod tests {
         let prec = 200;
         for x in ["120.5", "900"] {
             let z = Cx::new(parse(x, prec), Float::new(prec));
-            let h = hankel_upto(100, &z, prec).unwrap();
+            let h = hankel_upto(100, &z, &one(prec), prec).unwrap();
             let j = bessel_j_upto(100, &z.re, prec);
             for (k, (hk, jk)) in h.iter().zip(&j).enumerate() {
                 let d = Float::with_val(prec, &hk.re - jk).abs().to_f64();
@@ -189,7 +206,7 @@ mod tests {
         let prec = 200;
         let x = parse("300.25", prec);
         let z = Cx::new(x.clone(), Float::new(prec));
-        let h = hankel_upto(250, &z, prec).unwrap();
+        let h = hankel_upto(250, &z, &one(prec), prec).unwrap();
         let want = Float::with_val(prec, 2u32 / (Float::with_val(prec, Constant::Pi) * &x));
         for k in [0usize, 17, 120, 249] {
             let mut w = Float::with_val(prec, &h[k + 1].re * &h[k].im);
@@ -206,7 +223,7 @@ mod tests {
         // to cancellation there).
         let prec = 160;
         let z = Cx::new(Float::with_val(prec, 150), Float::with_val(prec, 40));
-        let h = hankel_upto(100, &z, prec).unwrap();
+        let h = hankel_upto(100, &z, &one(prec), prec).unwrap();
         let cases = [
             (
                 0usize,

@@ -51,7 +51,7 @@ pub(crate) fn kernel_integrals(
         .zip(&orders)
         .map(|(node, &m)| node.width() * m * m)
         .collect();
-    let sums = gram(n, format, nodes.len(), &cost, threads, |k, scratch| {
+    let sums = gram(n, format, nodes.len(), &cost, threads, |k| {
         let m = orders[k];
         if m == 0 {
             return Ok(Vec::new());
@@ -59,7 +59,7 @@ pub(crate) fn kernel_integrals(
         nodes[k]
             .rows(&two_g, m, prec)?
             .iter()
-            .map(|row| format.row(&row.values, row.negative, scratch))
+            .map(|row| format.row(&row.values, row.negative))
             .collect()
     })?;
     let mut s = vec![Float::new(prec); n * n];

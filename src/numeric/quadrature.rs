@@ -248,9 +248,15 @@ fn best_of(widths: &[f64], make: impl Fn(f64) -> Option<Vec<Panel>>) -> Option<V
 /// Equal panels covering exactly [lo, hi] for absolute accuracy
 /// exp(ln_tol) in all, with the width (near a power of two, from 1/16 for
 /// the short pieces of the contour at strong coupling to 8) that needs the
-/// fewest nodes.
+/// fewest nodes. Widths that would need more than 64 panels are not tried:
+/// planning then costs more than it saves, since a panel costs a scan of
+/// its error model.
 pub(crate) fn plan_range(lo: f64, hi: f64, ln_tol: f64, growth: &Growth) -> Option<Vec<Panel>> {
-    best_of(&[0.0625, 0.125, 0.25, 0.5, 1.0, 2.0, 4.0, 8.0], |width| {
+    let widths: Vec<f64> = [0.0625, 0.125, 0.25, 0.5, 1.0, 2.0, 4.0, 8.0]
+        .into_iter()
+        .filter(|&w| (hi - lo) / w <= 64.0 || w == 8.0)
+        .collect();
+    best_of(&widths, |width| {
         let count = ((hi - lo) / width).ceil().max(1.0) as usize;
         panels(lo, hi, (hi - lo) / count as f64, count, ln_tol, growth)
     })

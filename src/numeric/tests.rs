@@ -59,7 +59,13 @@ fn gamma_untilted_closed_form() {
         check(Functional::Gamma, "1", g, 30, &gamma_untilted(&fl(g)));
     }
     // The accepted limit, at the digits the README promises there.
-    check(Functional::Gamma, "1", "200", 15, &gamma_untilted(&fl("200")));
+    check(
+        Functional::Gamma,
+        "1",
+        "200",
+        15,
+        &gamma_untilted(&fl("200")),
+    );
 }
 
 #[test]
