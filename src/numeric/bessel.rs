@@ -58,36 +58,50 @@ pub fn bessel_j_upto(n: usize, x: &Float, prec: u32) -> Vec<Float> {
     miller(n, x, prec)
 }
 
-/// P and Q of DLMF 10.17.3 for order nu (0 or 1) at large x, or None if the
-/// terms stop decreasing before reaching the working precision.
-fn hankel_pq(nu: u32, x: &Float, wprec: u32) -> Option<(Float, Float)> {
-    let mu = 4 * nu * nu;
-    let mut p = Float::with_val(wprec, 1);
-    let mut q = Float::new(wprec);
-    let mut term = Float::with_val(wprec, 1);
+/// P and Q of DLMF 10.17.3 for orders 0 and 1 at large x, in one pass over
+/// the powers of 1/x, or None if the terms stop decreasing before reaching
+/// the working precision.
+fn hankel_pq(x: &Float, wprec: u32) -> Option<[(Float, Float); 2]> {
+    let inv_x = Float::with_val(wprec, x.recip_ref());
     let eps = Float::with_val(wprec, Float::i_exp(1, -(wprec as i32)));
-    let mut last = Float::with_val(wprec, 1);
+    let mut out = [
+        (Float::with_val(wprec, 1), Float::new(wprec)),
+        (Float::with_val(wprec, 1), Float::new(wprec)),
+    ];
+    let mut terms = [Float::with_val(wprec, 1), Float::with_val(wprec, 1)];
+    let mut last = [Float::with_val(wprec, 1), Float::with_val(wprec, 1)];
+    let mut done = [false, false];
     for k in 1u32..100_000 {
-        // a_k(nu) / x^k = a_{k-1} / x^{k-1} * (mu - (2k-1)^2) / (8 k x)
-        let odd = (2 * k - 1) as i64;
-        term *= mu as i64 - odd * odd;
-        term /= 8 * k;
-        term /= x;
-        let size = Float::with_val(wprec, term.abs_ref());
-        if size > last {
-            return None;
+        for nu in 0..2 {
+            if done[nu] {
+                continue;
+            }
+            // a_k(nu) / x^k = a_{k-1} / x^{k-1} * (mu - (2k-1)^2) / (8 k x)
+            let mu = 4 * (nu * nu) as i64;
+            let odd = (2 * k - 1) as i64;
+            let term = &mut terms[nu];
+            *term *= mu - odd * odd;
+            *term /= 8 * k;
+            *term *= &inv_x;
+            if term.cmp_abs(&last[nu]) == Some(std::cmp::Ordering::Greater) {
+                return None;
+            }
+            // P = sum (-1)^j a_{2j} / x^{2j}, Q = sum (-1)^j a_{2j+1} / x^{2j+1}
+            let (p, q) = &mut out[nu];
+            match k % 4 {
+                0 => *p += &*term,
+                1 => *q += &*term,
+                2 => *p -= &*term,
+                _ => *q -= &*term,
+            }
+            if term.cmp_abs(&eps) == Some(std::cmp::Ordering::Less) {
+                done[nu] = true;
+            }
+            last[nu].assign(&*term);
         }
-        // P = sum (-1)^j a_{2j} / x^{2j}, Q = sum (-1)^j a_{2j+1} / x^{2j+1}
-        match k % 4 {
-            0 => p += &term,
-            1 => q += &term,
-            2 => p -= &term,
-            _ => q -= &term,
+        if done[0] && done[1] {
+            return Some(out);
         }
-        if size < eps {
-            return Some((p, q));
-        }
-        last = size;
     }
     None
 }
@@ -97,17 +111,17 @@ fn hankel_forward(n: usize, x: &Float, prec: u32) -> Option<Vec<Float>> {
     let pi = Float::with_val(wprec, Constant::Pi);
     let amp = Float::with_val(wprec, Float::with_val(wprec, x * &pi) / 2u32).recip_sqrt();
     let mut out: Vec<Float> = Vec::with_capacity(n + 1);
+    let pq = hankel_pq(x, wprec)?;
     let mut first = [Float::new(wprec), Float::new(wprec)];
-    for nu in 0..2u32 {
-        let (p, q) = hankel_pq(nu, x, wprec)?;
+    for (nu, (p, q)) in pq.iter().enumerate() {
         // omega = x - nu pi/2 - pi/4
-        let shift = Float::with_val(wprec, &pi * (2 * nu + 1)) / 4u32;
+        let shift = Float::with_val(wprec, &pi * (2 * nu as u32 + 1)) / 4u32;
         let omega = Float::with_val(wprec, x - shift);
         let (sin, cos) = omega.sin_cos(Float::new(wprec));
-        let mut v = Float::with_val(wprec, &p * &cos);
-        v -= Float::with_val(wprec, &q * &sin);
+        let mut v = Float::with_val(wprec, p * &cos);
+        v -= Float::with_val(wprec, q * &sin);
         v *= &amp;
-        first[nu as usize] = v;
+        first[nu] = v;
     }
     let [j0, j1] = first;
     let two_over_x = Float::with_val(wprec, 2u32 / Float::with_val(wprec, x));
@@ -117,11 +131,13 @@ fn hankel_forward(n: usize, x: &Float, prec: u32) -> Option<Vec<Float>> {
     if n >= 1 {
         out.push(Float::with_val(prec, &here));
     }
+    // The factor 2k/x grows by 2/x per order: one addition, not a product.
+    let mut factor = Float::new(wprec);
     let mut next = Float::new(wprec);
-    for k in 1..n {
+    for _ in 1..n {
         // J_{k+1} = (2k/x) J_k - J_{k-1}
-        next.assign(&two_over_x * k as u32);
-        next *= &here;
+        factor += &two_over_x;
+        next.assign(&factor * &here);
         next -= &prev;
         out.push(Float::with_val(prec, &next));
         std::mem::swap(&mut prev, &mut here);

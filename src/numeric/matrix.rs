@@ -146,6 +146,10 @@ pub(crate) struct Solved {
     pub inv11: Float,
     /// ln det(1 + K')
     pub ln_det: Float,
+    /// (1 + K')^-1 e_1
+    pub first_column: Vec<Float>,
+    /// (1 + K')^-T e_1, the first row of the inverse
+    pub first_row: Vec<Float>,
 }
 
 /// LU with partial pivoting of the k x k row-major matrix, read off for the
@@ -170,6 +174,7 @@ pub(crate) fn factor_nested(
     let mut negative = false;
     let mut tmp = Float::new(prec);
     let mut block = None;
+    let mut perm: Vec<usize> = (0..k).collect();
     for c in 0..k {
         if c == inner {
             block = Some((ln_det.clone(), negative, rhs[..inner].to_vec()));
@@ -189,6 +194,7 @@ pub(crate) fn factor_nested(
                 a.swap(p * k + j, c * k + j);
             }
             rhs.swap(p, c);
+            perm.swap(p, c);
             negative = !negative;
         }
         let pivot = a[c * k + c].clone();
@@ -201,6 +207,7 @@ pub(crate) fn factor_nested(
                 continue;
             }
             let f = Float::with_val(prec, &a[r * k + c] / &pivot);
+            a[r * k + c].assign(&f);
             let (upper, lower) = a.split_at_mut(r * k);
             for (x, y) in lower[c + 1..k]
                 .iter_mut()
@@ -215,8 +222,8 @@ pub(crate) fn factor_nested(
     }
     let (block_det, block_negative, block_rhs) =
         block.unwrap_or_else(|| (ln_det.clone(), negative, rhs.clone()));
-    let small = solved(&a, k, inner, block_rhs, block_det, block_negative)?;
-    let whole = solved(&a, k, k, rhs, ln_det, negative)?;
+    let small = solved(&a, k, inner, block_rhs, block_det, block_negative, &perm)?;
+    let whole = solved(&a, k, k, rhs, ln_det, negative, &perm)?;
     Ok((small, whole))
 }
 
@@ -228,6 +235,7 @@ fn solved(
     mut rhs: Vec<Float>,
     ln_det: Float,
     negative: bool,
+    perm: &[usize],
 ) -> Result<Solved> {
     if negative {
         return Err(Error::numeric(
@@ -242,9 +250,37 @@ fn solved(
         }
         rhs[r] /= &a[r * k + r];
     }
+    // The first row of the inverse: P M = L U gives M^T = U^T L^T P, so
+    // U^T y = e_1, then L^T z = y (L's multipliers are stored below the
+    // diagonal), and u = P^T z.
+    let prec = rhs[0].prec();
+    let mut y: Vec<Float> = (0..size).map(|_| Float::new(prec)).collect();
+    for i in 0..size {
+        let mut v = Float::with_val(prec, if i == 0 { 1 } else { 0 });
+        for j in 0..i {
+            tmp.assign(&a[j * k + i] * &y[j]);
+            v -= &tmp;
+        }
+        v /= &a[i * k + i];
+        y[i] = v;
+    }
+    for i in (0..size).rev() {
+        let mut v = std::mem::replace(&mut y[i], Float::new(prec));
+        for j in (i + 1)..size {
+            tmp.assign(&a[j * k + i] * &y[j]);
+            v -= &tmp;
+        }
+        y[i] = v;
+    }
+    let mut u: Vec<Float> = (0..size).map(|_| Float::new(prec)).collect();
+    for (i, z) in y.into_iter().enumerate() {
+        u[perm[i]] = z;
+    }
     Ok(Solved {
-        inv11: rhs.swap_remove(0),
+        inv11: rhs[0].clone(),
         ln_det,
+        first_column: rhs,
+        first_row: u,
     })
 }
 

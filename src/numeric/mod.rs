@@ -27,6 +27,8 @@ mod matrix;
 pub mod mzv;
 pub mod pslq;
 mod quadrature;
+mod refine;
+mod sensitivity;
 
 use std::f64::consts::LN_10;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -42,6 +44,8 @@ use bessel::ln_magnitude;
 use contour::layout;
 use matrix::{diagonal_integrals, factor, factor_nested, kernel_integrals, tilted_system};
 use quadrature::RuleCache;
+use refine::RoughLu;
+use sensitivity::Form;
 
 pub use bessel::bessel_j_upto;
 pub use estimate::Estimate;
@@ -210,7 +214,97 @@ fn attempt(
     let drop_fine = ln_entry - 4.0 * LN_10 - (fine_nodes.len() as f64).ln();
     let drop_coarse = ln_entry - (coarse_nodes.len() as f64).ln();
     let s_fine = kernel_integrals(g, n2, &fine_nodes, drop_fine, prec, threads)?;
-    let s_coarse = kernel_integrals(g, n, &coarse_nodes, drop_coarse, prec, threads)?;
+    let fine_system = tilted_system(&s_fine, n2, n2, c2, prec);
+    let rules = Rules {
+        fine: &fine_nodes,
+        coarse: &coarse_nodes,
+        drop_fine,
+        drop_coarse,
+    };
+    let (best, fine_small, coarse_small) = match f {
+        Functional::Gamma => {
+            // No full-precision factorisation: three refined solves on a
+            // double-precision LU (refine.rs), or the MPFR LU where that
+            // does not contract; the coarse rule enters to first order
+            // (sensitivity.rs), at two dot products per node.
+            let (whole, first_row, first_column) = match refined(&fine_system, n2, n, prec) {
+                Some(parts) => parts,
+                None => {
+                    let (small, whole) = factor_nested(fine_system.clone(), n2, n, prec)?;
+                    (whole.inv11, small.first_row, small.first_column)
+                }
+            };
+            let form = Form::new(c2, &first_row, &first_column, prec);
+            let mut shift = form.on_nodes(rules.coarse, g, rules.drop_coarse, threads)?;
+            shift -= form.on_matrix(&s_fine, n2);
+            let g2 = Float::with_val(prec, g * g) * 4u32;
+            let best = Float::with_val(prec, &g2 * &whole);
+            let fine_small = Float::with_val(prec, &g2 * &first_column[0]);
+            let coarse_small = Float::with_val(prec, &fine_small - g2 * shift);
+            (best, fine_small, coarse_small)
+        }
+        Functional::Delta => delta_parts(c2, g, (n, n2, end), fine_system, &rules, prec, threads)?,
+    };
+    let mut error = Float::with_val(prec, &best - &fine_small).abs();
+    error += Float::with_val(prec, &fine_small - &coarse_small).abs();
+    // Rounding: about n2^2 operations each contributing a relative 2^-prec
+    // to the inverse's entry (Gamma) or to the determinant (Delta).
+    let mut rounding = Float::with_val(prec, Float::i_exp(1, -(prec as i32)));
+    rounding *= (n2 * n2) as u32;
+    match f {
+        Functional::Gamma => rounding *= Float::with_val(prec, best.abs_ref()),
+        Functional::Delta => {
+            rounding *= Float::with_val(prec, best.abs_ref()).max(&Float::with_val(prec, 1))
+        }
+    }
+    error += rounding;
+    error += beyond;
+    Ok(Estimate::new(best, error))
+}
+
+/// [M^-1]_11 of the whole n2 x n2 system and the first row and column of
+/// the inverse of its leading n x n block, by refinement; None where the
+/// refinement does not contract or det M is not positive in double
+/// precision (then the MPFR LU decides, and refuses a negative one).
+fn refined(
+    system: &[Float],
+    n2: usize,
+    n: usize,
+    prec: u32,
+) -> Option<(Float, Vec<Float>, Vec<Float>)> {
+    let whole = RoughLu::new(system, n2, n2)?;
+    let block = RoughLu::new(system, n2, n)?;
+    if !whole.determinant_positive() || !block.determinant_positive() {
+        return None;
+    }
+    let v2 = whole.refine(system, n2, false, prec)?;
+    let column = block.refine(system, n2, false, prec)?;
+    let row = block.refine(system, n2, true, prec)?;
+    Some((v2.into_iter().next()?, row, column))
+}
+
+/// The two rules of one attempt and their dropping levels.
+struct Rules<'a> {
+    fine: &'a [contour::Node],
+    coarse: &'a [contour::Node],
+    drop_fine: f64,
+    drop_coarse: f64,
+}
+
+/// Delta's F(fine, N2), F(fine, N) and F(coarse, N), each with the trace of
+/// the diagonal it leaves out (`attempt`), from the factored fine system
+/// and a second factorisation on the coarse rule (ln det's first-order
+/// change would need the whole inverse, no cheaper than that).
+fn delta_parts(
+    c2: &Float,
+    g: &Float,
+    (n, n2, end): (usize, usize, usize),
+    fine_system: Vec<Float>,
+    rules: &Rules,
+    prec: u32,
+    threads: usize,
+) -> Result<(Float, Float, Float)> {
+    let s_coarse = kernel_integrals(g, n, rules.coarse, rules.drop_coarse, prec, threads)?;
     let trace = |diag: &[Float], from: usize| -> Float {
         let mut sum = Float::new(prec);
         for (i, d) in diag.iter().enumerate().skip(from - n) {
@@ -218,21 +312,10 @@ fn attempt(
         }
         sum
     };
-    let fine_diag = diagonal_integrals(g, n, end, &fine_nodes, drop_fine, prec)?;
-    let coarse_diag = diagonal_integrals(g, n, end, &coarse_nodes, drop_coarse, prec)?;
-
-    let pick = |sv: matrix::Solved| -> Float {
-        match f {
-            Functional::Gamma => {
-                let g2 = Float::with_val(prec, g * g) * 4u32;
-                g2 * sv.inv11
-            }
-            Functional::Delta => sv.ln_det,
-        }
-    };
+    let fine_diag = diagonal_integrals(g, n, end, rules.fine, rules.drop_fine, prec)?;
+    let coarse_diag = diagonal_integrals(g, n, end, rules.coarse, rules.drop_coarse, prec)?;
     // The two factorisations are independent; with a second core the
     // coarse one (about (N/N2)^3 of the work) runs beside the nested one.
-    let fine_system = tilted_system(&s_fine, n2, n2, c2, prec);
     let coarse_system = tilted_system(&s_coarse, n, n, c2, prec);
     let (nested, coarse) = if threads > 1 {
         std::thread::scope(|s| {
@@ -250,25 +333,11 @@ fn attempt(
         )
     };
     let (small, whole) = nested?;
-    let best = pick(whole) + trace(&fine_diag, n2.min(end));
-    let fine_small = pick(small) + trace(&fine_diag, n);
-    let coarse_small = pick(coarse?) + trace(&coarse_diag, n);
-
-    let mut error = Float::with_val(prec, &best - &fine_small).abs();
-    error += Float::with_val(prec, &fine_small - &coarse_small).abs();
-    // Rounding: about n2^2 operations each contributing a relative 2^-prec
-    // to the inverse's entry (Gamma) or to the determinant (Delta).
-    let mut rounding = Float::with_val(prec, Float::i_exp(1, -(prec as i32)));
-    rounding *= (n2 * n2) as u32;
-    match f {
-        Functional::Gamma => rounding *= Float::with_val(prec, best.abs_ref()),
-        Functional::Delta => {
-            rounding *= Float::with_val(prec, best.abs_ref()).max(&Float::with_val(prec, 1))
-        }
-    }
-    error += rounding;
-    error += beyond;
-    Ok(Estimate::new(best, error))
+    Ok((
+        whole.ln_det + trace(&fine_diag, n2.min(end)),
+        small.ln_det + trace(&fine_diag, n),
+        coarse?.ln_det + trace(&coarse_diag, n),
+    ))
 }
 
 fn check_inputs(c2: &Float, g: &Float, digits: u32) -> Result<()> {
