@@ -111,31 +111,9 @@ impl Node {
             Node::Smooth { t, w } => {
                 let z = Cx::new(Float::with_val(prec, two_g * t), Float::new(prec));
                 let root = Cx::new(Float::with_val(prec, w.sqrt_ref()), Float::new(prec));
-                let (re, im) = parts(hankel(m, &z, &root, prec)?);
-                Ok(vec![
-                    Row {
-                        values: re,
-                        negative: false,
-                    },
-                    Row {
-                        values: im,
-                        negative: false,
-                    },
-                ])
+                Ok(split_rows(hankel(m, &z, &root, prec)?, false))
             }
-            Node::Ray { t, root } => {
-                let (re, im) = parts(hankel(m, &t.scale(two_g), root, prec)?);
-                Ok(vec![
-                    Row {
-                        values: re,
-                        negative: false,
-                    },
-                    Row {
-                        values: im,
-                        negative: true,
-                    },
-                ])
-            }
+            Node::Ray { t, root } => Ok(split_rows(hankel(m, &t.scale(two_g), root, prec)?, true)),
         }
     }
 
@@ -162,8 +140,20 @@ fn hankel(m: usize, z: &Cx, root: &Cx, prec: u32) -> Result<Vec<Cx>> {
     Ok(h)
 }
 
-fn parts(v: Vec<Cx>) -> (Vec<Float>, Vec<Float>) {
-    v.into_iter().map(|c| (c.re, c.im)).unzip()
+/// The rows Re c and Im c of a node past the split, the second subtracted
+/// on the ray.
+fn split_rows(c: Vec<Cx>, subtract_im: bool) -> Vec<Row> {
+    let (re, im): (Vec<Float>, Vec<Float>) = c.into_iter().map(|c| (c.re, c.im)).unzip();
+    vec![
+        Row {
+            values: re,
+            negative: false,
+        },
+        Row {
+            values: im,
+            negative: subtract_im,
+        },
+    ]
 }
 
 /// The decay rate c = sqrt(1 - (top/x)^2) of H_top at x past its turning
@@ -200,16 +190,19 @@ pub(crate) fn layout(
     }
     // A third of the tolerance for each piece.
     let ln_piece = ln_tol - 3f64.ln();
-    let wave = oscillating(g);
-    let plain = plan_range(
-        0.0,
-        a,
-        ln_piece,
-        &Growth {
-            pole: (0.0, 2.0 * PI),
-            ln_max: &wave,
-        },
-    )?;
+    // The real-axis pieces share f's nearest pole, 2 pi i.
+    let on_axis = |lo: f64, hi: f64, ln_max: &dyn Fn(f64, f64, f64) -> Option<f64>| {
+        plan_range(
+            lo,
+            hi,
+            ln_piece,
+            &Growth {
+                pole: (0.0, 2.0 * PI),
+                ln_max,
+            },
+        )
+    };
+    let plain = on_axis(0.0, a, &oscillating(g))?;
     // Past the split the analytic continuation of Re(H_i conj(H_j)) grows
     // at most like e^(y |c_i - c_j|) <= e^(y (1 - c_top)) at y = 2g Im t;
     // f is bounded by e^2 e^(-Re t) / |t| away from its poles.
@@ -217,15 +210,7 @@ pub(crate) fn layout(
         let c = decay(top, 2.0 * g * left)?;
         Some(2.0 * g * minor * (1.0 - c) - left + 2.0 - left.ln())
     };
-    let smooth = plan_range(
-        a,
-        t_max.max(a + 1.0),
-        ln_piece,
-        &Growth {
-            pole: (0.0, 2.0 * PI),
-            ln_max: &smooth_growth,
-        },
-    )?;
+    let smooth = on_axis(a, t_max.max(a + 1.0), &smooth_growth)?;
     // Up the ray |H_i H_j f| <= e^(-4 g c s) e^2 e^(-a) / a with c at the
     // smallest x the ellipse reaches; below the axis (s < 0) H grows at
     // most like e^(4 g |s|).

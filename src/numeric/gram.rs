@@ -176,13 +176,7 @@ where
                 })
             })
             .collect();
-        handles
-            .into_iter()
-            .map(|h| {
-                h.join()
-                    .unwrap_or_else(|_| Err(Error::numeric("a quadrature thread failed")))
-            })
-            .collect()
+        joined(handles)
     });
     let mut sum: Option<Vec<u64>> = None;
     for part in parts {
@@ -198,6 +192,20 @@ where
     }
     let sum = sum.unwrap_or_else(|| vec![0u64; entries * width]);
     Ok(sum.chunks_exact(width).map(to_integer).collect())
+}
+
+/// The results of scoped quadrature threads, in order; a thread that
+/// panicked is an error, not a panic of the caller.
+pub(crate) fn joined<T>(
+    handles: Vec<std::thread::ScopedJoinHandle<'_, Result<T>>>,
+) -> Vec<Result<T>> {
+    handles
+        .into_iter()
+        .map(|h| {
+            h.join()
+                .unwrap_or_else(|_| Err(Error::numeric("a quadrature thread failed")))
+        })
+        .collect()
 }
 
 fn add_wrapping(a: &mut [u64], b: &[u64]) {

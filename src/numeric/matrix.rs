@@ -1,16 +1,12 @@
 //! The truncated kernel on shared quadrature nodes, its tilt, and the two
-//! functionals read off an LU factorisation (lu.rs): the (1,1) element of
-//! the inverse and the log-determinant, all in MPFR.
+//! functionals read off an LU factorisation: the (1,1) element of the
+//! inverse and the log-determinant, all in MPFR.
 
 use rug::{Assign, Float};
 
 use super::contour::Node;
 use super::gram::{gram, Format};
-use crate::error::Result;
-
-mod lu;
-
-pub(crate) use lu::{factor, factor_nested};
+use crate::error::{Error, Result};
 
 /// The symmetric matrix S_ij = int_0^inf J_i(2gt) J_j(2gt) dt / (t (e^t - 1)),
 /// 1 <= i, j <= n, row-major (index (i-1) n + (j-1)).
@@ -144,5 +140,194 @@ pub(crate) fn tilted_system(s: &[Float], n: usize, k: usize, c2: &Float, prec: u
     a
 }
 
+/// What one factorisation yields.
+pub(crate) struct Solved {
+    /// [(1 + K')^{-1}]_11
+    pub inv11: Float,
+    /// ln det(1 + K')
+    pub ln_det: Float,
+    /// (1 + K')^-1 e_1
+    pub first_column: Vec<Float>,
+    /// (1 + K')^-T e_1, the first row of the inverse
+    pub first_row: Vec<Float>,
+}
+
+/// LU with partial pivoting of the k x k row-major matrix, read off for the
+/// leading `inner` x `inner` block as well as for the whole matrix.
+///
+/// For the first `inner` columns the pivot is searched among the first
+/// `inner` rows only: the row swaps then permute whole rows of the leading
+/// block among themselves, so after `inner` steps the leading part of the
+/// factorisation is the pivoted LU of that block, and its determinant and
+/// first inverse column come with the big one's. Returns (block, whole).
+pub(crate) fn factor_nested(
+    mut a: Vec<Float>,
+    k: usize,
+    inner: usize,
+    prec: u32,
+) -> Result<(Solved, Solved)> {
+    let inner = inner.clamp(1, k);
+    let mut rhs: Vec<Float> = (0..k)
+        .map(|i| Float::with_val(prec, if i == 0 { 1 } else { 0 }))
+        .collect();
+    let mut ln_det = Float::new(prec);
+    let mut negative = false;
+    let mut tmp = Float::new(prec);
+    let mut block = None;
+    let mut perm: Vec<usize> = (0..k).collect();
+    for c in 0..k {
+        if c == inner {
+            block = Some((ln_det.clone(), negative, rhs[..inner].to_vec()));
+        }
+        let rows = if c < inner { inner } else { k };
+        let mut p = c;
+        for r in (c + 1)..rows {
+            if a[r * k + c].cmp_abs(&a[p * k + c]) == Some(std::cmp::Ordering::Greater) {
+                p = r;
+            }
+        }
+        if a[p * k + c].is_zero() {
+            return Err(Error::numeric("the truncated kernel system is singular"));
+        }
+        if p != c {
+            for j in 0..k {
+                a.swap(p * k + j, c * k + j);
+            }
+            rhs.swap(p, c);
+            perm.swap(p, c);
+            negative = !negative;
+        }
+        let pivot = a[c * k + c].clone();
+        if pivot.is_sign_negative() {
+            negative = !negative;
+        }
+        ln_det += Float::with_val(prec, pivot.abs_ref()).ln();
+        for r in (c + 1)..k {
+            if a[r * k + c].is_zero() {
+                continue;
+            }
+            let f = Float::with_val(prec, &a[r * k + c] / &pivot);
+            a[r * k + c].assign(&f);
+            let (upper, lower) = a.split_at_mut(r * k);
+            for (x, y) in lower[c + 1..k]
+                .iter_mut()
+                .zip(&upper[c * k + c + 1..c * k + k])
+            {
+                tmp.assign(&f * y);
+                *x -= &tmp;
+            }
+            tmp.assign(&f * &rhs[c]);
+            rhs[r] -= &tmp;
+        }
+    }
+    let (block_det, block_negative, block_rhs) =
+        block.unwrap_or_else(|| (ln_det.clone(), negative, rhs.clone()));
+    let small = solved(&a, k, inner, block_rhs, block_det, block_negative, &perm)?;
+    let whole = solved(&a, k, k, rhs, ln_det, negative, &perm)?;
+    Ok((small, whole))
+}
+
+/// Back substitution in the leading `size` block of the factored matrix.
+fn solved(
+    a: &[Float],
+    k: usize,
+    size: usize,
+    mut rhs: Vec<Float>,
+    ln_det: Float,
+    negative: bool,
+    perm: &[usize],
+) -> Result<Solved> {
+    if negative {
+        return Err(Error::numeric(
+            "det(1 + K') came out negative: the truncation is not trustworthy",
+        ));
+    }
+    let mut tmp = Float::new(rhs[0].prec());
+    for r in (0..size).rev() {
+        for j in (r + 1)..size {
+            tmp.assign(&a[r * k + j] * &rhs[j]);
+            rhs[r] -= &tmp;
+        }
+        rhs[r] /= &a[r * k + r];
+    }
+    // The first row of the inverse: P M = L U gives M^T = U^T L^T P, so
+    // U^T y = e_1, then L^T z = y (L's multipliers are stored below the
+    // diagonal), and u = P^T z.
+    let prec = rhs[0].prec();
+    let mut y: Vec<Float> = (0..size).map(|_| Float::new(prec)).collect();
+    for i in 0..size {
+        let mut v = Float::with_val(prec, if i == 0 { 1 } else { 0 });
+        for j in 0..i {
+            tmp.assign(&a[j * k + i] * &y[j]);
+            v -= &tmp;
+        }
+        v /= &a[i * k + i];
+        y[i] = v;
+    }
+    for i in (0..size).rev() {
+        let mut v = std::mem::replace(&mut y[i], Float::new(prec));
+        for j in (i + 1)..size {
+            tmp.assign(&a[j * k + i] * &y[j]);
+            v -= &tmp;
+        }
+        y[i] = v;
+    }
+    let mut u: Vec<Float> = (0..size).map(|_| Float::new(prec)).collect();
+    for (i, z) in y.into_iter().enumerate() {
+        u[perm[i]] = z;
+    }
+    Ok(Solved {
+        inv11: rhs[0].clone(),
+        ln_det,
+        first_column: rhs,
+        first_row: u,
+    })
+}
+
+/// LU with partial pivoting of the k x k row-major matrix, then the first
+/// entry of the inverse's first column and the log of the determinant.
+pub(crate) fn factor(a: Vec<Float>, k: usize, prec: u32) -> Result<Solved> {
+    factor_nested(a, k, k, prec).map(|(_, whole)| whole)
+}
+
 #[cfg(test)]
-mod tests;
+mod tests {
+    use super::*;
+
+    #[test]
+    fn factor_small_system() {
+        // [[2, 1], [4, 5]]: det 6, inverse (1,1) = 5/6.
+        let a: Vec<Float> = [2, 1, 4, 5]
+            .iter()
+            .map(|&v| Float::with_val(100, v))
+            .collect();
+        let s = factor(a, 2, 100).unwrap();
+        let d = (s.ln_det - Float::with_val(100, 6).ln()).abs().to_f64();
+        assert!(d < 1e-28);
+        let e = (s.inv11 - Float::with_val(100, 5) / 6u32).abs().to_f64();
+        assert!(e < 1e-28);
+    }
+
+    #[test]
+    fn nested_factorisation_reads_block_and_whole() {
+        // The leading block [[1, -3], [4, 2]] needs a swap inside it and the
+        // first column's largest entry (9) lies outside it. By cofactor
+        // expansion: det(block) = 14, its inverse (1,1) = 2/14; det(whole) =
+        // 40, its inverse (1,1) = 24/40.
+        let vals = [1, -3, 0, 5, 4, 2, 1, 0, 9, 1, 2, 0, 0, 6, 1, 8];
+        let a: Vec<Float> = vals.iter().map(|&v| Float::with_val(120, v)).collect();
+        let (small, whole) = factor_nested(a, 4, 2, 120).unwrap();
+        let near = |x: &Float, want: f64| (x.to_f64() - want).abs() < 1e-15;
+        assert!(near(&small.ln_det, 14f64.ln()) && near(&small.inv11, 1.0 / 7.0));
+        assert!(near(&whole.ln_det, 40f64.ln()) && near(&whole.inv11, 0.6));
+    }
+
+    #[test]
+    fn negative_determinant_is_refused() {
+        let a: Vec<Float> = [1, 2, 3, 4]
+            .iter()
+            .map(|&v| Float::with_val(100, v))
+            .collect();
+        assert!(factor(a, 2, 100).is_err());
+    }
+}

@@ -230,7 +230,7 @@ fn attempt(
             let (whole, first_row, first_column) = match refined(&fine_system, n2, n, prec) {
                 Some(parts) => parts,
                 None => {
-                    let (small, whole) = factor_nested(fine_system.clone(), n2, n, prec)?;
+                    let (small, whole) = factor_nested(fine_system, n2, n, prec)?;
                     (whole.inv11, small.first_row, small.first_column)
                 }
             };

@@ -15,7 +15,8 @@
 use rug::{Assign, Float};
 
 use super::contour::Node;
-use crate::error::{Error, Result};
+use super::gram::joined;
+use crate::error::Result;
 
 /// The weights of the form: u and w = 4 j v, by order 1..=n.
 pub(crate) struct Form<'a> {
@@ -113,13 +114,7 @@ impl<'a> Form<'a> {
                     })
                 })
                 .collect();
-            handles
-                .into_iter()
-                .map(|h| {
-                    h.join()
-                        .unwrap_or_else(|_| Err(Error::numeric("a quadrature thread failed")))
-                })
-                .collect()
+            joined(handles)
         });
         let mut total = Float::new(prec);
         for p in parts {

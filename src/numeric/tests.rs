@@ -78,6 +78,16 @@ fn delta_untilted_closed_form() {
         check(Functional::Delta, "1", g, 30, &delta_untilted(&fl(g)));
     }
     check(Functional::Delta, "1", "10", 15, &delta_untilted(&fl("10")));
+    // A coupling that is no short binary fraction: an earlier fixed-point
+    // factorisation refused this system as singular.
+    let third = Float::with_val(P, 1) / 3u32;
+    let est = evaluate(Functional::Delta, &fl("1"), &third, 20).unwrap();
+    let diff = Float::with_val(P, &est.value - delta_untilted(&third)).abs();
+    assert!(
+        diff <= est.error,
+        "Delta at g = 1/3 off by {:.3e}",
+        diff.to_f64()
+    );
 }
 
 #[test]
